@@ -1,0 +1,33 @@
+import type { Knex } from 'knex'
+
+// The demo scenario is invented: Wrenfield Sheetworks, a community fabrication
+// workshop in the fictional river town of Wrenfield. Every name here is made up.
+export const DEMO_PASSWORD = 'kerfbook-demo'
+
+export const demoUsers = [
+  { email: 'admin@example.test', name: 'Odile Brannagh', role: 'admin' },
+  { email: 'staff@example.test', name: 'Tomasz Wreay', role: 'staff' },
+  { email: 'member@example.test', name: 'Juno Castellane', role: 'member' },
+  { email: 'ines@example.test', name: 'Ines Halloway', role: 'member' },
+  { email: 'reuben@example.test', name: 'Reuben Achterberg', role: 'member' },
+  { email: 'priya@example.test', name: 'Priya Lomond', role: 'member' },
+] as const
+
+export const demoSettings = {
+  workshopName: 'Wrenfield Sheetworks',
+  workshopTown: 'Wrenfield',
+  timeZone: 'Europe/Dublin',
+  currency: 'EUR',
+}
+
+/** Fills an empty database with the demo workshop. `hash` turns a password into a stored hash. */
+export async function seedDemo(knex: Knex, hash: (password: string) => Promise<string>): Promise<void> {
+  const passwordHash = await hash(DEMO_PASSWORD)
+  const verifiedAt = new Date().toISOString()
+  await knex.transaction(async (trx) => {
+    await trx('users').insert(demoUsers.map((u) => ({ ...u, password_hash: passwordHash, email_verified_at: verifiedAt })))
+    await trx('settings').insert(
+      Object.entries(demoSettings).map(([key, value]) => ({ key, value_json: JSON.stringify(value) })),
+    )
+  })
+}

@@ -1,0 +1,4 @@
+export default defineApiHandler(async (event) => {
+  await clearUserSession(event)
+  return { ok: true }
+})

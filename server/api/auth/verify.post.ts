@@ -1,0 +1,9 @@
+import { verifyEmailSchema } from '#shared/schemas/auth'
+import { verifyEmail } from '../../services/accounts'
+
+export default defineApiHandler(async (event) => {
+  const { token } = await readBodyAs(event, verifyEmailSchema)
+  const user = await verifyEmail(useDb(), token)
+  await replaceUserSession(event, { user })
+  return user
+})

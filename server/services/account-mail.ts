@@ -1,0 +1,32 @@
+import type { SessionUser } from '#shared/roles'
+
+// The account e-mails; each is sent by its route after the change it reports has committed.
+export function verificationMail(user: SessionUser, token: string) {
+  return sendMail({
+    to: user.email,
+    subject: 'Confirm your e-mail',
+    paragraphs: [`Hello ${user.name},`, 'Please confirm this e-mail address to finish setting up your account. The link works once and for 48 hours.'],
+    action: { label: 'Confirm my e-mail', url: `${serverConfig().appUrl}/verify?token=${token}` },
+  })
+}
+
+export function passwordResetMail(user: SessionUser, token: string) {
+  return sendMail({
+    to: user.email,
+    subject: 'Reset your password',
+    paragraphs: [
+      `Hello ${user.name},`,
+      'Someone asked to reset the password of your account. If it was you, choose a new password with the link below; it works once and for one hour.',
+      'If it was not you, ignore this message: your password stays as it is.',
+    ],
+    action: { label: 'Choose a new password', url: `${serverConfig().appUrl}/reset-password?token=${token}` },
+  })
+}
+
+export function passwordChangedMail(user: SessionUser) {
+  return sendMail({
+    to: user.email,
+    subject: 'Your password was changed',
+    paragraphs: [`Hello ${user.name},`, 'The password of your account was just changed. If you did not do this, reset it now and tell the workshop staff.'],
+  })
+}

@@ -1,0 +1,126 @@
+import type { Knex } from 'knex'
+import type { Role, SessionUser } from '#shared/roles'
+import { Conflict, Forbidden, InvalidInput, NotFound, Unauthorized } from '../utils/errors'
+import { consumeToken, issueToken } from './tokens'
+
+interface UserRow {
+  id: number
+  email: string
+  name: string
+  role: Role
+  password_hash: string
+  email_verified_at: string | null
+  disabled_at: string | null
+  created_at: string
+}
+
+export interface UserListItem extends SessionUser {
+  verified: boolean
+  disabled: boolean
+  createdAt: string
+}
+
+const BAD_CREDENTIALS = 'E-mail or password is wrong.'
+// Verified against when the e-mail is unknown, so both failures take the same time.
+let dummyHash: Promise<string> | undefined
+
+function toSessionUser(row: UserRow): SessionUser {
+  return { id: row.id, email: row.email, name: row.name, role: row.role }
+}
+
+function toListItem(row: UserRow): UserListItem {
+  return { ...toSessionUser(row), verified: !!row.email_verified_at, disabled: !!row.disabled_at, createdAt: row.created_at }
+}
+
+export async function findActiveUser(db: Knex, id: number): Promise<SessionUser | undefined> {
+  const row = await db<UserRow>('users').where({ id }).whereNull('disabled_at').first()
+  return row ? toSessionUser(row) : undefined
+}
+
+export async function signUp(db: Knex, input: { name: string; email: string; password: string }) {
+  const passwordHash = await hashPassword(input.password)
+  return db.transaction(async (trx) => {
+    if (await trx('users').where({ email: input.email }).first()) {
+      throw new Conflict('An account with this e-mail already exists. Sign in, or reset your password.', { fields: { email: 'Already registered.' } })
+    }
+    const [id] = await trx('users').insert({ name: input.name, email: input.email, password_hash: passwordHash, role: 'member' })
+    const token = await issueToken(trx, id!, 'verify-email')
+    return { user: { id: id!, email: input.email, name: input.name, role: 'member' as Role }, token }
+  })
+}
+
+export async function verifyEmail(db: Knex, token: string): Promise<SessionUser> {
+  return db.transaction(async (trx) => {
+    const userId = await consumeToken(trx, 'verify-email', token)
+    const now = new Date().toISOString()
+    await trx('users').where({ id: userId }).whereNull('email_verified_at').update({ email_verified_at: now, updated_at: now })
+    const row = await trx<UserRow>('users').where({ id: userId }).first()
+    return toSessionUser(row!)
+  })
+}
+
+/** Checks e-mail and password; unknown e-mail, wrong password and disabled account give one message. */
+export async function authenticate(db: Knex, email: string, password: string): Promise<SessionUser> {
+  const row = await db<UserRow>('users').where({ email }).first()
+  if (!row) {
+    dummyHash ??= hashPassword('not-a-real-password')
+    await verifyPassword(await dummyHash, password)
+    throw new Unauthorized(BAD_CREDENTIALS)
+  }
+  if (!(await verifyPassword(row.password_hash, password)) || row.disabled_at) throw new Unauthorized(BAD_CREDENTIALS)
+  if (!row.email_verified_at) throw new Forbidden('Please confirm your e-mail address first: open the link we sent you.')
+  return toSessionUser(row)
+}
+
+/** Returns a reset token for a known, enabled account, or null; the route answers the same either way. */
+export async function requestPasswordReset(db: Knex, email: string) {
+  return db.transaction(async (trx) => {
+    const row = await trx<UserRow>('users').where({ email }).whereNull('disabled_at').first()
+    if (!row) return null
+    return { user: toSessionUser(row), token: await issueToken(trx, row.id, 'reset-password') }
+  })
+}
+
+export async function resetPassword(db: Knex, token: string, newPassword: string): Promise<SessionUser> {
+  const passwordHash = await hashPassword(newPassword)
+  return db.transaction(async (trx) => {
+    const userId = await consumeToken(trx, 'reset-password', token)
+    const now = new Date().toISOString()
+    // Opening the reset link proves the address, so it also counts as verification.
+    await trx('users').where({ id: userId }).update({ password_hash: passwordHash, updated_at: now })
+    await trx('users').where({ id: userId }).whereNull('email_verified_at').update({ email_verified_at: now })
+    return toSessionUser((await trx<UserRow>('users').where({ id: userId }).first())!)
+  })
+}
+
+export async function changePassword(db: Knex, userId: number, currentPassword: string, newPassword: string): Promise<void> {
+  const row = await db<UserRow>('users').where({ id: userId }).first()
+  if (!row) throw new NotFound('Account not found.')
+  if (!(await verifyPassword(row.password_hash, currentPassword))) {
+    throw new InvalidInput('The current password is wrong.', { fields: { currentPassword: 'This is not your current password.' } })
+  }
+  await db('users').where({ id: userId }).update({ password_hash: await hashPassword(newPassword), updated_at: new Date().toISOString() })
+}
+
+export async function listUsers(db: Knex, filter: { role?: Role } = {}): Promise<UserListItem[]> {
+  const query = db<UserRow>('users').orderBy('name')
+  if (filter.role) query.where({ role: filter.role })
+  return (await query).map(toListItem)
+}
+
+/** Admin: change a role or disable/enable an account. An admin can't lock themselves out. */
+export async function updateUser(db: Knex, actorId: number, userId: number, change: { role?: Role; disabled?: boolean }): Promise<UserListItem> {
+  return db.transaction(async (trx) => {
+    const row = await trx<UserRow>('users').where({ id: userId }).first()
+    if (!row) throw new NotFound('No such account.')
+    if (userId === actorId && ((change.role && change.role !== 'admin') || change.disabled)) {
+      throw new Conflict('You cannot remove your own admin role or disable your own account.')
+    }
+    const now = new Date().toISOString()
+    const patch: Partial<UserRow> & { updated_at: string } = { updated_at: now }
+    if (change.role) patch.role = change.role
+    if (change.disabled !== undefined) patch.disabled_at = change.disabled ? (row.disabled_at ?? now) : null
+    await trx('users').where({ id: userId }).update(patch)
+    return toListItem((await trx<UserRow>('users').where({ id: userId }).first())!)
+  })
+}

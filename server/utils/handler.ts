@@ -1,0 +1,55 @@
+import { createError, defineEventHandler, getQuery, getRouterParams, readBody, setResponseHeader, type EventHandler, type EventHandlerRequest, type H3Event } from 'h3'
+import { ZodError, type ZodType } from 'zod'
+import { DomainError, InvalidInput, TooManyRequests } from './errors'
+
+/** Turns a zod failure into one readable sentence plus per-field messages for forms. */
+export function zodToInvalidInput(error: ZodError): InvalidInput {
+  const fields: Record<string, string> = {}
+  for (const issue of error.issues) {
+    const key = issue.path.join('.') || '_'
+    fields[key] ??= issue.message
+  }
+  const summary = Object.entries(fields)
+    .map(([field, message]) => (field === '_' ? message : `${field}: ${message}`))
+    .join('; ')
+  return new InvalidInput(`Please check the form: ${summary}`, { fields })
+}
+
+function toHttpError(event: H3Event, error: unknown): unknown {
+  if (error instanceof ZodError) error = zodToInvalidInput(error)
+  if (error instanceof TooManyRequests) setResponseHeader(event, 'Retry-After', String(error.retryAfterS))
+  if (error instanceof DomainError) {
+    return createError({ statusCode: error.status, statusMessage: error.name, message: error.message, data: error.details })
+  }
+  return error
+}
+
+/** defineEventHandler plus the mapping of typed service errors to HTTP status and message. */
+export function defineApiHandler<T>(handler: (event: H3Event<EventHandlerRequest>) => T | Promise<T>): EventHandler {
+  return defineEventHandler(async (event) => {
+    try {
+      return await handler(event)
+    } catch (error) {
+      throw toHttpError(event, error)
+    }
+  })
+}
+
+/** Reads a JSON body and validates it; malformed JSON and schema failures both become 400. */
+export async function readBodyAs<S extends ZodType>(event: H3Event, schema: S): Promise<import('zod').output<S>> {
+  let body: unknown
+  try {
+    body = await readBody(event, { strict: true })
+  } catch {
+    throw new InvalidInput('The request body is not valid JSON.')
+  }
+  return schema.parse(body ?? {})
+}
+
+export function readQueryAs<S extends ZodType>(event: H3Event, schema: S): import('zod').output<S> {
+  return schema.parse(getQuery(event))
+}
+
+export function readParamsAs<S extends ZodType>(event: H3Event, schema: S): import('zod').output<S> {
+  return schema.parse(getRouterParams(event))
+}

@@ -1,0 +1,122 @@
+import Database from 'better-sqlite3'
+import { describe, expect, inject, it } from 'vitest'
+import { client, DEMO_PASSWORD, linkToken, signedIn, uniqueEmail, waitForMail } from './helpers'
+
+describe('sign-up, verification, sign-in, sign-out', () => {
+  it('sends a verification mail that really arrives, and its link verifies the account', async () => {
+    const visitor = client()
+    const email = uniqueEmail('newcomer')
+    const signUp = await visitor.post('/api/auth/sign-up', { name: 'Ottoline Fenwick', email, password: 'long-enough-pass' })
+    expect(signUp.status).toBe(201)
+
+    // Before verification the password is right but the account can't sign in yet.
+    const early = await client().post('/api/auth/sign-in', { email, password: 'long-enough-pass' })
+    expect(early.status).toBe(403)
+
+    const mail = await waitForMail(email, /Confirm your e-mail/)
+    expect(mail.html).toContain('/verify?token=')
+    const token = linkToken(mail, '/verify')
+
+    const verified = await visitor.post('/api/auth/verify', { token })
+    expect(verified.status).toBe(200)
+    expect(verified.body).toMatchObject({ email, role: 'member' })
+    expect((await visitor.get('/api/me')).body).toMatchObject({ email })
+
+    // The link is single-use.
+    expect((await client().post('/api/auth/verify', { token })).status).toBe(400)
+
+    const member = client()
+    const signIn = await member.post('/api/auth/sign-in', { email, password: 'long-enough-pass' })
+    expect(signIn.status).toBe(200)
+    expect(member.hasCookie()).toBe(true)
+    expect((await member.get('/api/me')).status).toBe(200)
+
+    expect((await member.post('/api/auth/sign-out')).status).toBe(200)
+    expect((await member.get('/api/me')).status).toBe(401)
+  })
+
+  it('refuses a second account with the same e-mail, case-insensitively', async () => {
+    const response = await client().post('/api/auth/sign-up', { name: 'Copy', email: 'MEMBER@example.test', password: 'long-enough-pass' })
+    expect(response.status).toBe(409)
+    expect(response.body.data.fields.email).toBeTruthy()
+  })
+})
+
+describe('credentials and rate limits', () => {
+  it('gives the same 401 message for a wrong password and an unknown e-mail', async () => {
+    const wrongPassword = await client().post('/api/auth/sign-in', { email: 'member@example.test', password: 'not-the-password' })
+    const unknownEmail = await client().post('/api/auth/sign-in', { email: uniqueEmail('nobody'), password: 'not-the-password' })
+    expect(wrongPassword.status).toBe(401)
+    expect(unknownEmail.status).toBe(401)
+    expect(wrongPassword.body.message).toBe(unknownEmail.body.message)
+  })
+
+  it('answers the 11th quick attempt for one e-mail with 429 and Retry-After', async () => {
+    const email = 'ines@example.test'
+    const statuses: number[] = []
+    for (let i = 0; i < 11; i++) statuses.push((await client().post('/api/auth/sign-in', { email, password: 'wrong-password' })).status)
+    expect(statuses.slice(0, 10).every((s) => s === 401)).toBe(true)
+    expect(statuses[10]).toBe(429)
+    const blocked = await client().post('/api/auth/sign-in', { email, password: DEMO_PASSWORD })
+    expect(blocked.status).toBe(429)
+    expect(Number(blocked.headers.get('retry-after'))).toBeGreaterThan(0)
+  })
+
+  it('limits one address trying many e-mails', async () => {
+    const sameAddress = client('192.0.2.77')
+    const statuses: number[] = []
+    for (let i = 0; i < 11; i++) statuses.push((await sameAddress.post('/api/auth/sign-in', { email: uniqueEmail('probe'), password: 'x' })).status)
+    expect(statuses[9]).toBe(401)
+    expect(statuses[10]).toBe(429)
+  })
+})
+
+describe('password reset', () => {
+  it('sends a one-time link; it works once and the new password signs in', async () => {
+    const email = 'reuben@example.test'
+    const asked = await client().post('/api/auth/forgot-password', { email })
+    expect(asked.status).toBe(200)
+    const token = linkToken(await waitForMail(email, /Reset your password/), '/reset-password')
+
+    expect((await client().post('/api/auth/reset-password', { token, password: 'a-brand-new-secret' })).status).toBe(200)
+    expect((await client().post('/api/auth/reset-password', { token, password: 'a-second-new-secret' })).status).toBe(400)
+    expect((await client().post('/api/auth/sign-in', { email, password: 'a-brand-new-secret' })).status).toBe(200)
+    expect((await client().post('/api/auth/sign-in', { email, password: DEMO_PASSWORD })).status).toBe(401)
+  })
+
+  it('answers the same for an unknown address and sends nothing', async () => {
+    const email = uniqueEmail('ghost')
+    const known = await client().post('/api/auth/forgot-password', { email: 'priya@example.test' })
+    const unknown = await client().post('/api/auth/forgot-password', { email })
+    expect(unknown.status).toBe(known.status)
+    await expect(waitForMail(email, /Reset/, 500)).rejects.toThrow()
+  })
+
+  it('refuses an expired link', async () => {
+    const email = 'priya@example.test'
+    await client().post('/api/auth/forgot-password', { email })
+    const mail = await waitForMail(email, /Reset your password/)
+    const token = linkToken(mail, '/reset-password')
+    // Age the stored token past its expiry directly in the database file.
+    const db = new Database(inject('databasePath'))
+    db.prepare("update auth_tokens set expires_at = '2000-01-01T00:00:00.000Z' where purpose = 'reset-password' and used_at is null").run()
+    db.close()
+    const response = await client().post('/api/auth/reset-password', { token, password: 'another-new-secret' })
+    expect(response.status).toBe(400)
+    expect(response.body.message).toMatch(/expired/)
+  })
+})
+
+describe('change password', () => {
+  it('needs the current password', async () => {
+    const email = uniqueEmail('changer')
+    const visitor = client()
+    await visitor.post('/api/auth/sign-up', { name: 'Changer', email, password: 'first-password-1' })
+    await visitor.post('/api/auth/verify', { token: linkToken(await waitForMail(email, /Confirm/), '/verify') })
+    const wrong = await visitor.post('/api/me/password', { currentPassword: 'nope', newPassword: 'second-password-2' })
+    expect(wrong.status).toBe(400)
+    expect(wrong.body.data.fields.currentPassword).toBeTruthy()
+    expect((await visitor.post('/api/me/password', { currentPassword: 'first-password-1', newPassword: 'second-password-2' })).status).toBe(200)
+    expect((await client().post('/api/auth/sign-in', { email, password: 'second-password-2' })).status).toBe(200)
+  })
+})

@@ -1,0 +1,82 @@
+// Shared helpers for API tests: a cookie-keeping client per actor, and the mail sink.
+import { inject } from 'vitest'
+
+export const DEMO_PASSWORD = 'kerfbook-demo'
+
+export interface ApiResponse<T = unknown> {
+  status: number
+  headers: Headers
+  body: T
+}
+
+let addressCounter = 0
+
+/** A client that keeps its own session cookie and appears to come from its own IP address. */
+export function client(ip = `10.0.${Math.floor(Math.random() * 250)}.${++addressCounter % 250}`) {
+  const baseUrl = inject('baseUrl')
+  let cookie = ''
+  async function request<T = any>(method: string, path: string, body?: unknown, raw?: string): Promise<ApiResponse<T>> {
+    const headers: Record<string, string> = { 'x-forwarded-for': ip, accept: 'application/json' }
+    if (cookie) headers.cookie = cookie
+    if (body !== undefined || raw !== undefined) headers['content-type'] = 'application/json'
+    const response = await fetch(baseUrl + path, { method, headers, body: raw ?? (body === undefined ? undefined : JSON.stringify(body)) })
+    const setCookie = response.headers.getSetCookie()
+    for (const c of setCookie) {
+      const pair = c.split(';')[0]!
+      cookie = pair.endsWith('=') ? '' : pair
+    }
+    const text = await response.text()
+    let parsed: unknown = text
+    try {
+      parsed = JSON.parse(text)
+    } catch {
+      // not JSON
+    }
+    return { status: response.status, headers: response.headers, body: parsed as T }
+  }
+  return {
+    get: <T = any>(path: string) => request<T>('GET', path),
+    post: <T = any>(path: string, body?: unknown) => request<T>('POST', path, body ?? {}),
+    patch: <T = any>(path: string, body?: unknown) => request<T>('PATCH', path, body ?? {}),
+    put: <T = any>(path: string, body?: unknown) => request<T>('PUT', path, body ?? {}),
+    delete: <T = any>(path: string) => request<T>('DELETE', path),
+    raw: <T = any>(method: string, path: string, text: string) => request<T>(method, path, undefined, text),
+    hasCookie: () => cookie !== '',
+  }
+}
+
+export async function signedIn(email: string, password = DEMO_PASSWORD) {
+  const c = client()
+  const response = await c.post('/api/auth/sign-in', { email, password })
+  if (response.status !== 200) throw new Error(`sign-in as ${email} failed: ${response.status} ${JSON.stringify(response.body)}`)
+  return c
+}
+
+export interface SinkMessage {
+  to: string[]
+  subject: string
+  text: string
+  html: string
+}
+
+/** Waits for the newest message to `to` whose subject matches, as the SMTP sink received it. */
+export async function waitForMail(to: string, subject: RegExp, timeoutMs = 5000): Promise<SinkMessage> {
+  const deadline = Date.now() + timeoutMs
+  while (Date.now() < deadline) {
+    const messages = (await (await fetch(`${inject('outboxUrl')}/messages`)).json()) as SinkMessage[]
+    const found = messages.find((m) => m.to.includes(to) && subject.test(m.subject))
+    if (found) return found
+    await new Promise((r) => setTimeout(r, 100))
+  }
+  throw new Error(`No mail to ${to} matching ${subject} arrived within ${timeoutMs} ms`)
+}
+
+export function linkToken(mail: SinkMessage, path: string): string {
+  const match = mail.text.match(new RegExp(`${path}\\?token=([A-Za-z0-9_-]+)`))
+  if (!match) throw new Error(`No ${path} link in mail: ${mail.text}`)
+  return match[1]!
+}
+
+export function uniqueEmail(prefix: string): string {
+  return `${prefix}-${Date.now()}-${Math.floor(Math.random() * 1e6)}@example.test`
+}

@@ -1,0 +1,15 @@
+import type { Role } from '#shared/roles'
+
+export interface NavItem {
+  label: string
+  to: string
+  roles: Role[]
+}
+
+// The one list of top-level pages; the layout shows each item to the roles named.
+export const NAV_ITEMS: NavItem[] = [
+  { label: 'Overview', to: '/', roles: ['member', 'staff', 'admin'] },
+  { label: 'Members', to: '/staff/members', roles: ['staff', 'admin'] },
+  { label: 'Outbox', to: '/staff/outbox', roles: ['staff', 'admin'] },
+  { label: 'People & roles', to: '/admin/users', roles: ['admin'] },
+]
