@@ -6,7 +6,7 @@ export default defineNuxtConfig({
   dir: { app: '.' },
   modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils'],
   css: ['@fontsource/manrope/400.css', '@fontsource/manrope/600.css', '@fontsource/manrope/800.css'],
-  tailwindcss: { cssPath: '~/assets/css/tailwind.css' },
+  tailwindcss: { cssPath: '~/assets/css/tailwind.css', viewer: false },
   devtools: { enabled: false },
   telemetry: false,
   typescript: { strict: true },

@@ -1,7 +1,7 @@
 import { defineConfig } from 'vitest/config'
 
-// Two projects: pure engine/unit tests run without a server; API tests share
-// one built Nuxt server started by tests/setup/server.ts for the whole run.
+// Two projects: `unit` runs the pure engine and unit tests without a server; `app` runs the API
+// and browser tests against one built Nuxt server started by tests/setup/server.ts for the whole run.
 export default defineConfig({
   test: {
     projects: [
@@ -14,11 +14,11 @@ export default defineConfig({
       },
       {
         test: {
-          name: 'api',
-          include: ['tests/api/**/*.test.ts'],
+          name: 'app',
+          include: ['tests/api/**/*.test.ts', 'tests/browser/**/*.test.ts'],
           environment: 'node',
           globalSetup: ['tests/setup/server.ts'],
-          testTimeout: 30_000,
+          testTimeout: 60_000,
           hookTimeout: 300_000,
           fileParallelism: false,
         },
