@@ -1,0 +1,126 @@
+// Command-line analysis of one SVG cut pattern: `npm run analyze -- FILE.svg [--json] [options]`.
+import { readFileSync } from 'node:fs'
+import { parseArgs } from 'node:util'
+import { AnalysisInputError, type AnalysisParams, type AnalysisResult, analyzeSvg, DEFAULT_ANALYSIS_PARAMS, withDefaults } from '../server/analysis/index'
+
+const NUMBER_OPTIONS = {
+  speed: 'cutSpeedMmPerMin',
+  accel: 'accelMmPerS2',
+  rapid: 'rapidSpeedMmPerMin',
+  'pierce-s': 'pierceTimeS',
+  kerf: 'kerfMm',
+  thickness: 'thicknessMm',
+  'min-bridge': 'minBridgeMm',
+  'min-hole': 'minHoleMm',
+  margin: 'marginMm',
+  dpi: 'dpi',
+} as const satisfies Record<string, keyof AnalysisParams>
+
+const HELP = `Usage: npm run analyze -- FILE.svg [--json] [options]
+
+Measures an SVG cut pattern and estimates machine time, price and sheet fit.
+With --json, prints exactly the result JSON on stdout.
+
+Options (each overrides the default profile shown in brackets):
+  --speed MM_PER_MIN    cut speed [${DEFAULT_ANALYSIS_PARAMS.cutSpeedMmPerMin}]
+  --accel MM_PER_S2     acceleration, 0 = no limit [${DEFAULT_ANALYSIS_PARAMS.accelMmPerS2}]
+  --rapid MM_PER_MIN    rapid travel speed [${DEFAULT_ANALYSIS_PARAMS.rapidSpeedMmPerMin}]
+  --pierce-s S          time per pierce [${DEFAULT_ANALYSIS_PARAMS.pierceTimeS}]
+  --kerf MM             kerf width [${DEFAULT_ANALYSIS_PARAMS.kerfMm}]
+  --thickness MM        material thickness [${DEFAULT_ANALYSIS_PARAMS.thicknessMm}]
+  --min-bridge MM       minimum bridge [${DEFAULT_ANALYSIS_PARAMS.minBridgeMm}]
+  --min-hole MM         minimum hole [${DEFAULT_ANALYSIS_PARAMS.minHoleMm}]
+  --sheet WxH           stock sheet in mm [${DEFAULT_ANALYSIS_PARAMS.sheetWidthMm}x${DEFAULT_ANALYSIS_PARAMS.sheetHeightMm}]
+  --margin MM           edge margin [${DEFAULT_ANALYSIS_PARAMS.marginMm}]
+  --dpi N               pixels per inch for px sizes [${DEFAULT_ANALYSIS_PARAMS.dpi}]
+  --cutter ID --material ID   take the profile from the workshop's catalog (needs the database)
+
+Default profile (an invented demo laser, not a recommendation):
+${JSON.stringify(DEFAULT_ANALYSIS_PARAMS, null, 2)}
+`
+
+function main(argv: string[]): number {
+  const { values, positionals } = parseArgs({
+    args: argv,
+    allowPositionals: true,
+    options: {
+      json: { type: 'boolean' },
+      help: { type: 'boolean', short: 'h' },
+      sheet: { type: 'string' },
+      cutter: { type: 'string' },
+      material: { type: 'string' },
+      ...Object.fromEntries(Object.keys(NUMBER_OPTIONS).map((name) => [name, { type: 'string' as const }])),
+    },
+  })
+  if (values.help || positionals.length !== 1) {
+    process.stdout.write(HELP)
+    return values.help ? 0 : 2
+  }
+  if (values.cutter !== undefined || values.material !== undefined) {
+    process.stderr.write('--cutter and --material read the workshop catalog from the database, which this command does not open yet. Give explicit options (see --help) instead.\n')
+    return 2
+  }
+  const params = withDefaults(overridesFrom(values as Record<string, string | undefined>))
+  try {
+    const result = analyzeSvg(readFileSync(positionals[0], 'utf8'), params)
+    process.stdout.write(values.json ? `${JSON.stringify(result)}\n` : readableReport(result))
+    return 0
+  } catch (error) {
+    if (!(error instanceof AnalysisInputError)) throw error
+    process.stderr.write(`${error.message}\n`)
+    return 1
+  }
+}
+
+function overridesFrom(values: Record<string, string | undefined>): Partial<AnalysisParams> {
+  const overrides: Partial<Record<keyof AnalysisParams, number>> = {}
+  for (const [option, field] of Object.entries(NUMBER_OPTIONS)) {
+    if (values[option] !== undefined) overrides[field] = optionNumber(option, values[option])
+  }
+  if (values.sheet !== undefined) {
+    const match = /^(\d+(?:\.\d+)?)x(\d+(?:\.\d+)?)$/i.exec(values.sheet)
+    if (!match) throw new Error(`--sheet wants WIDTHxHEIGHT in mm, e.g. 600x400 (got "${values.sheet}")`)
+    overrides.sheetWidthMm = Number(match[1])
+    overrides.sheetHeightMm = Number(match[2])
+  }
+  return overrides
+}
+
+function optionNumber(option: string, text: string): number {
+  const number = Number(text)
+  if (text.trim() === '' || !Number.isFinite(number) || number < 0) throw new Error(`--${option} wants a number of zero or more (got "${text}")`)
+  return number
+}
+
+function readableReport(result: AnalysisResult): string {
+  const rows: Array<[string, string]> = [
+    ['Bounding box', `${mm(result.bbox.width)} × ${mm(result.bbox.height)} at (${mm(result.bbox.x)}, ${mm(result.bbox.y)})`],
+    ['Cut length', `${mm(result.cut.lengthMm)} in ${result.cut.closedContours} closed and ${result.cut.openContours} open contours`],
+    ['Pierces', String(result.cut.pierces)],
+    ['Score length', mm(result.score.lengthMm)],
+    ['Engrave area', `${result.engrave.areaMm2.toFixed(1)} mm²`],
+    ['Travel', mm(result.travelMm)],
+    ['Time', `${seconds(result.time.totalS)} (cut ${seconds(result.time.cutS)}, score ${seconds(result.time.scoreS)}, engrave ${seconds(result.time.engraveS)}, pierce ${seconds(result.time.pierceS)}, travel ${seconds(result.time.travelS)}, setup ${seconds(result.time.setupS)})`],
+    ['Billable', `${result.billableMinutes} min`],
+    ['Price', `${(result.price.amount / 100).toFixed(2)} ${result.price.currency}`],
+    ['Sheet', result.sheet.fits ? `fits${result.sheet.rotated ? ' turned 90°' : ''}, ${result.sheet.copies} per sheet` : 'does not fit'],
+  ]
+  const width = Math.max(...rows.map(([label]) => label.length))
+  const findings = result.findings.map((finding) => `  ${finding.severity.padEnd(7)} ${finding.code} at (${mm(finding.x)}, ${mm(finding.y)}): ${finding.message}`)
+  return `${rows.map(([label, value]) => `${label.padEnd(width)}  ${value}`).join('\n')}\n${findings.length ? `Findings:\n${findings.join('\n')}\n` : 'No findings.\n'}`
+}
+
+function mm(value: number): string {
+  return `${value.toFixed(2)} mm`
+}
+
+function seconds(value: number): string {
+  return `${value.toFixed(1)} s`
+}
+
+try {
+  process.exitCode = main(process.argv.slice(2))
+} catch (error) {
+  process.stderr.write(`${error instanceof Error ? error.message : String(error)}\n`)
+  process.exitCode = 2
+}

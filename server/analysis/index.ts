@@ -1,0 +1,88 @@
+import { chainPolylines } from './chain'
+import { AnalysisInputError } from './errors'
+import { flattenPath } from './flatten'
+import { estimateMachineTime } from './machineTime'
+import { measureContours } from './measure'
+import type { AnalysisParams } from './params'
+import { parseSvgXml } from './parseXml'
+import { OPERATION_BY_CODE, OPERATION_CODES, PolylineSet } from './polylines'
+import { billableMinutes, priceMinor } from './pricing'
+import { readSvgDocument } from './readSvg'
+import type { AnalysisResult, PreviewContour } from './result'
+import { fitOnSheet } from './sheetFit'
+
+export { AnalysisInputError, type AnalysisInputErrorKind } from './errors'
+export { DEFAULT_ANALYSIS_PARAMS, withDefaults, type AnalysisParams, type ColourRule, type Operation } from './params'
+export type { AnalysisResult, Finding, PreviewContour, Severity } from './result'
+
+export interface AnalyzeOptions {
+  /** Adds `contours` (polylines in mm with their operation) for a preview. */
+  includeContours?: boolean
+}
+
+/** The engine's geometry after chaining, for stages (and checks) that work on segments. */
+export interface AnalysedGeometry {
+  contours: PolylineSet
+  /** [minX, minY, maxX, maxY] per contour. */
+  bounds: Float64Array
+  /** Contour ids in cutting order (−1−i: contour i run backwards). */
+  runOrder: Int32Array
+}
+
+/**
+ * Reads an SVG cut pattern and says what the cutter will do: lengths, pierces,
+ * engrave area, travel, machine time, price and sheet fit. Synchronous and
+ * pure (no I/O); run it in a worker for large files. Throws only
+ * AnalysisInputError for files it cannot analyse.
+ */
+export function analyzeSvg(svgText: string, params: AnalysisParams, options: AnalyzeOptions = {}): AnalysisResult {
+  return analyzeSvgWithGeometry(svgText, params, options).result
+}
+
+export function analyzeSvgWithGeometry(svgText: string, params: AnalysisParams, options: AnalyzeOptions = {}): { result: AnalysisResult; geometry: AnalysedGeometry } {
+  const drawing = readSvgDocument(parseSvgXml(svgText), params)
+  const pieces = new PolylineSet()
+  drawing.elements.forEach((element, elementIndex) => {
+    flattenPath(element.pathData, element.matrix, params.chordToleranceMm, pieces, OPERATION_CODES[element.operation], elementIndex, element.filled)
+  })
+  const contours = chainPolylines(pieces, params.chainToleranceMm)
+  if (contours.count === 0) throw emptyDrawingError(drawing.findings.length > 0)
+  const bounds = contours.bounds()
+  const measurement = measureContours(contours, bounds, drawing.elements)
+  const machine = estimateMachineTime(contours, bounds, measurement.engrave.areaMm2, params)
+  const minutes = billableMinutes(machine.time.totalS, params.billingIncrementMinutes)
+  const { width, height } = measurement.bbox
+  const result: AnalysisResult = {
+    ...measurement,
+    travelMm: machine.travelMm,
+    time: machine.time,
+    billableMinutes: minutes,
+    price: { amount: priceMinor(minutes, params.pricePerMinuteMinor, width * height, params.materialPriceMinorPerM2), currency: params.currency },
+    sheet: fitOnSheet({
+      partWidthMm: width,
+      partHeightMm: height,
+      sheetWidthMm: params.sheetWidthMm,
+      sheetHeightMm: params.sheetHeightMm,
+      bedWidthMm: params.bedWidthMm,
+      bedHeightMm: params.bedHeightMm,
+      marginMm: params.marginMm,
+      spacingMm: params.kerfMm + params.partGapMm,
+    }),
+    findings: drawing.findings,
+  }
+  if (options.includeContours) result.contours = previewContours(contours)
+  return { result, geometry: { contours, bounds, runOrder: machine.runOrder } }
+}
+
+function emptyDrawingError(hasFindings: boolean): AnalysisInputError {
+  const hint = hasFindings ? ' It contains only text or images; convert them to paths.' : ''
+  return new AnalysisInputError('empty', `The drawing has no visible lines or shapes to cut, score or engrave.${hint}`)
+}
+
+function previewContours(contours: PolylineSet): PreviewContour[] {
+  return Array.from({ length: contours.count }, (_, index) => ({
+    operation: OPERATION_BY_CODE[contours.operation[index]],
+    closed: contours.closed[index] === 1,
+    points: Array.from(contours.xy.subarray(2 * contours.start[index], 2 * contours.start[index + 1]), (value) => Math.round(value * 1000) / 1000),
+  }))
+}

@@ -1,0 +1,42 @@
+import { parseSync, type INode } from 'svgson'
+import { AnalysisInputError } from './errors'
+
+const DOCTYPE_PATTERN = /<!DOCTYPE/i
+// An internal subset may declare entities; the parser leaves entity references
+// unexpanded, but refusing them up front keeps entity-expansion and
+// external-entity tricks out whatever the parser does in a later version.
+const ENTITY_DECLARATION_PATTERN = /<!ENTITY/i
+const SVG_ROOT_PATTERN = /<svg[\s>/]/
+
+/**
+ * Parses SVG text into an svgson tree. The XML reader svgson uses is
+ * iterative, so deep nesting costs time in proportion to the file, not stack.
+ */
+export function parseSvgXml(svgText: string): INode {
+  if (typeof svgText !== 'string' || !SVG_ROOT_PATTERN.test(svgText)) {
+    throw new AnalysisInputError('notSvg', 'This file is not an SVG drawing. Export the pattern as SVG and upload it again.')
+  }
+  if (ENTITY_DECLARATION_PATTERN.test(svgText)) {
+    throw new AnalysisInputError('unsafeXml', 'This SVG declares XML entities, which Kerfbook does not accept for safety. Save it again from your drawing program without a DOCTYPE.')
+  }
+  const text = stripDoctype(svgText)
+  let root: INode
+  try {
+    root = parseSync(text)
+  } catch {
+    throw new AnalysisInputError('malformedXml', 'This SVG file is damaged or incomplete (its XML could not be read). Save it again from your drawing program.')
+  }
+  if (Array.isArray(root) || root.name !== 'svg') {
+    throw new AnalysisInputError('notSvg', 'This file is not a single SVG drawing. Upload one SVG file with one <svg> root.')
+  }
+  return root
+}
+
+/** A plain DOCTYPE without an internal subset carries nothing we use. */
+function stripDoctype(svgText: string): string {
+  const match = DOCTYPE_PATTERN.exec(svgText)
+  if (!match) return svgText
+  const end = svgText.indexOf('>', match.index)
+  if (end < 0) return svgText
+  return svgText.slice(0, match.index) + svgText.slice(end + 1)
+}

@@ -1,0 +1,219 @@
+import type { INode } from 'svgson'
+import { parseColour, toHex } from './colour'
+import { ColourMapper } from './colourMapping'
+import { AnalysisInputError } from './errors'
+import { applyX, applyY, type Matrix, multiply, parseTransform, translation } from './matrix'
+import { parseNumberAttribute } from './numbers'
+import type { AnalysisParams } from './params'
+import type { DrawnOperation } from './polylines'
+import type { Finding } from './result'
+import { shapeToPathData } from './shapes'
+import { type ComputedStyle, computeStyle, INITIAL_STYLE } from './style'
+import { StyleSheet } from './stylesheet'
+import { parseViewBox, rootMatrix, viewBoxMatrix } from './viewport'
+
+/** A visible shape to flatten: its path data in user units and the matrix into mm. */
+export interface DrawnElement {
+  pathData: string
+  matrix: Matrix
+  operation: DrawnOperation
+  /** Filled shapes are engrave areas; their subpaths close implicitly. */
+  filled: boolean
+  fillRule: 'nonzero' | 'evenodd'
+}
+
+export interface ReadDrawing {
+  elements: DrawnElement[]
+  findings: Finding[]
+}
+
+// Common practice, no source: no drawing program nests groups this deep; deeper files are machine-made or hostile.
+const MAX_NESTING_DEPTH = 400
+// Bounds what <use> chains can multiply (each reference may repeat a whole subtree).
+const MAX_USE_DEPTH = 32
+const MAX_RENDERED_ELEMENTS = 2_000_000
+
+const NOT_RENDERED = new Set(['defs', 'clipPath', 'mask', 'symbol', 'marker', 'pattern', 'linearGradient', 'radialGradient', 'filter', 'style', 'title', 'desc', 'metadata', 'script', 'foreignObject'])
+const CONTAINERS = new Set(['g', 'a', 'switch', 'svg'])
+const SHAPES = new Set(['path', 'rect', 'circle', 'ellipse', 'line', 'polyline', 'polygon'])
+
+interface Pending {
+  node: INode
+  parentMatrix: Matrix
+  parentStyle: ComputedStyle
+  useDepth: number
+}
+
+/**
+ * Walks the svgson tree without recursion and lists what a renderer would
+ * paint, with each stroke's operation from the colour mapping. Text and
+ * raster images become findings, as do stroke colours the mapping lacks.
+ */
+export function readSvgDocument(root: INode, params: AnalysisParams): ReadDrawing {
+  const { byId, styleSheet } = indexDocument(root)
+  const mapper = new ColourMapper(params.colourMapping)
+  const elements: DrawnElement[] = []
+  const findings: Finding[] = []
+  const reportedColours = new Set<string>()
+  const stack: Pending[] = []
+  const pushChildren = (node: INode, matrix: Matrix, style: ComputedStyle, useDepth: number) => {
+    for (let index = node.children.length - 1; index >= 0; index--) stack.push({ node: node.children[index], parentMatrix: matrix, parentStyle: style, useDepth })
+  }
+  const rootStyle = computeStyle(root, INITIAL_STYLE, styleSheet)
+  pushChildren(root, multiply(rootMatrix(root.attributes, params.dpi), parseTransform(root.attributes.transform)), rootStyle, 0)
+  let rendered = 0
+
+  while (stack.length > 0) {
+    const { node, parentMatrix, parentStyle, useDepth } = stack.pop()!
+    if (node.type !== 'element' || NOT_RENDERED.has(node.name)) continue
+    if (++rendered > MAX_RENDERED_ELEMENTS) {
+      throw new AnalysisInputError('tooComplex', 'This drawing repeats shapes too often to analyse (its <use> references multiply into millions of shapes).')
+    }
+    const style = computeStyle(node, parentStyle, styleSheet)
+    if (style.displayNone) continue
+    let matrix = multiply(parentMatrix, parseTransform(node.attributes.transform))
+
+    if (CONTAINERS.has(node.name)) {
+      if (node.name === 'svg') matrix = multiply(matrix, nestedViewportMatrix(node))
+      pushChildren(node, matrix, style, useDepth)
+    } else if (node.name === 'use') {
+      if (useDepth >= MAX_USE_DEPTH) {
+        throw new AnalysisInputError('tooComplex', 'This drawing has <use> references nested too deep (or referring to themselves).')
+      }
+      expandUse(node, matrix, style, useDepth, byId, styleSheet, stack)
+    } else if (!style.visible) {
+      continue
+    } else if (SHAPES.has(node.name)) {
+      const pathData = shapeToPathData(node)
+      if (pathData) paintShape(pathData, matrix, style)
+    } else if (node.name === 'text') {
+      findings.push(elementFinding('text-not-outlined', 'Text that is not converted to paths is not cut. Convert the text to outlines (paths) in your drawing program.', node, matrix))
+    } else if (node.name === 'image') {
+      findings.push(elementFinding('raster-image', 'A raster image is not cut or engraved. Trace it into paths, or remove it if it is only a reference.', node, matrix))
+    }
+  }
+  return { elements, findings }
+
+  function paintShape(pathData: string, matrix: Matrix, style: ComputedStyle): void {
+    const stroke = resolvePaint(style.stroke, style)
+    const strokeVisible = stroke.kind !== 'none' && stroke.alpha * style.strokeOpacity * style.opacity > 0 && Number.parseFloat(style.strokeWidth) !== 0
+    if (strokeVisible) {
+      const operation = stroke.kind === 'colour' ? mapper.operationFor(stroke.colour, stroke.hex) : undefined
+      if (operation === undefined) reportUnmappedColour(stroke.label, pathData, matrix)
+      const effective = operation ?? params.unmappedStrokeOperation
+      if (effective !== 'ignore') elements.push({ pathData, matrix, operation: effective, filled: false, fillRule: style.fillRule })
+      return
+    }
+    const fill = resolvePaint(style.fill, style)
+    if (fill.kind === 'none' || fill.alpha * style.fillOpacity * style.opacity === 0) return
+    if (fill.kind === 'colour' && mapper.operationFor(fill.colour, fill.hex) === 'ignore') return
+    elements.push({ pathData, matrix, operation: 'engrave', filled: true, fillRule: style.fillRule })
+  }
+
+  function reportUnmappedColour(label: string, pathData: string, matrix: Matrix): void {
+    if (reportedColours.has(label)) return
+    reportedColours.add(label)
+    const [x, y] = firstCoordinates(pathData)
+    findings.push({
+      code: 'unmapped-colour',
+      severity: 'warning',
+      message: `Lines drawn in ${label} are not in the workshop's colour mapping; they are counted as "${params.unmappedStrokeOperation}". Use one of the workshop's colours to choose cut, score or engrave.`,
+      x: applyX(matrix, x, y),
+      y: applyY(matrix, x, y),
+    })
+  }
+}
+
+type Paint = { kind: 'none' } | { kind: 'colour'; colour: NonNullable<ReturnType<typeof parseColour>>; hex: string; label: string; alpha: number } | { kind: 'other'; label: string; alpha: number }
+
+function resolvePaint(value: string, style: ComputedStyle): Paint {
+  if (value === 'none') return { kind: 'none' }
+  const colourText = value.toLowerCase() === 'currentcolor' ? style.color : value
+  const colour = parseColour(colourText)
+  if (!colour) return { kind: 'other', label: `"${colourText.slice(0, 40)}"`, alpha: 1 }
+  if (colour.a === 0) return { kind: 'none' }
+  const hex = toHex(colour)
+  return { kind: 'colour', colour, hex, label: `colour ${hex}`, alpha: colour.a }
+}
+
+function expandUse(node: INode, matrix: Matrix, style: ComputedStyle, useDepth: number, byId: Map<string, INode>, styleSheet: StyleSheet, stack: Pending[]): void {
+  const reference = node.attributes.href ?? node.attributes['xlink:href']
+  const target = reference?.startsWith('#') ? byId.get(reference.slice(1)) : undefined
+  if (!target) return
+  const offset = translation(parseNumberAttribute(node.attributes.x, 'x', 0), parseNumberAttribute(node.attributes.y, 'y', 0))
+  // SVG 1.1 §5.6: x/y translate after the use element's own transform, before the target's.
+  if (target.name !== 'symbol') {
+    stack.push({ node: target, parentMatrix: multiply(matrix, offset), parentStyle: style, useDepth: useDepth + 1 })
+    return
+  }
+  // A symbol behaves as a nested viewport sized by the use element.
+  const symbolStyle = computeStyle(target, style, styleSheet)
+  if (symbolStyle.displayNone) return
+  const symbolMatrix = multiply(matrix, multiply(offset, symbolViewportMatrix(target, node)))
+  for (let index = target.children.length - 1; index >= 0; index--) {
+    stack.push({ node: target.children[index], parentMatrix: symbolMatrix, parentStyle: symbolStyle, useDepth: useDepth + 1 })
+  }
+}
+
+function symbolViewportMatrix(symbol: INode, use: INode): Matrix {
+  const viewBox = parseViewBox(symbol.attributes.viewBox)
+  if (!viewBox) return translation(0, 0)
+  const width = parseNumberAttribute(use.attributes.width ?? symbol.attributes.width, 'width', viewBox.width)
+  const height = parseNumberAttribute(use.attributes.height ?? symbol.attributes.height, 'height', viewBox.height)
+  return viewBoxMatrix(viewBox, width, height, symbol.attributes.preserveAspectRatio)
+}
+
+/** A nested <svg> (sizes in the parent's user units; percentages fall back to the viewBox size). */
+function nestedViewportMatrix(node: INode): Matrix {
+  const offset = translation(parseNumberAttribute(node.attributes.x, 'x', 0), parseNumberAttribute(node.attributes.y, 'y', 0))
+  const viewBox = parseViewBox(node.attributes.viewBox)
+  if (!viewBox) return offset
+  const userSize = (value: string | undefined, name: string, fallback: number) => (value === undefined || value.endsWith('%') ? fallback : parseNumberAttribute(value, name, fallback))
+  const width = userSize(node.attributes.width, 'width', viewBox.width)
+  const height = userSize(node.attributes.height, 'height', viewBox.height)
+  return multiply(offset, viewBoxMatrix(viewBox, width, height, node.attributes.preserveAspectRatio))
+}
+
+function elementFinding(code: string, message: string, node: INode, matrix: Matrix): Finding {
+  const x = firstNumberOf(node.attributes.x)
+  const y = firstNumberOf(node.attributes.y)
+  return { code, severity: 'warning', message, x: applyX(matrix, x, y), y: applyY(matrix, x, y) }
+}
+
+function firstNumberOf(value: string | undefined): number {
+  const number = Number.parseFloat(value ?? '')
+  return Number.isFinite(number) ? number : 0
+}
+
+function firstCoordinates(pathData: string): [number, number] {
+  const numbers = pathData.match(/[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?/g) ?? []
+  return [firstNumberOf(numbers[0]), firstNumberOf(numbers[1])]
+}
+
+/**
+ * One pass over the whole tree (with an explicit stack, so depth costs no
+ * call stack): refuses absurd nesting, finds elements by id for <use>, and
+ * collects <style> sheets, which apply wherever they appear.
+ */
+function indexDocument(root: INode): { byId: Map<string, INode>; styleSheet: StyleSheet } {
+  const byId = new Map<string, INode>()
+  const styleSheet = new StyleSheet()
+  const nodes: INode[] = [root]
+  const depths: number[] = [0]
+  while (nodes.length > 0) {
+    const node = nodes.pop()!
+    const depth = depths.pop()!
+    if (depth > MAX_NESTING_DEPTH) {
+      throw new AnalysisInputError('tooComplex', `This drawing nests groups more than ${MAX_NESTING_DEPTH} levels deep, which Kerfbook does not analyse. Flatten or ungroup it in your drawing program.`)
+    }
+    const id = node.attributes?.id
+    if (id && !byId.has(id)) byId.set(id, node)
+    if (node.name === 'style') styleSheet.add(node.children.map((child) => child.value).join(''))
+    for (const child of node.children ?? []) {
+      if (child.type !== 'element') continue
+      nodes.push(child)
+      depths.push(depth + 1)
+    }
+  }
+  return { byId, styleSheet }
+}
