@@ -1,4 +1,5 @@
 import type { Knex } from 'knex'
+import { seedDemoCatalog } from './demo-catalog'
 
 // The demo scenario is invented: Wrenfield Sheetworks, a community fabrication
 // workshop in the fictional river town of Wrenfield. Every name here is made up.
@@ -29,5 +30,6 @@ export async function seedDemo(knex: Knex, hash: (password: string) => Promise<s
     await trx('settings').insert(
       Object.entries(demoSettings).map(([key, value]) => ({ key, value_json: JSON.stringify(value) })),
     )
+    await seedDemoCatalog(trx)
   })
 }

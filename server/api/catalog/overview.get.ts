@@ -1,0 +1,6 @@
+import { cuttingOverview } from '../../services/catalog/overview'
+
+export default defineApiHandler(async (event) => {
+  await requireUser(event)
+  return cuttingOverview(useDb())
+})
