@@ -73,7 +73,7 @@ function main(argv: string[]): number {
 }
 
 function overridesFrom(values: Record<string, string | undefined>): Partial<AnalysisParams> {
-  const overrides: Partial<Record<keyof AnalysisParams, number>> = {}
+  const overrides: Partial<Record<(typeof NUMBER_OPTIONS)[keyof typeof NUMBER_OPTIONS] | 'sheetWidthMm' | 'sheetHeightMm', number>> = {}
   for (const [option, field] of Object.entries(NUMBER_OPTIONS)) {
     if (values[option] !== undefined) overrides[field] = optionNumber(option, values[option])
   }

@@ -118,7 +118,7 @@ export function flattenPath(pathData: string, matrix: Matrix, chordToleranceMm: 
  * quadrature undershoots near cusps.
  */
 function curveLength(fromX: number, fromY: number, segment: [string, ...number[]], chordsMm: number): number {
-  return Math.max(chordsMm, new svgPathProperties([['M', fromX, fromY], segment]).getTotalLength())
+  return Math.max(chordsMm, new svgPathProperties(`M${fromX} ${fromY}${segment.join(' ')}`).getTotalLength())
 }
 
 function addPoint(target: PolylineSet, x: number, y: number): void {

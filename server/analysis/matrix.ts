@@ -30,7 +30,7 @@ export function scaling(sx: number, sy: number): Matrix {
 
 export function parseTransform(transformAttribute: string | undefined): Matrix {
   if (!transformAttribute) return IDENTITY
-  return parseTransformList(transformAttribute).toArray() as Matrix
+  return parseTransformList(transformAttribute).toArray() as unknown as Matrix
 }
 
 export function applyX(m: Matrix, x: number, y: number): number {
