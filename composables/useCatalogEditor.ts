@@ -1,0 +1,70 @@
+// The create / edit / remove cycle every catalog page shares: one draft at a time, server errors per field,
+// a confirmation before removal, and a refresh of the list after each change.
+export function useCatalogEditor<Row extends { id: number }>(options: {
+  listUrl: string | (() => string)
+  itemUrl: string
+  blank: () => Record<string, any>
+  /** What of a row goes into the edit form. */
+  toDraft?: (row: Row) => Record<string, any>
+}) {
+  const list = useFetch<Row[]>(options.listUrl, { default: () => [] as Row[] })
+  const draft = ref<Record<string, any> | null>(null)
+  const editingId = ref<number | null>(null)
+  const saving = ref(false)
+  const notice = ref('')
+  const pendingRemoval = ref<Row | null>(null)
+  const errors = useFormErrors()
+
+  function startNew() {
+    errors.clear()
+    editingId.value = null
+    draft.value = options.blank()
+  }
+
+  function startEdit(row: Row) {
+    errors.clear()
+    editingId.value = row.id
+    draft.value = options.toDraft ? options.toDraft(row) : { ...row }
+  }
+
+  function cancel() {
+    draft.value = null
+    editingId.value = null
+    errors.clear()
+  }
+
+  async function save(body: Record<string, any> = draft.value ?? {}) {
+    saving.value = true
+    errors.clear()
+    try {
+      if (editingId.value === null) await $fetch(options.itemUrl, { method: 'POST', body })
+      else await $fetch(`${options.itemUrl}/${editingId.value}`, { method: 'PATCH', body })
+      notice.value = editingId.value === null ? 'Added.' : 'Saved.'
+      cancel()
+      await list.refresh()
+    } catch (error) {
+      errors.take(error)
+    } finally {
+      saving.value = false
+    }
+  }
+
+  async function remove() {
+    const row = pendingRemoval.value
+    if (!row) return
+    saving.value = true
+    errors.clear()
+    try {
+      const result = await $fetch<{ archived?: boolean } | null>(`${options.itemUrl}/${row.id}`, { method: 'DELETE' })
+      notice.value = result?.archived ? 'Archived: it is kept for the jobs that used it.' : 'Removed.'
+      await list.refresh()
+    } catch (error) {
+      errors.take(error)
+    } finally {
+      saving.value = false
+      pendingRemoval.value = null
+    }
+  }
+
+  return { list, rows: list.data, draft, editingId, saving, notice, errors, pendingRemoval, startNew, startEdit, cancel, save, remove }
+}

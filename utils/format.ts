@@ -1,0 +1,24 @@
+// Display formatting shared by every page. Money arrives as integer minor units (ISO 4217).
+export function formatMoney(amountMinor: number, currency: string): string {
+  const format = new Intl.NumberFormat('en-IE', { style: 'currency', currency })
+  const digits = format.resolvedOptions().maximumFractionDigits ?? 2
+  return format.format(amountMinor / 10 ** digits)
+}
+
+/** Converts a price typed in major units (e.g. 0.85) to minor units for the currency (85). */
+export function toMinorUnits(amountMajor: number, currency: string): number {
+  const digits = new Intl.NumberFormat('en-IE', { style: 'currency', currency }).resolvedOptions().maximumFractionDigits ?? 2
+  return Math.round(amountMajor * 10 ** digits)
+}
+
+export function formatMm(value: number | null | undefined): string {
+  return value === null || value === undefined ? '—' : `${Number(value.toFixed(2))} mm`
+}
+
+export function formatDate(iso: string | null | undefined): string {
+  return iso ? new Date(iso.length === 10 ? `${iso}T12:00:00Z` : iso).toLocaleDateString('en-IE', { day: 'numeric', month: 'short', year: 'numeric' }) : '—'
+}
+
+export function formatDateTime(iso: string): string {
+  return new Date(iso).toLocaleString('en-IE', { dateStyle: 'medium', timeStyle: 'short' })
+}
