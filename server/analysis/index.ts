@@ -1,4 +1,5 @@
 import { chainPolylines } from './chain'
+import { runDesignRuleChecks, sortBySeverity } from './checks/index'
 import { AnalysisInputError } from './errors'
 import { flattenPath } from './flatten'
 import { estimateMachineTime } from './machineTime'
@@ -14,6 +15,7 @@ import { fitOnSheet } from './sheetFit'
 export { AnalysisInputError, type AnalysisInputErrorKind } from './errors'
 export { DEFAULT_ANALYSIS_PARAMS, withDefaults, type AnalysisParams, type ColourRule, type Operation } from './params'
 export type { AnalysisResult, Finding, PreviewContour, Severity } from './result'
+export type { DesignRuleSummary } from './checks/index'
 
 export interface AnalyzeOptions {
   /** Adds `contours` (polylines in mm with their operation) for a preview. */
@@ -49,6 +51,7 @@ export function analyzeSvgWithGeometry(svgText: string, params: AnalysisParams, 
   if (contours.count === 0) throw emptyDrawingError(drawing.findings.length > 0)
   const bounds = contours.bounds()
   const measurement = measureContours(contours, bounds, drawing.elements)
+  const checks = runDesignRuleChecks({ contours, bounds }, params)
   const machine = estimateMachineTime(contours, bounds, measurement.engrave.areaMm2, params)
   const minutes = billableMinutes(machine.time.totalS, params.billingIncrementMinutes)
   const { width, height } = measurement.bbox
@@ -68,7 +71,8 @@ export function analyzeSvgWithGeometry(svgText: string, params: AnalysisParams, 
       marginMm: params.marginMm,
       spacingMm: params.kerfMm + params.partGapMm,
     }),
-    findings: drawing.findings,
+    findings: sortBySeverity([...drawing.findings, ...checks.findings]),
+    checks: checks.summary,
   }
   if (options.includeContours) result.contours = previewContours(contours)
   return { result, geometry: { contours, bounds, runOrder: machine.runOrder } }

@@ -28,6 +28,10 @@ export interface AnalysisParams {
   minHoleMm: number
   sheetWidthMm: number
   sheetHeightMm: number
+  /** The cutter kind's rule for this material, when the workshop's catalog gives one (absent: not checked). */
+  materialAllowed?: { allowed: boolean; reason: string }
+  /** Thickest material the cutter can cut (absent: not checked). */
+  cutterMaxThicknessMm?: number
   /** Edge margin kept free on every side of the usable area. */
   marginMm: number
   /** Gap between copies on the sheet, added to the kerf. */
@@ -51,6 +55,17 @@ export interface AnalysisParams {
   chainToleranceMm: number
 }
 
+const DEFAULT_THICKNESS_MM = 3
+
+/**
+ * Minimum bridge and hole when the process setting gives none. Common
+ * practice, no source: bridges narrower than about half the material
+ * thickness and holes smaller than about the thickness cut poorly or not at all.
+ */
+export function limitsForThickness(thicknessMm: number): Pick<AnalysisParams, 'minBridgeMm' | 'minHoleMm'> {
+  return { minBridgeMm: thicknessMm / 2, minHoleMm: thicknessMm }
+}
+
 /**
  * The default profile: an invented mid-size laser cutting 3 mm sheet. The
  * numbers are placeholders for a demo, not machine or safety recommendations —
@@ -67,10 +82,8 @@ export const DEFAULT_ANALYSIS_PARAMS: Readonly<AnalysisParams> = Object.freeze({
   engraveSpeedMmPerMin: 24000,
   engraveLineSpacingMm: 0.1,
   kerfMm: 0.15,
-  thicknessMm: 3,
-  // Common practice, no source: bridges and holes of about the material thickness or less are fragile.
-  minBridgeMm: 1.5,
-  minHoleMm: 3,
+  thicknessMm: DEFAULT_THICKNESS_MM,
+  ...limitsForThickness(DEFAULT_THICKNESS_MM),
   sheetWidthMm: 600,
   sheetHeightMm: 400,
   marginMm: 5,
@@ -94,7 +107,7 @@ export const DEFAULT_ANALYSIS_PARAMS: Readonly<AnalysisParams> = Object.freeze({
   chainToleranceMm: 0.01,
 })
 
-/** The default profile with the given fields replaced. */
+/** The default profile with the given fields replaced; minimum bridge and hole follow a given thickness unless given too. */
 export function withDefaults(overrides: Partial<AnalysisParams> = {}): AnalysisParams {
-  return { ...DEFAULT_ANALYSIS_PARAMS, ...overrides }
+  return { ...DEFAULT_ANALYSIS_PARAMS, ...limitsForThickness(overrides.thicknessMm ?? DEFAULT_THICKNESS_MM), ...overrides }
 }
