@@ -22,6 +22,6 @@ export default defineNuxtConfig({
   },
   nitro: {
     // Native and dialect-probing packages stay outside the bundle; Nitro copies them into .output.
-    externals: { external: ['knex', 'better-sqlite3'] },
+    externals: { external: ['knex', 'better-sqlite3', 'piscina'] },
   },
 })

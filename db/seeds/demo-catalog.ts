@@ -99,7 +99,7 @@ const demoSettings: SettingRow[] = [
   [1, 'Galvanised steel', 1.5, 3800, 1.3, 0.3, 2.5, 1.5, 8000, 8000, 1],
 ]
 
-// The workshop's own stroke-colour mapping (tolerance: largest difference per RGB channel).
+// The workshop's own stroke-colour mapping (tolerance: Euclidean distance in 8-bit RGB).
 export const demoColours = [
   { label: 'Cut through', hex: '#ff6a00', tolerance: 24, operation: 'cut' },
   { label: 'Score line', hex: '#7a3cff', tolerance: 24, operation: 'score' },

@@ -43,3 +43,13 @@ export class TooManyRequests extends DomainError {
     super(message, 429)
   }
 }
+export class PayloadTooLarge extends DomainError {
+  constructor(message: string) {
+    super(message, 413)
+  }
+}
+export class UnsupportedMediaType extends DomainError {
+  constructor(message: string) {
+    super(message, 415)
+  }
+}

@@ -1,23 +1,34 @@
 import { TooManyRequests } from './errors'
 
 const WINDOW_MS = 60_000
+const MESSAGE = 'Too many attempts. Please wait a minute and try again.'
 
 // In-memory sliding window per key; enough for one server process. Keys expire with their last hit.
 const hits = new Map<string, number[]>()
 
-/** Records one attempt for each key; throws TooManyRequests when any key is over `limit` per minute. */
-export function hitRateLimit(keys: string[], limit: number, now = Date.now()): void {
+function recent(key: string, now: number): number[] {
+  const times = (hits.get(key) ?? []).filter((t) => now - t < WINDOW_MS)
+  if (times.length) hits.set(key, times)
+  else hits.delete(key)
+  return times
+}
+
+/** Throws TooManyRequests (with the seconds until a slot frees) when any key already has `limit` hits this minute. */
+export function assertUnderRateLimit(keys: string[], limit: number, now = Date.now()): void {
   let retryAfterMs = 0
   for (const key of keys) {
-    const recent = (hits.get(key) ?? []).filter((t) => now - t < WINDOW_MS)
-    recent.push(now)
-    hits.set(key, recent)
-    if (recent.length > limit) retryAfterMs = Math.max(retryAfterMs, WINDOW_MS - (now - recent[recent.length - 1 - limit]!))
+    const times = recent(key, now)
+    if (times.length >= limit) retryAfterMs = Math.max(retryAfterMs, WINDOW_MS - (now - times[times.length - limit]!))
   }
-  if (retryAfterMs > 0) {
-    throw new TooManyRequests('Too many sign-in attempts. Please wait a minute and try again.', Math.ceil(retryAfterMs / 1000))
-  }
-  if (hits.size > 50_000) {
-    for (const [key, times] of hits) if (now - times[times.length - 1]! >= WINDOW_MS) hits.delete(key)
-  }
+  if (retryAfterMs > 0) throw new TooManyRequests(MESSAGE, Math.ceil(retryAfterMs / 1000))
+}
+
+export function recordRateLimitHit(keys: string[], now = Date.now()): void {
+  for (const key of keys) hits.set(key, [...recent(key, now), now])
+}
+
+/** Both at once, for actions where every attempt counts. */
+export function hitRateLimit(keys: string[], limit: number, now = Date.now()): void {
+  assertUnderRateLimit(keys, limit, now)
+  recordRateLimitHit(keys, now)
 }

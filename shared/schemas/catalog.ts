@@ -79,8 +79,8 @@ export const colourSchema = z.object({
     .trim()
     .toLowerCase()
     .regex(/^#[0-9a-f]{6}$/, { error: 'Colour is a hex value like #12ab34.' }),
-  // Largest distance per RGB channel (0–255) that still counts as this colour.
-  tolerance: wholeNumber('Tolerance', 0, 128),
+  // Largest Euclidean distance in 8-bit RGB that still counts as this colour (the engine's rule).
+  tolerance: wholeNumber('Tolerance', 0, 200),
   operation: z.enum(OPERATIONS, { error: `Operation must be one of ${OPERATIONS.join(', ')}.` }),
 })
 export type ColourInput = z.output<typeof colourSchema>

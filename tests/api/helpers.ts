@@ -15,10 +15,10 @@ let addressCounter = 0
 export function client(ip = `10.0.${Math.floor(Math.random() * 250)}.${++addressCounter % 250}`) {
   const baseUrl = inject('baseUrl')
   let cookie = ''
-  async function request<T = any>(method: string, path: string, body?: unknown, raw?: string): Promise<ApiResponse<T>> {
+  async function request<T = any>(method: string, path: string, body?: unknown, raw?: string | FormData): Promise<ApiResponse<T>> {
     const headers: Record<string, string> = { 'x-forwarded-for': ip, accept: 'application/json' }
     if (cookie) headers.cookie = cookie
-    if (body !== undefined || raw !== undefined) headers['content-type'] = 'application/json'
+    if (body !== undefined || typeof raw === 'string') headers['content-type'] = 'application/json'
     const response = await fetch(baseUrl + path, { method, headers, body: raw ?? (body === undefined ? undefined : JSON.stringify(body)) })
     const setCookie = response.headers.getSetCookie()
     for (const c of setCookie) {
@@ -41,6 +41,8 @@ export function client(ip = `10.0.${Math.floor(Math.random() * 250)}.${++address
     put: <T = any>(path: string, body?: unknown) => request<T>('PUT', path, body ?? {}),
     delete: <T = any>(path: string) => request<T>('DELETE', path),
     raw: <T = any>(method: string, path: string, text: string) => request<T>(method, path, undefined, text),
+    /** multipart/form-data, as a browser upload sends it. */
+    form: <T = any>(path: string, form: FormData) => request<T>('POST', path, undefined, form),
     hasCookie: () => cookie !== '',
   }
 }

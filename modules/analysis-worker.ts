@@ -1,0 +1,42 @@
+import { join, resolve } from 'node:path'
+import { build } from 'esbuild'
+import { defineNuxtModule } from 'nuxt/kit'
+
+// The analysis worker runs in its own thread, so it needs a file of its own: this module bundles
+// server/workers/analysis.worker.ts with esbuild into .nuxt/ for development and next to the
+// built server entry (.output/server/analysis-worker.mjs) for production.
+export const ANALYSIS_WORKER_FILE = 'analysis-worker.mjs'
+
+function bundleWorker(outfile: string) {
+  return build({
+    entryPoints: [resolve('server/workers/analysis.worker.ts')],
+    outfile,
+    bundle: true,
+    platform: 'node',
+    format: 'esm',
+    target: 'node20',
+    logLevel: 'warning',
+    // CommonJS dependencies inside an ES module bundle need a require of their own.
+    banner: { js: "import { createRequire as __kerfbookRequire } from 'node:module'; const require = __kerfbookRequire(import.meta.url);" },
+  })
+}
+
+export default defineNuxtModule({
+  meta: { name: 'kerfbook-analysis-worker' },
+  setup(_options, nuxt) {
+    const devBundle = join(nuxt.options.buildDir, ANALYSIS_WORKER_FILE)
+    if (nuxt.options.dev) {
+      nuxt.hook('ready', async () => {
+        await bundleWorker(devBundle)
+      })
+      nuxt.hook('builder:watch', async (_event, path) => {
+        if (/server\/(analysis|workers)\//.test(path)) await bundleWorker(devBundle)
+      })
+    }
+    nuxt.hook('nitro:init', (nitro) => {
+      nitro.hooks.hook('compiled', async () => {
+        if (!nuxt.options.dev) await bundleWorker(join(nitro.options.output.serverDir, ANALYSIS_WORKER_FILE))
+      })
+    })
+  },
+})
