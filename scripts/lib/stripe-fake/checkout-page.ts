@@ -48,7 +48,8 @@ function field(name: CheckoutField, form: CheckoutFormState, attributes: string,
   const describedBy = [hint ? `${id}-hint` : '', error ? `${id}-error` : ''].filter(Boolean).join(' ')
   const value = name === 'cvc' ? '' : (form.values[name] ?? '')
   return `<div>
-<label for="${id}">${escapeHtml(FIELD_LABELS[name])}${hint ? `<span class="hint" id="${id}-hint">${escapeHtml(hint)}</span>` : ''}</label>
+<label for="${id}">${escapeHtml(FIELD_LABELS[name])}</label>
+${hint ? `<span class="hint" id="${id}-hint">${escapeHtml(hint)}</span>` : ''}
 <input id="${id}" name="${name}" value="${escapeHtml(value)}" ${attributes}${describedBy ? ` aria-describedby="${describedBy}"` : ''}${error ? ' aria-invalid="true"' : ''}>
 ${error ? `<p class="field-error" id="${id}-error">${escapeHtml(error)}</p>` : ''}
 </div>`

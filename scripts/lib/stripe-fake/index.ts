@@ -17,7 +17,6 @@ import { StripeFakeState } from './store'
 import { WebhookSender, type WebhookDelivery, type WebhookEndpoint } from './webhooks'
 
 export { stripeSignatureHeader } from './webhooks'
-export { TEST_CARDS } from './test-cards'
 
 export interface StripeFakeOptions {
   /** 0 (the default) picks a free port. */

@@ -12,6 +12,16 @@ import {
   SUCCESS_URL,
 } from './helpers'
 
+/** A failed attempt leaves the session open and its PaymentIntent back at requires_payment_method (PaymentIntents API reference). */
+async function expectOpenAfterFailedPayment(stripe: Stripe, sessionId: string, errorCode: string): Promise<Stripe.PaymentIntent> {
+  const session = await stripe.checkout.sessions.retrieve(sessionId, { expand: ['payment_intent'] })
+  expect(session.status).toBe('open')
+  const paymentIntent = session.payment_intent as Stripe.PaymentIntent
+  expect(paymentIntent.status).toBe('requires_payment_method')
+  expect(paymentIntent.last_payment_error?.code).toBe(errorCode)
+  return paymentIntent
+}
+
 describe('the hosted checkout stand-in page and Stripe test cards', () => {
   it('serves a form whose every input has a label, with no external assets', async () => {
     const { stripe } = await startFakeWithSdk()
@@ -26,6 +36,7 @@ describe('the hosted checkout stand-in page and Stripe test cards', () => {
     for (const id of inputIds) expect(html).toContain(`<label for="${id}">`)
     expect(html).toContain(':focus-visible')
     expect(html).not.toMatch(/<(script|link)\b|src="http/)
+    // 45 minutes at €1.20 plus €8.00 setup, shown with the currency's two decimals.
     expect(html).toContain('€62.00')
   })
 
@@ -51,12 +62,8 @@ describe('the hosted checkout stand-in page and Stripe test cards', () => {
     expect(declined.status).toBe(402)
     expect(await declined.text()).toContain('Your card was declined.')
 
-    const open = await stripe.checkout.sessions.retrieve(session.id, { expand: ['payment_intent'] })
-    expect(open.status).toBe('open')
-    const paymentIntent = open.payment_intent as Stripe.PaymentIntent
-    // Testing docs: card_declined; the PaymentIntent goes back to requires_payment_method with last_payment_error.
-    expect(paymentIntent.status).toBe('requires_payment_method')
-    expect(paymentIntent.last_payment_error?.code).toBe('card_declined')
+    // Testing docs: a decline is a card_error with code card_declined.
+    const paymentIntent = await expectOpenAfterFailedPayment(stripe, session.id, 'card_declined')
     expect(paymentIntent.last_payment_error?.type).toBe('card_error')
     expect((await stripe.events.list({ type: 'payment_intent.payment_failed' })).data).toHaveLength(1)
     expect((await stripe.events.list({ type: 'checkout.session.completed' })).data).toHaveLength(0)
@@ -97,11 +104,7 @@ describe('the hosted checkout stand-in page and Stripe test cards', () => {
     const refused = await submitCheckoutForm(fake, session.id, 'authenticate', { decision: 'refuse' })
     expect(refused.status).toBe(402)
     expect(await refused.text()).toContain('unable to authenticate')
-    const open = await stripe.checkout.sessions.retrieve(session.id, { expand: ['payment_intent'] })
-    expect(open.status).toBe('open')
-    const paymentIntent = open.payment_intent as Stripe.PaymentIntent
-    expect(paymentIntent.status).toBe('requires_payment_method')
-    expect(paymentIntent.last_payment_error?.code).toBe('payment_intent_authentication_failure')
+    await expectOpenAfterFailedPayment(stripe, session.id, 'payment_intent_authentication_failure')
   })
 
   it('any other card number gets a "use a test card" message and creates no payment', async () => {
