@@ -1,6 +1,8 @@
 // Command-line analysis of one SVG cut pattern: `npm run analyze -- FILE.svg [--json] [options]`.
 import { readFileSync } from 'node:fs'
 import { parseArgs } from 'node:util'
+import { migrateLatest, openDatabase } from '../db/index'
+import { analysisParamsFor } from '../server/services/analysis-profile'
 import { AnalysisInputError, type AnalysisParams, type AnalysisResult, analyzeSvg, DEFAULT_ANALYSIS_PARAMS, withDefaults } from '../server/analysis/index'
 
 const NUMBER_OPTIONS = {
@@ -39,7 +41,7 @@ Default profile (an invented demo laser, not a recommendation):
 ${JSON.stringify(DEFAULT_ANALYSIS_PARAMS, null, 2)}
 `
 
-function main(argv: string[]): number {
+async function main(argv: string[]): Promise<number> {
   const { values, positionals } = parseArgs({
     args: argv,
     allowPositionals: true,
@@ -56,11 +58,12 @@ function main(argv: string[]): number {
     process.stdout.write(HELP)
     return values.help ? 0 : 2
   }
-  if (values.cutter !== undefined || values.material !== undefined) {
-    process.stderr.write('--cutter and --material read the workshop catalog from the database, which this command does not open yet. Give explicit options (see --help) instead.\n')
+  if ((values.cutter === undefined) !== (values.material === undefined)) {
+    process.stderr.write('Give both --cutter ID and --material ID (ids as listed on the catalog pages).\n')
     return 2
   }
-  const params = withDefaults(overridesFrom(values as Record<string, string | undefined>))
+  const base = values.cutter !== undefined ? await catalogProfile(Number(values.cutter), Number(values.material)) : withDefaults()
+  const params = { ...base, ...overridesFrom(values as Record<string, string | undefined>) }
   try {
     const result = analyzeSvg(readFileSync(positionals[0], 'utf8'), params)
     process.stdout.write(values.json ? `${JSON.stringify(result)}\n` : readableReport(result))
@@ -69,6 +72,17 @@ function main(argv: string[]): number {
     if (!(error instanceof AnalysisInputError)) throw error
     process.stderr.write(`${error.message}\n`)
     return 1
+  }
+}
+
+/** The profile the server would use for this cutter × material, read from DATABASE_PATH. */
+async function catalogProfile(cutterId: number, materialId: number): Promise<AnalysisParams> {
+  const db = openDatabase()
+  try {
+    await migrateLatest(db)
+    return await analysisParamsFor(db, { cutterId, materialId })
+  } finally {
+    await db.destroy()
   }
 }
 
@@ -118,9 +132,10 @@ function seconds(value: number): string {
   return `${value.toFixed(1)} s`
 }
 
-try {
-  process.exitCode = main(process.argv.slice(2))
-} catch (error) {
-  process.stderr.write(`${error instanceof Error ? error.message : String(error)}\n`)
-  process.exitCode = 2
-}
+main(process.argv.slice(2)).then(
+  (code) => (process.exitCode = code),
+  (error: unknown) => {
+    process.stderr.write(`${error instanceof Error ? error.message : String(error)}\n`)
+    process.exitCode = 2
+  },
+)
