@@ -1,6 +1,17 @@
 import type { AnalysedGeometry } from '../index'
 import type { AnalysisParams } from '../params'
 import type { Finding } from '../result'
+import { cutTimeS } from './cutTime'
+import { checkDuplicateCuts } from './duplicateCut'
+import { checkMaterialAllowed } from './materialNotAllowed'
+import { checkMergedCuts } from './mergedCuts'
+import { checkNarrowBridges } from './narrowBridge'
+import { checkOpenContours } from './openContour'
+import { checkOutsideSheet } from './outsideSheet'
+import { checkSelfIntersections } from './selfIntersection'
+import { checkSmallHoles } from './smallHole'
+import { checkTinySegments } from './tinySegment'
+import { checkThickness } from './tooThick'
 
 /** The design-rule checks' additions to the engine's result types (additive, optional fields). */
 declare module '../result' {
@@ -26,7 +37,18 @@ export interface DesignRuleSummary {
 export type CheckGeometry = Pick<AnalysedGeometry, 'contours' | 'bounds'>
 export type DesignRuleCheck = (geometry: CheckGeometry, params: AnalysisParams) => Finding[]
 
-const CHECKS: DesignRuleCheck[] = []
+const CHECKS: DesignRuleCheck[] = [
+  checkMaterialAllowed,
+  checkThickness,
+  checkOutsideSheet,
+  checkNarrowBridges,
+  checkMergedCuts,
+  checkSelfIntersections,
+  checkDuplicateCuts,
+  checkSmallHoles,
+  checkTinySegments,
+  checkOpenContours,
+]
 
 /** Runs every design-rule check on the chained geometry. */
 export function runDesignRuleChecks(geometry: CheckGeometry, params: AnalysisParams): { findings: Finding[]; summary: DesignRuleSummary } {
@@ -50,8 +72,4 @@ function summarise(findings: Finding[], params: AnalysisParams): DesignRuleSumma
     duplicateCutLengthMm,
     duplicateCutTimeS: cutTimeS(duplicateCutLengthMm, params),
   }
-}
-
-export function cutTimeS(lengthMm: number, params: AnalysisParams): number {
-  return lengthMm / (params.cutSpeedMmPerMin / 60)
 }

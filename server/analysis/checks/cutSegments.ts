@@ -1,0 +1,164 @@
+import Flatbush from 'flatbush'
+import { findContainers, nestingDepths } from '../containment'
+import { OPERATION_CODES, type PolylineSet } from '../polylines'
+import type { CheckGeometry } from './index'
+import { oncePerGeometry } from './memo'
+
+/**
+ * The straight segments of all cut contours in one flatbush index, with what
+ * the checks need to tell a bridge from a corner: the contour of each
+ * segment, distance along the contour and which side of a closed contour
+ * the material is on. Segment k runs from point `firstPoint[k]` to the next.
+ */
+export class CutSegments {
+  readonly contours: PolylineSet
+  readonly count: number
+  readonly firstPoint: Uint32Array
+  readonly contourOf: Uint32Array
+  /** Per point: distance from its contour's first point along the flattened chords. */
+  readonly alongMm: Float64Array
+  /**
+   * Per contour: +1 when the material lies where cross(direction of travel, offset) > 0,
+   * −1 when it lies on the other side, 0 for open cuts (material on both sides).
+   */
+  readonly materialSide: Int8Array
+  private readonly index: Flatbush | null
+
+  constructor(geometry: CheckGeometry) {
+    const { contours } = geometry
+    this.contours = contours
+    const cutIds = [...Array(contours.count).keys()].filter((id) => contours.operation[id] === OPERATION_CODES.cut)
+    this.count = cutIds.reduce((sum, id) => sum + contours.pointsOf(id) - 1, 0)
+    this.firstPoint = new Uint32Array(this.count)
+    this.contourOf = new Uint32Array(this.count)
+    this.alongMm = new Float64Array(contours.pointCount)
+    const { xy } = contours
+    let segment = 0
+    for (const id of cutIds) {
+      for (let point = contours.start[id]; point < contours.start[id + 1] - 1; point++, segment++) {
+        this.firstPoint[segment] = point
+        this.contourOf[segment] = id
+        this.alongMm[point + 1] = this.alongMm[point] + Math.hypot(xy[2 * point + 2] - xy[2 * point], xy[2 * point + 3] - xy[2 * point + 1])
+      }
+    }
+    this.materialSide = materialSides(geometry, cutIds)
+    this.index = this.count > 0 ? new Flatbush(this.count) : null
+    if (this.index === null) return
+    for (let k = 0; k < this.count; k++) {
+      const point = this.firstPoint[k]
+      this.index.add(Math.min(xy[2 * point], xy[2 * point + 2]), Math.min(xy[2 * point + 1], xy[2 * point + 3]), Math.max(xy[2 * point], xy[2 * point + 2]), Math.max(xy[2 * point + 1], xy[2 * point + 3]))
+    }
+    this.index.finish()
+  }
+
+  /** Calls `visit(a, b)` once for every pair a < b of segments whose boxes come within `reachMm` of each other. */
+  forEachPairWithin(reachMm: number, visit: (a: number, b: number) => void): void {
+    for (let a = 0; a < this.count; a++) {
+      this.forEachNear(this.boxOf(a, reachMm), (b) => {
+        if (b > a) visit(a, b)
+      })
+    }
+  }
+
+  /** Calls `visit` for every segment whose box meets [minX, minY, maxX, maxY]. */
+  forEachNear(box: readonly [number, number, number, number], visit: (segment: number) => void): void {
+    // The filter callback visits matches without building a result array.
+    this.index?.search(box[0], box[1], box[2], box[3], (segment) => {
+      visit(segment)
+      return false
+    })
+  }
+
+  boxOf(segment: number, marginMm: number): [number, number, number, number] {
+    const { xy } = this.contours
+    const point = this.firstPoint[segment]
+    return [Math.min(xy[2 * point], xy[2 * point + 2]) - marginMm, Math.min(xy[2 * point + 1], xy[2 * point + 3]) - marginMm, Math.max(xy[2 * point], xy[2 * point + 2]) + marginMm, Math.max(xy[2 * point + 1], xy[2 * point + 3]) + marginMm]
+  }
+
+  /** [ax, ay, bx, by] of a segment. */
+  ends(segment: number): [number, number, number, number] {
+    const offset = 2 * this.firstPoint[segment]
+    const { xy } = this.contours
+    return [xy[offset], xy[offset + 1], xy[offset + 2], xy[offset + 3]]
+  }
+
+  /** Segments of one contour that follow each other, including a closed contour's last and first. */
+  adjacent(a: number, b: number): boolean {
+    const contour = this.contourOf[a]
+    if (contour !== this.contourOf[b]) return false
+    const gap = Math.abs(this.firstPoint[a] - this.firstPoint[b])
+    return gap === 1 || (this.contours.closed[contour] === 1 && gap === this.contours.pointsOf(contour) - 2)
+  }
+
+  /** The neighbouring segments of one along its contour (one or two). */
+  neighbours(segment: number): number[] {
+    const contour = this.contourOf[segment]
+    const first = this.contours.start[contour]
+    const lastSegmentPoint = this.contours.start[contour + 1] - 2
+    const point = this.firstPoint[segment]
+    const closed = this.contours.closed[contour] === 1
+    const found: number[] = []
+    if (point > first) found.push(segment - 1)
+    else if (closed && lastSegmentPoint > first) found.push(segment + (lastSegmentPoint - first))
+    if (point < lastSegmentPoint) found.push(segment + 1)
+    else if (closed && lastSegmentPoint > first) found.push(segment - (lastSegmentPoint - first))
+    return found
+  }
+
+  /** Distance along the contour between parameter u of segment a and v of segment b (same contour; the shorter way round a closed one). */
+  alongBetweenMm(a: number, u: number, b: number, v: number): number {
+    const at = (segment: number, parameter: number) => {
+      const point = this.firstPoint[segment]
+      return this.alongMm[point] + parameter * (this.alongMm[point + 1] - this.alongMm[point])
+    }
+    const direct = Math.abs(at(a, u) - at(b, v))
+    const contour = this.contourOf[a]
+    if (this.contours.closed[contour] !== 1) return direct
+    const perimeter = this.alongMm[this.contours.start[contour + 1] - 1]
+    return Math.min(direct, perimeter - direct)
+  }
+
+  /** A closed cut whose inside drops out. */
+  isHole(contour: number): boolean {
+    const side = this.materialSide[contour]
+    return side !== 0 && side !== Math.sign(this.contours.signedArea(contour))
+  }
+
+  /** Whether the offset (dx, dy) from a point of the segment points into material, or along the cut (not clearly away from it). */
+  pointsIntoMaterial(segment: number, dx: number, dy: number): boolean {
+    const side = this.materialSide[this.contourOf[segment]]
+    if (side === 0) return true
+    const [ax, ay, bx, by] = this.ends(segment)
+    const cross = (bx - ax) * dy - (by - ay) * dx
+    return side * cross >= -ALONG_THE_CUT_RELATIVE * Math.hypot(bx - ax, by - ay) * Math.hypot(dx, dy)
+  }
+}
+
+// An offset within this angle (in radians, as a sine) of the cut's own direction counts as along it, not away from it.
+const ALONG_THE_CUT_RELATIVE = 1e-9
+
+/**
+ * Which side of each closed cut contour is material. Closed cuts nest: the
+ * outermost is a part (material inside), one inside it a hole, and so on.
+ * Open cuts that lie outside every closed cut mean the drawing is cut out of
+ * a sheet whose edge is not drawn (fold patterns often are): then the
+ * outermost closed cuts are holes in that sheet.
+ */
+function materialSides(geometry: CheckGeometry, cutIds: number[]): Int8Array {
+  const { contours, bounds } = geometry
+  const sides = new Int8Array(contours.count)
+  const closedIds = cutIds.filter((id) => contours.closed[id] === 1)
+  if (closedIds.length === 0) return sides
+  const parentOf = findContainers(contours, bounds, closedIds, cutIds)
+  const depth = nestingDepths(parentOf, closedIds)
+  const sheetIsUndrawn = cutIds.some((id) => contours.closed[id] === 0 && parentOf[id] < 0)
+  for (const id of closedIds) {
+    const insideIsMaterial = (depth[id] + (sheetIsUndrawn ? 1 : 0)) % 2 === 0
+    // A positive shoelace area means the inside is where cross(direction, offset) > 0.
+    sides[id] = Math.sign(contours.signedArea(id)) * (insideIsMaterial ? 1 : -1)
+  }
+  return sides
+}
+
+/** The cut segments of a geometry, built once and shared by the checks. */
+export const cutSegmentsOf = oncePerGeometry<void, CutSegments>(() => '', (geometry) => new CutSegments(geometry))
