@@ -1,9 +1,10 @@
 import svgpath from 'svgpath'
 import arcToCubics from 'svgpath/lib/a2c.js'
-import { svgPathProperties } from 'svg-path-properties'
+import { measuredCurveLength } from './curveLength'
 import { AnalysisInputError } from './errors'
 import type { Matrix } from './matrix'
 import type { PolylineSet } from './polylines'
+import { STEP_CLOSE, STEP_MOVE, StraightPath } from './straightPath'
 
 // Beyond a kilometre a coordinate is a drawing mistake (or 1e300), and sums of squares would overflow.
 const MAX_COORDINATE_MM = 1e6
@@ -20,96 +21,154 @@ interface SvgPathWithState {
  * one polyline per subpath, with chords no farther than `chordToleranceMm`
  * from the curve and the exact length of the transformed curves (svgpath
  * transforms arcs exactly, including skew; svg-path-properties measures them).
+ * Straight path data skips svgpath: the points it would give are the
+ * absolute user-space points through the matrix, computed here the same way.
  */
 export function flattenPath(pathData: string, matrix: Matrix, chordToleranceMm: number, target: PolylineSet, operationCode: number, elementIndex: number, forceClosed: boolean): void {
+  const subpaths = new SubpathWriter(target, operationCode, elementIndex, forceClosed)
+  if (straightPath.read(pathData)) flattenStraight(straightPath, matrix, subpaths)
+  else flattenWithSvgpath(pathData, matrix, chordToleranceMm, subpaths)
+  subpaths.finish(false)
+}
+
+const straightPath = new StraightPath()
+
+function flattenStraight(steps: StraightPath, matrix: Matrix, subpaths: SubpathWriter): void {
+  const [a, b, c, d, e, f] = matrix
+  // svgpath leaves points alone under the identity, so no arithmetic may touch them then.
+  const identity = a === 1 && b === 0 && c === 0 && d === 1 && e === 0 && f === 0
+  for (let step = 0; step < steps.count; step++) {
+    const kind = steps.kind[step]
+    if (kind === STEP_CLOSE) {
+      subpaths.finish(true)
+      continue
+    }
+    const userX = steps.x[step]
+    const userY = steps.y[step]
+    // svgpath's Matrix.calc, term for term.
+    const x = identity ? userX : userX * a + userY * c + e
+    const y = identity ? userY : userX * b + userY * d + f
+    if (kind === STEP_MOVE) subpaths.moveTo(x, y)
+    else subpaths.lineTo(x, y)
+  }
+}
+
+function flattenWithSvgpath(pathData: string, matrix: Matrix, chordToleranceMm: number, subpaths: SubpathWriter): void {
   const path = svgpath(pathData).matrix([...matrix]).abs().unshort() as unknown as SvgPathWithState
   if (path.err) {
     throw new AnalysisInputError('badNumber', `A shape's path data cannot be read (${path.err.replace(/^SvgPath: /, '')}). Save the file again from your drawing program.`)
   }
-  let startX = 0
-  let startY = 0
-  let x = 0
-  let y = 0
-  let open = false
-  let lengthMm = 0
-  const finish = (closedByCommand: boolean) => {
-    if (!open) return
-    if ((closedByCommand || forceClosed) && (x !== startX || y !== startY)) {
-      lengthMm += Math.hypot(startX - x, startY - y)
-      addPoint(target, startX, startY)
-    }
-    target.end(closedByCommand || forceClosed, lengthMm)
-    open = false
-    x = startX
-    y = startY
-  }
-  const ensureOpen = () => {
-    if (open) return
-    target.begin(operationCode, elementIndex)
-    addPoint(target, x, y)
-    open = true
-    lengthMm = 0
-  }
+  const { target } = subpaths
   for (const segment of path.segments) {
     const command = segment[0]
     switch (command) {
       case 'M':
-        finish(false)
-        x = startX = segment[1] as number
-        y = startY = segment[2] as number
+        subpaths.moveTo(segment[1] as number, segment[2] as number)
         break
       case 'Z':
-        finish(true)
+        subpaths.finish(true)
         break
       case 'L':
       case 'H':
-      case 'V': {
-        ensureOpen()
-        const toX = command === 'V' ? x : (segment[1] as number)
-        const toY = command === 'H' ? y : command === 'V' ? (segment[1] as number) : (segment[2] as number)
-        lengthMm += Math.hypot(toX - x, toY - y)
-        addPoint(target, toX, toY)
-        x = toX
-        y = toY
+      case 'V':
+        subpaths.lineTo(command === 'V' ? subpaths.x : (segment[1] as number), command === 'H' ? subpaths.y : command === 'V' ? (segment[1] as number) : (segment[2] as number))
         break
-      }
       case 'C':
       case 'Q': {
-        ensureOpen()
+        subpaths.ensureOpen()
+        const { x, y } = subpaths
         const [, ...numbers] = segment as [string, ...number[]]
         const chordsMm = command === 'C'
           ? addCubic(target, x, y, numbers[0], numbers[1], numbers[2], numbers[3], numbers[4], numbers[5], chordToleranceMm)
           : addQuadratic(target, x, y, numbers[0], numbers[1], numbers[2], numbers[3], chordToleranceMm)
-        lengthMm += curveLength(x, y, segment, chordsMm)
-        x = numbers[numbers.length - 2]
-        y = numbers[numbers.length - 1]
+        subpaths.curveTo(numbers[numbers.length - 2], numbers[numbers.length - 1], curveLength(x, y, segment, chordsMm))
         break
       }
       case 'A': {
-        ensureOpen()
+        subpaths.ensureOpen()
+        const { x, y } = subpaths
         const [, rx, ry, rotationDeg, largeArc, sweep, toX, toY] = segment as number[]
         if (toX === x && toY === y) break
         // SVG 1.1 F.6.2: an arc with a zero radius is a straight line.
         if (rx === 0 || ry === 0) {
-          lengthMm += Math.hypot(toX - x, toY - y)
-          addPoint(target, toX, toY)
-        } else {
-          // The cubics approximating an arc bulge slightly outside it, so their chords are no lower bound here.
-          lengthMm += curveLength(x, y, segment, 0)
-          for (const cubic of arcToCubics(x, y, toX, toY, largeArc, sweep, rx, ry, rotationDeg)) {
-            addCubic(target, cubic[0], cubic[1], cubic[2], cubic[3], cubic[4], cubic[5], cubic[6], cubic[7], chordToleranceMm)
-          }
-          // The cubics end on the arc's endpoint up to rounding; land exactly on it.
-          target.xy[2 * target.pointCount - 2] = toX
-          target.xy[2 * target.pointCount - 1] = toY
+          subpaths.lineTo(toX, toY)
+          break
         }
-        x = toX
-        y = toY
+        for (const cubic of arcToCubics(x, y, toX, toY, largeArc, sweep, rx, ry, rotationDeg)) {
+          addCubic(target, cubic[0], cubic[1], cubic[2], cubic[3], cubic[4], cubic[5], cubic[6], cubic[7], chordToleranceMm)
+        }
+        // The cubics end on the arc's endpoint up to rounding; land exactly on it.
+        target.xy[2 * target.pointCount - 2] = toX
+        target.xy[2 * target.pointCount - 1] = toY
+        // The cubics approximating an arc bulge slightly outside it, so their chords are no lower bound here.
+        subpaths.curveTo(toX, toY, curveLength(x, y, segment, 0))
         break
       }
     }
   }
-  finish(false)
+}
+
+/**
+ * Turns moves, lines and closes into polylines of `target`: a polyline
+ * begins at the first drawing command after a move, and a close (or a filled
+ * shape's implicit close) draws back to the subpath's start.
+ */
+class SubpathWriter {
+  x = 0
+  y = 0
+  private startX = 0
+  private startY = 0
+  private open = false
+  private lengthMm = 0
+
+  constructor(
+    readonly target: PolylineSet,
+    private readonly operationCode: number,
+    private readonly elementIndex: number,
+    private readonly forceClosed: boolean,
+  ) {}
+
+  moveTo(x: number, y: number): void {
+    this.finish(false)
+    this.x = this.startX = x
+    this.y = this.startY = y
+  }
+
+  lineTo(toX: number, toY: number): void {
+    this.ensureOpen()
+    this.lengthMm += Math.hypot(toX - this.x, toY - this.y)
+    addPoint(this.target, toX, toY)
+    this.x = toX
+    this.y = toY
+  }
+
+  /** After the curve's chords were added: moves the current point and counts the curve's own length. */
+  curveTo(toX: number, toY: number, curveLengthMm: number): void {
+    this.lengthMm += curveLengthMm
+    this.x = toX
+    this.y = toY
+  }
+
+  ensureOpen(): void {
+    if (this.open) return
+    this.target.begin(this.operationCode, this.elementIndex)
+    addPoint(this.target, this.x, this.y)
+    this.open = true
+    this.lengthMm = 0
+  }
+
+  finish(closedByCommand: boolean): void {
+    if (!this.open) return
+    const closed = closedByCommand || this.forceClosed
+    if (closed && (this.x !== this.startX || this.y !== this.startY)) {
+      this.lengthMm += Math.hypot(this.startX - this.x, this.startY - this.y)
+      addPoint(this.target, this.startX, this.startY)
+    }
+    this.target.end(closed, this.lengthMm)
+    this.open = false
+    this.x = this.startX
+    this.y = this.startY
+  }
 }
 
 /**
@@ -118,7 +177,7 @@ export function flattenPath(pathData: string, matrix: Matrix, chordToleranceMm: 
  * quadrature undershoots near cusps.
  */
 function curveLength(fromX: number, fromY: number, segment: [string, ...number[]], chordsMm: number): number {
-  return Math.max(chordsMm, new svgPathProperties(`M${fromX} ${fromY}${segment.join(' ')}`).getTotalLength())
+  return Math.max(chordsMm, measuredCurveLength(fromX, fromY, segment))
 }
 
 function addPoint(target: PolylineSet, x: number, y: number): void {

@@ -1,0 +1,177 @@
+/**
+ * Reads path data made only of straight commands (M, L, H, V, Z, relative or
+ * absolute) into absolute user-space points, without svgpath. Most of what
+ * drawing programs export for cut patterns (lines, polylines, polygons,
+ * square rects, slits) is like this, and for it one scan replaces svgpath's
+ * segment arrays. It follows svgpath's grammar (numbers, implicit repeats,
+ * `m` pairs becoming `l`), so both read the same points; anything it does not
+ * accept — another command, an exponent, an unusual separator, a syntax error
+ * — makes it answer false, and the caller uses svgpath, which also words the
+ * error messages.
+ */
+
+export const STEP_MOVE = 0
+export const STEP_LINE = 1
+export const STEP_CLOSE = 2
+
+const CHAR_SPACE = 0x20
+const CHAR_TAB = 0x09
+const CHAR_LINE_FEED = 0x0a
+const CHAR_CARRIAGE_RETURN = 0x0d
+const CHAR_COMMA = 0x2c
+const CHAR_PLUS = 0x2b
+const CHAR_MINUS = 0x2d
+const CHAR_DOT = 0x2e
+const CHAR_ZERO = 0x30
+const CHAR_NINE = 0x39
+const LOWER_CASE_BIT = 0x20
+
+// Powers of ten up to 1e22 are exact doubles, and so is any integer below 2^53:
+// their quotient is then correctly rounded, the same double parseFloat gives.
+const EXACT_POWERS_OF_TEN = Array.from({ length: 23 }, (_, exponent) => Number(`1e${exponent}`))
+const MAX_EXACT_DIGITS = 15
+
+/** The steps of one path, reused from element to element so a path costs no allocation. */
+export class StraightPath {
+  kind = new Uint8Array(64)
+  x = new Float64Array(64)
+  y = new Float64Array(64)
+  count = 0
+  private text = ''
+  private index = 0
+  private number = 0
+
+  /** Fills the steps from `pathData`; false when the data is not plain straight path data. */
+  read(pathData: string): boolean {
+    this.text = pathData
+    this.index = 0
+    this.count = 0
+    let currentX = 0
+    let currentY = 0
+    let subpathX = 0
+    let subpathY = 0
+    this.skipSpaces()
+    while (this.index < pathData.length) {
+      const command = pathData.charCodeAt(this.index)
+      const lowerCase = command | LOWER_CASE_BIT
+      const relative = command === lowerCase
+      if (this.count === 0 && lowerCase !== 0x6d /* m */) return false
+      this.index++
+      this.skipSpaces()
+      if (lowerCase === 0x7a /* z */) {
+        this.push(STEP_CLOSE, subpathX, subpathY)
+        currentX = subpathX
+        currentY = subpathY
+        continue
+      }
+      if (lowerCase !== 0x6d && lowerCase !== 0x6c /* l */ && lowerCase !== 0x68 /* h */ && lowerCase !== 0x76 /* v */) return false
+      // svgpath turns a first `m` into `M`, and the pairs after an `m` into `l`; relative values add to the current point as svgpath's abs() does.
+      const firstIsRelative = relative && this.count > 0
+      let firstPair = true
+      for (;;) {
+        const addsToCurrent = firstPair ? firstIsRelative : relative
+        if (lowerCase === 0x68 || lowerCase === 0x76) {
+          if (!this.scanNumber()) return false
+          if (lowerCase === 0x68) currentX = addsToCurrent ? this.number + currentX : this.number
+          else currentY = addsToCurrent ? this.number + currentY : this.number
+        } else {
+          if (!this.scanNumber()) return false
+          const x = this.number
+          this.skipSeparator()
+          if (!this.scanNumber()) return false
+          currentX = addsToCurrent ? x + currentX : x
+          currentY = addsToCurrent ? this.number + currentY : this.number
+        }
+        const commaFound = this.skipSeparator()
+        if (lowerCase === 0x6d && firstPair) {
+          this.push(STEP_MOVE, currentX, currentY)
+          subpathX = currentX
+          subpathY = currentY
+        } else {
+          this.push(STEP_LINE, currentX, currentY)
+        }
+        firstPair = false
+        if (commaFound) continue
+        if (this.index >= pathData.length || !startsNumber(pathData.charCodeAt(this.index))) break
+      }
+    }
+    return true
+  }
+
+  private push(kind: number, x: number, y: number): void {
+    if (this.count === this.kind.length) {
+      const size = this.count * 2
+      this.kind = grow(this.kind, new Uint8Array(size))
+      this.x = grow(this.x, new Float64Array(size))
+      this.y = grow(this.y, new Float64Array(size))
+    }
+    this.kind[this.count] = kind
+    this.x[this.count] = x
+    this.y[this.count] = y
+    this.count++
+  }
+
+  private skipSpaces(): void {
+    while (this.index < this.text.length && isSpace(this.text.charCodeAt(this.index))) this.index++
+  }
+
+  /** Spaces, then at most one comma and the spaces after it; true when there was a comma (a number must follow). */
+  private skipSeparator(): boolean {
+    this.skipSpaces()
+    if (this.text.charCodeAt(this.index) !== CHAR_COMMA) return false
+    this.index++
+    this.skipSpaces()
+    return true
+  }
+
+  /** One number in svgpath's grammar (no leading zero before a digit), without an exponent; into `this.number`. */
+  private scanNumber(): boolean {
+    const { text } = this
+    const start = this.index
+    let index = start
+    let code = text.charCodeAt(index)
+    const negative = code === CHAR_MINUS
+    if (negative || code === CHAR_PLUS) code = text.charCodeAt(++index)
+    let mantissa = 0
+    let digits = 0
+    let fractionDigits = 0
+    if (code === CHAR_ZERO && isDigit(text.charCodeAt(index + 1))) return false
+    while (isDigit(code)) {
+      mantissa = mantissa * 10 + (code - CHAR_ZERO)
+      digits++
+      code = text.charCodeAt(++index)
+    }
+    if (code === CHAR_DOT) {
+      code = text.charCodeAt(++index)
+      while (isDigit(code)) {
+        mantissa = mantissa * 10 + (code - CHAR_ZERO)
+        digits++
+        fractionDigits++
+        code = text.charCodeAt(++index)
+      }
+    }
+    if (digits === 0 || (code | LOWER_CASE_BIT) === 0x65 /* e */) return false
+    this.index = index
+    const magnitude = digits <= MAX_EXACT_DIGITS ? mantissa / EXACT_POWERS_OF_TEN[fractionDigits] : Number.parseFloat(text.slice(negative ? start + 1 : start, index))
+    // svgpath adds 0.0 to every number, which turns −0 into +0.
+    this.number = (negative ? -magnitude : magnitude) + 0
+    return true
+  }
+}
+
+function isDigit(code: number): boolean {
+  return code >= CHAR_ZERO && code <= CHAR_NINE
+}
+
+function startsNumber(code: number): boolean {
+  return isDigit(code) || code === CHAR_MINUS || code === CHAR_PLUS || code === CHAR_DOT
+}
+
+function isSpace(code: number): boolean {
+  return code === CHAR_SPACE || code === CHAR_TAB || code === CHAR_LINE_FEED || code === CHAR_CARRIAGE_RETURN
+}
+
+function grow<T extends Uint8Array | Float64Array>(old: T, grown: T): T {
+  grown.set(old)
+  return grown
+}
