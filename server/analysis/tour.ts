@@ -1,5 +1,3 @@
-import Flatbush from 'flatbush'
-
 /** Where each contour of a tour is entered and left (the same point for a closed one); any contour may be run backwards. */
 export interface TourStops {
   entryX: Float64Array
@@ -13,9 +11,9 @@ const TWO_OPT_WINDOW = 24
 const TWO_OPT_PASSES = 4
 
 /**
- * Orders the stops from (startX, startY): nearest neighbour through a
- * flatbush index of entry points, then windowed 2-opt passes. Returns the
- * order: stop indices, where −1−i means stop i run backwards.
+ * Orders the stops from (startX, startY): nearest neighbour through a grid
+ * of entry and exit points, then windowed 2-opt passes. Returns the order:
+ * stop indices, where −1−i means stop i run backwards.
  */
 export function planTour(stops: TourStops, count: number, startX: number, startY: number): Int32Array {
   const order = nearestNeighbourOrder(stops, count, startX, startY)
@@ -26,27 +24,165 @@ export function planTour(stops: TourStops, count: number, startX: number, startY
 function nearestNeighbourOrder(stops: TourStops, count: number, startX: number, startY: number): Int32Array {
   const order = new Int32Array(count)
   if (count === 0) return order
-  // Each stop is indexed at its entry (item 2i) and its exit (item 2i + 1): a tour may start it from either end.
-  const index = new Flatbush(2 * count)
-  for (let stop = 0; stop < count; stop++) {
-    index.add(stops.entryX[stop], stops.entryY[stop])
-    index.add(stops.exitX[stop], stops.exitY[stop])
-  }
-  index.finish()
-  const visited = new Uint8Array(count)
-  const usable = (item: number) => visited[item >> 1] === 0
+  const grid = new StopEndGrid(stops, count)
   let x = startX
   let y = startY
   for (let position = 0; position < count; position++) {
-    const [item] = index.neighbors(x, y, 1, Infinity, usable)
-    const stop = item >> 1
-    visited[stop] = 1
-    const backwards = (item & 1) === 1
+    const end = grid.nearest(x, y)
+    const stop = end >> 1
+    grid.remove(stop)
+    const backwards = (end & 1) === 1
     order[position] = backwards ? -1 - stop : stop
     x = backwards ? stops.entryX[stop] : stops.exitX[stop]
     y = backwards ? stops.entryY[stop] : stops.exitY[stop]
   }
   return order
+}
+
+// About two stop ends per cell: a query looks at a handful of points, and an emptied region costs one count test per cell.
+const ENDS_PER_CELL = 2
+
+/**
+ * Stop ends (2i: entry of stop i, 2i + 1: its exit) bucketed in a uniform
+ * grid, with the ends of stops already toured removed. The nearest end is
+ * searched ring by ring around the query's cell until no nearer ring can
+ * remain; equal distances go to the lower end id, so a closed contour (entry
+ * = exit) runs forwards.
+ */
+class StopEndGrid {
+  private readonly minX: number
+  private readonly minY: number
+  private readonly cellSizeMm: number
+  private readonly columns: number
+  private readonly rows: number
+  private readonly endX: Float64Array
+  private readonly endY: Float64Array
+  private readonly cellOfEnd: Uint32Array
+  /** Ends sorted by cell; cell c's live ends are slots cellStart[c] … cellStart[c] + liveInCell[c]. */
+  private readonly cellStart: Uint32Array
+  private readonly liveInCell: Uint32Array
+  private readonly endInSlot: Uint32Array
+  private readonly slotOfEnd: Uint32Array
+
+  constructor(stops: TourStops, count: number) {
+    const endCount = 2 * count
+    this.endX = new Float64Array(endCount)
+    this.endY = new Float64Array(endCount)
+    let minX = Infinity
+    let minY = Infinity
+    let maxX = -Infinity
+    let maxY = -Infinity
+    for (let stop = 0; stop < count; stop++) {
+      this.endX[2 * stop] = stops.entryX[stop]
+      this.endY[2 * stop] = stops.entryY[stop]
+      this.endX[2 * stop + 1] = stops.exitX[stop]
+      this.endY[2 * stop + 1] = stops.exitY[stop]
+    }
+    for (let end = 0; end < endCount; end++) {
+      minX = Math.min(minX, this.endX[end])
+      minY = Math.min(minY, this.endY[end])
+      maxX = Math.max(maxX, this.endX[end])
+      maxY = Math.max(maxY, this.endY[end])
+    }
+    const widthMm = maxX - minX
+    const heightMm = maxY - minY
+    const cellCount = Math.max(1, endCount / ENDS_PER_CELL)
+    // A drawing that is a single point or a line still needs a cell size above zero.
+    const cellSizeMm = widthMm > 0 && heightMm > 0 ? Math.sqrt((widthMm * heightMm) / cellCount) : Math.max(widthMm, heightMm) / cellCount || 1
+    this.minX = minX
+    this.minY = minY
+    this.cellSizeMm = cellSizeMm
+    this.columns = Math.min(Math.floor(widthMm / cellSizeMm) + 1, endCount)
+    this.rows = Math.min(Math.floor(heightMm / cellSizeMm) + 1, endCount)
+    this.cellOfEnd = new Uint32Array(endCount)
+    this.cellStart = new Uint32Array(this.columns * this.rows + 1)
+    this.liveInCell = new Uint32Array(this.columns * this.rows)
+    for (let end = 0; end < endCount; end++) {
+      const cell = this.cellIndex(this.column(this.endX[end]), this.row(this.endY[end]))
+      this.cellOfEnd[end] = cell
+      this.liveInCell[cell]++
+    }
+    for (let cell = 0; cell < this.liveInCell.length; cell++) this.cellStart[cell + 1] = this.cellStart[cell] + this.liveInCell[cell]
+    this.endInSlot = new Uint32Array(endCount)
+    this.slotOfEnd = new Uint32Array(endCount)
+    const filled = new Uint32Array(this.liveInCell.length)
+    for (let end = 0; end < endCount; end++) {
+      const cell = this.cellOfEnd[end]
+      const slot = this.cellStart[cell] + filled[cell]++
+      this.endInSlot[slot] = end
+      this.slotOfEnd[end] = slot
+    }
+  }
+
+  /** The nearest live end to (x, y); there must be one. */
+  nearest(x: number, y: number): number {
+    const centreColumn = this.column(x)
+    const centreRow = this.row(y)
+    const widestRing = Math.max(centreColumn, this.columns - 1 - centreColumn, centreRow, this.rows - 1 - centreRow)
+    const best = { end: -1, distanceSquared: Infinity }
+    for (let ring = 0; ring <= widestRing; ring++) {
+      if (ring > 0) {
+        // Every cell of this ring lies outside the block of the rings inside it.
+        const left = this.minX + (centreColumn - ring + 1) * this.cellSizeMm
+        const right = this.minX + (centreColumn + ring) * this.cellSizeMm
+        const top = this.minY + (centreRow - ring + 1) * this.cellSizeMm
+        const bottom = this.minY + (centreRow + ring) * this.cellSizeMm
+        const inside = x >= left && x <= right && y >= top && y <= bottom
+        const ringDistance = inside ? Math.min(x - left, right - x, y - top, bottom - y) : 0
+        if (best.distanceSquared < ringDistance * ringDistance) break
+      }
+      const firstRow = Math.max(0, centreRow - ring)
+      const lastRow = Math.min(this.rows - 1, centreRow + ring)
+      for (let row = firstRow; row <= lastRow; row++) {
+        const onEdgeRow = row === centreRow - ring || row === centreRow + ring
+        const step = onEdgeRow || ring === 0 ? 1 : 2 * ring
+        for (let column = centreColumn - ring; column <= centreColumn + ring; column += step) {
+          if (column >= 0 && column < this.columns) this.searchCell(this.cellIndex(column, row), x, y, best)
+        }
+      }
+    }
+    return best.end
+  }
+
+  remove(stop: number): void {
+    for (let end = 2 * stop; end <= 2 * stop + 1; end++) {
+      const cell = this.cellOfEnd[end]
+      const lastSlot = this.cellStart[cell] + --this.liveInCell[cell]
+      const slot = this.slotOfEnd[end]
+      const movedEnd = this.endInSlot[lastSlot]
+      this.endInSlot[slot] = movedEnd
+      this.slotOfEnd[movedEnd] = slot
+      this.endInSlot[lastSlot] = end
+      this.slotOfEnd[end] = lastSlot
+    }
+  }
+
+  private searchCell(cell: number, x: number, y: number, best: { end: number; distanceSquared: number }): void {
+    const first = this.cellStart[cell]
+    const end = first + this.liveInCell[cell]
+    for (let slot = first; slot < end; slot++) {
+      const candidate = this.endInSlot[slot]
+      const dx = this.endX[candidate] - x
+      const dy = this.endY[candidate] - y
+      const distanceSquared = dx * dx + dy * dy
+      if (distanceSquared < best.distanceSquared || (distanceSquared === best.distanceSquared && candidate < best.end)) {
+        best.end = candidate
+        best.distanceSquared = distanceSquared
+      }
+    }
+  }
+
+  private column(x: number): number {
+    return Math.min(this.columns - 1, Math.max(0, Math.floor((x - this.minX) / this.cellSizeMm)))
+  }
+
+  private row(y: number): number {
+    return Math.min(this.rows - 1, Math.max(0, Math.floor((y - this.minY) / this.cellSizeMm)))
+  }
+
+  private cellIndex(column: number, row: number): number {
+    return row * this.columns + column
+  }
 }
 
 /**
