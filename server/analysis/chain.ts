@@ -9,20 +9,21 @@ import { OPERATION_CODES, PolylineSet } from './polylines'
  */
 export function chainPolylines(pieces: PolylineSet, toleranceMm: number): PolylineSet {
   const contours = new PolylineSet()
-  const grid = new EndpointGrid(toleranceMm)
   const chainable = (index: number) => pieces.closed[index] === 0 && pieces.operation[index] !== OPERATION_CODES.engrave
-  for (let index = 0; index < pieces.count; index++) {
-    if (chainable(index)) {
-      grid.insert(2 * index, pieces.xy[2 * pieces.start[index]], pieces.xy[2 * pieces.start[index] + 1])
-      grid.insert(2 * index + 1, pieces.xy[2 * pieces.start[index + 1] - 2], pieces.xy[2 * pieces.start[index + 1] - 1])
-    }
-  }
-  const used = new Uint8Array(pieces.count)
   // Endpoint ids: 2·piece is a piece's start, 2·piece + 1 its end.
-  const endpointX = (endpoint: number) => pieces.xy[2 * endpointPoint(pieces, endpoint)]
-  const endpointY = (endpoint: number) => pieces.xy[2 * endpointPoint(pieces, endpoint) + 1]
-  const partnerOf = (endpoint: number) =>
-    grid.nearest(endpointX(endpoint), endpointY(endpoint), (candidate) => used[candidate >> 1] === 0 && pieces.operation[candidate >> 1] === pieces.operation[endpoint >> 1], endpointX, endpointY)
+  const endpointX = new Float64Array(2 * pieces.count)
+  const endpointY = new Float64Array(2 * pieces.count)
+  const gridded: number[] = []
+  for (let index = 0; index < pieces.count; index++) {
+    endpointX[2 * index] = pieces.xy[2 * pieces.start[index]]
+    endpointY[2 * index] = pieces.xy[2 * pieces.start[index] + 1]
+    endpointX[2 * index + 1] = pieces.xy[2 * pieces.start[index + 1] - 2]
+    endpointY[2 * index + 1] = pieces.xy[2 * pieces.start[index + 1] - 1]
+    if (chainable(index)) gridded.push(2 * index, 2 * index + 1)
+  }
+  const grid = new EndpointGrid(toleranceMm, gridded, endpointX, endpointY)
+  const used = new Uint8Array(pieces.count)
+  const partnerOf = (endpoint: number) => grid.nearestFree(endpoint, used, pieces.operation)
 
   for (let index = 0; index < pieces.count; index++) {
     if (used[index]) continue
@@ -63,11 +64,6 @@ export function chainPolylines(pieces: PolylineSet, toleranceMm: number): Polyli
   return contours
 }
 
-function endpointPoint(pieces: PolylineSet, endpoint: number): number {
-  const piece = endpoint >> 1
-  return endpoint & 1 ? pieces.start[piece + 1] - 1 : pieces.start[piece]
-}
-
 /** Appends a piece's points to the contour begun last (beginning one when `begin`), skipping the shared joint. */
 function copyPiece(pieces: PolylineSet, index: number, reversed: boolean, contours: PolylineSet, begin: boolean): void {
   if (begin) contours.begin(pieces.operation[index], pieces.element[index])
@@ -94,31 +90,78 @@ function closeIfEndsMeet(contours: PolylineSet, toleranceMm: number): boolean {
   return true
 }
 
-/** Endpoint ids bucketed by cell; a query looks at the 3 × 3 cells around a point. */
+/**
+ * Endpoint ids bucketed by cell (cells one tolerance wide, kept in an
+ * open-addressing table of typed arrays), in the order they were listed; a
+ * query looks at the 3 × 3 cells around a point.
+ */
 class EndpointGrid {
-  private readonly cells = new Map<number, number[]>()
+  private readonly cellColumn: Float64Array
+  private readonly cellRow: Float64Array
+  /** Table slot → cell id + 1 (0: empty). */
+  private readonly cellInSlot: Int32Array
+  private readonly slotMask: number
+  /** Endpoints of cell c are byCell[cellStart[c] … cellStart[c + 1]). */
+  private readonly cellStart: Uint32Array
+  private readonly byCell: Uint32Array
 
-  constructor(private readonly cellSizeMm: number) {}
-
-  insert(endpoint: number, x: number, y: number): void {
-    const key = this.key(Math.floor(x / this.cellSizeMm), Math.floor(y / this.cellSizeMm))
-    const bucket = this.cells.get(key)
-    if (bucket) bucket.push(endpoint)
-    else this.cells.set(key, [endpoint])
+  constructor(
+    private readonly cellSizeMm: number,
+    endpoints: number[],
+    private readonly endpointX: Float64Array,
+    private readonly endpointY: Float64Array,
+  ) {
+    let slots = 16
+    while (slots < 2 * endpoints.length) slots *= 2
+    this.slotMask = slots - 1
+    this.cellInSlot = new Int32Array(slots)
+    this.cellColumn = new Float64Array(endpoints.length)
+    this.cellRow = new Float64Array(endpoints.length)
+    const cellOfEndpoint = new Int32Array(endpoints.length)
+    let cellCount = 0
+    for (let listed = 0; listed < endpoints.length; listed++) {
+      const column = Math.floor(endpointX[endpoints[listed]] / cellSizeMm)
+      const row = Math.floor(endpointY[endpoints[listed]] / cellSizeMm)
+      let cell = this.cellAt(column, row)
+      if (cell < 0) {
+        cell = cellCount++
+        this.cellColumn[cell] = column
+        this.cellRow[cell] = row
+        this.cellInSlot[this.freeSlotFor(column, row)] = cell + 1
+      }
+      cellOfEndpoint[listed] = cell
+    }
+    this.cellStart = new Uint32Array(cellCount + 1)
+    for (let listed = 0; listed < endpoints.length; listed++) this.cellStart[cellOfEndpoint[listed] + 1]++
+    for (let cell = 0; cell < cellCount; cell++) this.cellStart[cell + 1] += this.cellStart[cell]
+    this.byCell = new Uint32Array(endpoints.length)
+    const filled = this.cellStart.slice(0, cellCount)
+    for (let listed = 0; listed < endpoints.length; listed++) this.byCell[filled[cellOfEndpoint[listed]]++] = endpoints[listed]
   }
 
-  nearest(x: number, y: number, accept: (endpoint: number) => boolean, endpointX: (endpoint: number) => number, endpointY: (endpoint: number) => number): number {
-    const cellX = Math.floor(x / this.cellSizeMm)
-    const cellY = Math.floor(y / this.cellSizeMm)
+  /**
+   * The nearest endpoint within one cell width of `endpoint` whose piece is
+   * not used yet and has the same operation (−1: none); of equal distances
+   * the one listed last in the last cell looked at wins.
+   */
+  nearestFree(endpoint: number, used: Uint8Array, operation: Uint8Array): number {
+    const x = this.endpointX[endpoint]
+    const y = this.endpointY[endpoint]
+    const column = Math.floor(x / this.cellSizeMm)
+    const row = Math.floor(y / this.cellSizeMm)
+    const wantedOperation = operation[endpoint >> 1]
     let best = -1
     let bestDistance = this.cellSizeMm
     for (let offsetX = -1; offsetX <= 1; offsetX++) {
       for (let offsetY = -1; offsetY <= 1; offsetY++) {
-        for (const endpoint of this.cells.get(this.key(cellX + offsetX, cellY + offsetY)) ?? []) {
-          if (!accept(endpoint)) continue
-          const distance = Math.hypot(endpointX(endpoint) - x, endpointY(endpoint) - y)
+        const cell = this.cellAt(column + offsetX, row + offsetY)
+        if (cell < 0) continue
+        for (let listed = this.cellStart[cell]; listed < this.cellStart[cell + 1]; listed++) {
+          const candidate = this.byCell[listed]
+          if (used[candidate >> 1] !== 0 || operation[candidate >> 1] !== wantedOperation) continue
+          const distance = Math.hypot(this.endpointX[candidate] - x, this.endpointY[candidate] - y)
           if (distance <= bestDistance) {
-            best = endpoint
+            best = candidate
             bestDistance = distance
           }
         }
@@ -127,8 +170,22 @@ class EndpointGrid {
     return best
   }
 
-  // Any fixed mapping works: cells that collide share a bucket, and the distance test sorts them out.
-  private key(cellX: number, cellY: number): number {
-    return cellX * 0x8000000 + cellY
+  private cellAt(column: number, row: number): number {
+    for (let slot = this.hash(column, row); ; slot = (slot + 1) & this.slotMask) {
+      const cell = this.cellInSlot[slot] - 1
+      if (cell < 0) return -1
+      if (this.cellColumn[cell] === column && this.cellRow[cell] === row) return cell
+    }
+  }
+
+  private freeSlotFor(column: number, row: number): number {
+    let slot = this.hash(column, row)
+    while (this.cellInSlot[slot] !== 0) slot = (slot + 1) & this.slotMask
+    return slot
+  }
+
+  // Any mixing works: cells that share a slot chain on, and the stored column and row tell them apart.
+  private hash(column: number, row: number): number {
+    return (Math.imul(column | 0, 0x9e3779b1) ^ Math.imul(row | 0, 0x85ebca77)) & this.slotMask
   }
 }
