@@ -55,6 +55,8 @@ export function readSvgDocument(root: INode, params: AnalysisParams): ReadDrawin
   const elements: DrawnElement[] = []
   const findings: Finding[] = []
   const reportedColours = new Set<string>()
+  // Thousands of shapes share a handful of colours: each colour text is parsed once.
+  const paints = new Map<string, Paint>()
   const stack: Pending[] = []
   const pushChildren = (node: INode, matrix: Matrix, style: ComputedStyle, useDepth: number) => {
     for (let index = node.children.length - 1; index >= 0; index--) stack.push({ node: node.children[index], parentMatrix: matrix, parentStyle: style, useDepth })
@@ -71,7 +73,8 @@ export function readSvgDocument(root: INode, params: AnalysisParams): ReadDrawin
     }
     const style = computeStyle(node, parentStyle, styleSheet)
     if (style.displayNone) continue
-    let matrix = multiply(parentMatrix, parseTransform(node.attributes.transform))
+    // Most elements carry no transform; they share their parent's matrix instead of multiplying by the identity.
+    let matrix = node.attributes.transform ? multiply(parentMatrix, parseTransform(node.attributes.transform)) : parentMatrix
 
     if (CONTAINERS.has(node.name)) {
       if (node.name === 'svg') matrix = multiply(matrix, nestedViewportMatrix(node))
@@ -93,6 +96,17 @@ export function readSvgDocument(root: INode, params: AnalysisParams): ReadDrawin
     }
   }
   return { elements, findings }
+
+  function resolvePaint(value: string, style: ComputedStyle): Paint {
+    if (value === 'none') return NO_PAINT
+    const colourText = value.toLowerCase() === 'currentcolor' ? style.color : value
+    let paint = paints.get(colourText)
+    if (!paint) {
+      paint = paintOfColour(colourText)
+      paints.set(colourText, paint)
+    }
+    return paint
+  }
 
   function paintShape(pathData: string, matrix: Matrix, style: ComputedStyle): void {
     const stroke = resolvePaint(style.stroke, style)
@@ -126,12 +140,12 @@ export function readSvgDocument(root: INode, params: AnalysisParams): ReadDrawin
 
 type Paint = { kind: 'none' } | { kind: 'colour'; colour: NonNullable<ReturnType<typeof parseColour>>; hex: string; label: string; alpha: number } | { kind: 'other'; label: string; alpha: number }
 
-function resolvePaint(value: string, style: ComputedStyle): Paint {
-  if (value === 'none') return { kind: 'none' }
-  const colourText = value.toLowerCase() === 'currentcolor' ? style.color : value
+const NO_PAINT: Paint = { kind: 'none' }
+
+function paintOfColour(colourText: string): Paint {
   const colour = parseColour(colourText)
   if (!colour) return { kind: 'other', label: `"${colourText.slice(0, 40)}"`, alpha: 1 }
-  if (colour.a === 0) return { kind: 'none' }
+  if (colour.a === 0) return NO_PAINT
   const hex = toHex(colour)
   return { kind: 'colour', colour, hex, label: `colour ${hex}`, alpha: colour.a }
 }

@@ -31,27 +31,31 @@ export const INITIAL_STYLE: ComputedStyle = {
   displayNone: false,
 }
 
-const STYLE_PROPERTIES = new Set(['stroke', 'fill', 'color', 'stroke-width', 'stroke-opacity', 'fill-opacity', 'opacity', 'visibility', 'display', 'fill-rule'])
+const STYLE_PROPERTIES = ['stroke', 'fill', 'color', 'stroke-width', 'stroke-opacity', 'fill-opacity', 'opacity', 'visibility', 'display', 'fill-rule']
 
-/** Presentation attributes first, then the style sheet, then the inline style: later wins (SVG 1.1 §6.4). */
-function collectDeclarations(node: INode, styleSheet: StyleSheet): Map<string, string> {
-  const declarations = new Map<string, string>()
+/**
+ * Presentation attributes first, then the style sheet, then the inline style:
+ * later wins (SVG 1.1 §6.4). Undefined when nothing applies, which is most
+ * elements of a large drawing, so they cost no map.
+ */
+function collectDeclarations(node: INode, styleSheet: StyleSheet): Map<string, string> | undefined {
+  let declarations: Map<string, string> | undefined
   for (const property of STYLE_PROPERTIES) {
     const value = node.attributes[property]
-    if (value !== undefined) declarations.set(property, value.trim())
+    if (value !== undefined) (declarations ??= new Map()).set(property, value.trim())
   }
   if (!styleSheet.isEmpty) {
-    for (const [property, value] of styleSheet.matching(node.name, node.attributes.class, node.attributes.id)) declarations.set(property, value)
+    for (const [property, value] of styleSheet.matching(node.name, node.attributes.class, node.attributes.id)) (declarations ??= new Map()).set(property, value)
   }
   if (node.attributes.style) {
-    for (const [property, value] of parseDeclarations(node.attributes.style)) declarations.set(property, value)
+    for (const [property, value] of parseDeclarations(node.attributes.style)) (declarations ??= new Map()).set(property, value)
   }
   return declarations
 }
 
 export function computeStyle(node: INode, parent: ComputedStyle, styleSheet: StyleSheet): ComputedStyle {
   const declarations = collectDeclarations(node, styleSheet)
-  if (declarations.size === 0) return parent
+  if (!declarations) return parent
   const value = (property: string) => {
     const raw = declarations.get(property)
     return raw === undefined || raw === 'inherit' ? undefined : raw
