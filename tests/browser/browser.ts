@@ -1,0 +1,211 @@
+// Real-browser test kit: Debian's Chromium driven by playwright-core against the shared test server.
+// Each test gets a fresh browser profile; it fails on any console error or failed request it did not
+// announce, and can check a page with axe-core.
+import { mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs'
+import { createRequire } from 'node:module'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
+import { fileURLToPath } from 'node:url'
+import type * as Axe from 'axe-core'
+import { chromium, type BrowserContext, type Page, type Request } from 'playwright-core'
+import { expect, inject, test } from 'vitest'
+import { DEMO_PASSWORD } from '../api/helpers'
+
+const CHROMIUM_PATH = '/usr/bin/chromium'
+// No GPU here, and nothing may leave the machine: no updates, sync or background fetches.
+const CHROMIUM_ARGS = [
+  '--headless',
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+  '--no-first-run',
+]
+const SCREENSHOT_DIR = fileURLToPath(new URL('../artifacts/screenshots/', import.meta.url))
+const AXE_SOURCE = readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.min.js'), 'utf8')
+// WCAG 2.0, 2.1 and 2.2 at levels A and AA; colour contrast is part of wcag2aa.
+const WCAG_AA_TAGS = ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa']
+
+let addressCounter = 0
+
+/** Something that went wrong in the page, as the browser reported it. */
+interface BrowserProblem {
+  kind: 'console error' | 'uncaught error' | 'request failed' | 'response'
+  text: string
+  url: string
+  status?: number
+}
+
+/** A problem the test provokes on purpose, such as the 401 of a wrong password. */
+interface ExpectedProblem {
+  description: string
+  matches: (problem: BrowserProblem) => boolean
+  seen: boolean
+}
+
+export class BrowserSession {
+  private readonly problems: BrowserProblem[] = []
+  private readonly expectedProblems: ExpectedProblem[] = []
+  private readonly inFlight = new Set<Request>()
+  private readonly leftBehind = new WeakSet<Request>()
+
+  private constructor(
+    readonly context: BrowserContext,
+    readonly page: Page,
+    private readonly profileDir: string,
+  ) {
+    context.on('console', (message) => {
+      if (message.type() === 'error') this.report({ kind: 'console error', text: message.text(), url: message.location().url })
+    })
+    context.on('weberror', (error) => this.report({ kind: 'uncaught error', text: error.error().message, url: error.page()?.url() ?? '' }))
+    context.on('request', (request) => this.inFlight.add(request))
+    context.on('requestfinished', (request) => this.inFlight.delete(request))
+    context.on('requestfailed', (request) => {
+      this.inFlight.delete(request)
+      const errorText = request.failure()?.errorText ?? ''
+      // Leaving a page cancels its prefetches: that is the test navigating, not the app failing.
+      if (errorText === 'net::ERR_ABORTED' && this.leftBehind.has(request)) return
+      this.report({ kind: 'request failed', text: `${request.method()} ${errorText}`, url: request.url() })
+    })
+    context.on('response', (response) => {
+      if (response.status() >= 400) this.report({ kind: 'response', text: response.request().method(), url: response.url(), status: response.status() })
+    })
+  }
+
+  private report(problem: BrowserProblem): void {
+    const expected = this.expectedProblems.find((e) => e.matches(problem))
+    if (expected) expected.seen = true
+    else this.problems.push(problem)
+  }
+
+  static async launch(): Promise<BrowserSession> {
+    const profileDir = mkdtempSync(join(tmpdir(), 'kerfbook-chromium-'))
+    const context = await chromium.launchPersistentContext(profileDir, {
+      executablePath: CHROMIUM_PATH,
+      headless: true,
+      args: CHROMIUM_ARGS,
+      baseURL: inject('baseUrl'),
+      viewport: { width: 1280, height: 800 },
+      // Every browser session would otherwise come from 127.0.0.1 and share one per-address sign-in
+      // limit; the test server trusts this header, so each session appears from its own address.
+      extraHTTPHeaders: { 'x-forwarded-for': `10.250.${Math.floor(Math.random() * 250)}.${++addressCounter % 250}` },
+    })
+    // Fail a missing element in seconds rather than at the 60 s test timeout.
+    context.setDefaultTimeout(10_000)
+    const page = context.pages()[0] ?? (await context.newPage())
+    return new BrowserSession(context, page, profileDir)
+  }
+
+  /** Announces a failed response the test causes on purpose; the test fails if it never happens. */
+  expectFailedResponse(status: number, url: RegExp): void {
+    this.expectedProblems.push({
+      description: `a ${status} response from ${url}`,
+      // Chromium logs every 4xx/5xx response once more as a console error naming its status.
+      matches: (p) => url.test(p.url) && (p.status === status || (p.kind === 'console error' && p.text.includes(`status of ${status}`))),
+      seen: false,
+    })
+  }
+
+  /** Announces a console error the test knows of; the test fails if it never happens, so it is noticed once fixed. */
+  expectConsoleError(text: RegExp): void {
+    this.expectedProblems.push({ description: `a console error matching ${text}`, matches: (p) => p.kind === 'console error' && text.test(p.text), seen: false })
+  }
+
+  /** Opens a path and waits until Nuxt has hydrated it, so clicks reach Vue rather than plain HTML. */
+  async open(path: string, expectedStatus = 200): Promise<void> {
+    for (const request of this.inFlight) this.leftBehind.add(request)
+    const response = await this.page.goto(path)
+    expect(response?.status(), `status of ${path}`).toBe(expectedStatus)
+    await waitForHydration(this.page)
+  }
+
+  unexpectedProblems(): string[] {
+    const unexpected = this.problems.map((p) => `${p.kind}${p.status ? ` ${p.status}` : ''}: ${p.text} (${p.url || 'no address'})`)
+    const neverSeen = this.expectedProblems.filter((e) => !e.seen).map((e) => `expected ${e.description}, which never came`)
+    return [...unexpected, ...neverSeen]
+  }
+
+  async close(): Promise<void> {
+    await this.context.close()
+    rmSync(this.profileDir, { recursive: true, force: true })
+  }
+}
+
+export async function waitForHydration(page: Page): Promise<void> {
+  await page.waitForFunction(() => {
+    const app = (document.querySelector('#__nuxt') as { __vue_app__?: { $nuxt?: { isHydrating?: boolean } } } | null)?.__vue_app__
+    return app?.$nuxt?.isHydrating === false
+  })
+}
+
+/** A vitest test with a fresh `browser` that must end without unexpected console errors or failed requests. */
+export const browserTest = test.extend<{ browser: BrowserSession }>({
+  // The empty pattern is required: vitest reads a fixture's dependencies from its first parameter.
+  browser: async ({}, use) => {
+    const browser = await BrowserSession.launch()
+    try {
+      await use(browser)
+      expect(browser.unexpectedProblems(), 'console errors or failed requests in the browser').toEqual([])
+    } finally {
+      await browser.close()
+    }
+  },
+})
+
+/** Saves a full-page screenshot as tests/artifacts/screenshots/<name>.png once the page is quiet. */
+export async function screenshot(page: Page, name: string): Promise<void> {
+  mkdirSync(SCREENSHOT_DIR, { recursive: true })
+  await page.waitForLoadState('networkidle')
+  await page.screenshot({ path: join(SCREENSHOT_DIR, `${name}.png`), fullPage: true })
+}
+
+/** Runs axe-core on the page as it is now and fails with a readable list of WCAG 2.2 AA violations. */
+export async function checkAccessibility(page: Page): Promise<void> {
+  await page.waitForLoadState('networkidle')
+  // Evaluated through the debugging protocol rather than a <script> tag, so a page's CSP cannot block it.
+  await page.evaluate(AXE_SOURCE)
+  const violations = await page.evaluate(async (tags) => {
+    const axe = (window as unknown as { axe: typeof Axe }).axe
+    const results = await axe.run(document, { runOnly: { type: 'tag', values: tags }, resultTypes: ['violations'] })
+    return results.violations.map((violation) => ({
+      id: violation.id,
+      impact: violation.impact,
+      help: violation.help,
+      nodes: violation.nodes.map((node) => ({ target: node.target.join(' '), summary: node.failureSummary ?? '' })),
+    }))
+  }, WCAG_AA_TAGS)
+  if (violations.length === 0) return
+  const report = violations
+    .map((v) => [`- ${v.id} (${v.impact}): ${v.help}`, ...v.nodes.map((n) => `    ${n.target}\n      ${n.summary.replaceAll('\n', '\n      ')}`)].join('\n'))
+    .join('\n')
+  throw new Error(`${violations.length} accessibility violation(s) on ${page.url()}:\n${report}`)
+}
+
+/** Opens /sign-in, fills in the form as a person would and presses the button. */
+export async function submitSignInForm(browser: BrowserSession, email: string, password: string): Promise<void> {
+  await browser.open('/sign-in')
+  const { page } = browser
+  await page.getByLabel('E-mail').fill(email)
+  await page.getByLabel('Password').fill(password)
+  await page.getByRole('button', { name: 'Sign in' }).click()
+}
+
+/** Signs in through the form and waits for the signed-in shell. */
+export async function signInThroughForm(browser: BrowserSession, email: string, password = DEMO_PASSWORD): Promise<void> {
+  await submitSignInForm(browser, email, password)
+  await waitForSignedIn(browser.page)
+}
+
+/** Waits until the sign-in page has sent the user on; the session store is set before that navigation ends. */
+export async function waitForSignedIn(page: Page): Promise<void> {
+  await page.waitForURL((url) => url.pathname !== '/sign-in')
+  await page.getByRole('button', { name: 'Sign out' }).waitFor()
+}
+
+/** Signs out with the header button and waits for the sign-in page. */
+export async function signOutThroughHeader(page: Page): Promise<void> {
+  await page.getByRole('button', { name: 'Sign out' }).click()
+  await page.waitForURL('**/sign-in')
+  await page.getByRole('heading', { name: 'Sign in' }).waitFor()
+}
