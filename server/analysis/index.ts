@@ -11,15 +11,19 @@ import { billableMinutes, priceMinor } from './pricing'
 import { readSvgDocument } from './readSvg'
 import type { AnalysisResult, PreviewContour } from './result'
 import { fitOnSheet } from './sheetFit'
+import { type StageTimeListener, stageTimer } from './stageTimer'
 
 export { AnalysisInputError, type AnalysisInputErrorKind } from './errors'
 export { DEFAULT_ANALYSIS_PARAMS, withDefaults, type AnalysisParams, type ColourRule, type Operation } from './params'
 export type { AnalysisResult, Finding, PreviewContour, Severity } from './result'
 export type { DesignRuleSummary } from './checks/index'
+export type { AnalysisStage, StageTimeListener } from './stageTimer'
 
 export interface AnalyzeOptions {
   /** Adds `contours` (polylines in mm with their operation) for a preview. */
   includeContours?: boolean
+  /** Receives each stage's wall time in ms as it finishes (the benchmark prints them). */
+  onStageTimed?: StageTimeListener
 }
 
 /** The engine's geometry after chaining, for stages (and checks) that work on segments. */
@@ -42,17 +46,26 @@ export function analyzeSvg(svgText: string, params: AnalysisParams, options: Ana
 }
 
 export function analyzeSvgWithGeometry(svgText: string, params: AnalysisParams, options: AnalyzeOptions = {}): { result: AnalysisResult; geometry: AnalysedGeometry } {
-  const drawing = readSvgDocument(parseSvgXml(svgText), params)
+  const lap = stageTimer(options.onStageTimed)
+  const root = parseSvgXml(svgText)
+  lap('parse')
+  const drawing = readSvgDocument(root, params)
+  lap('read')
   const pieces = new PolylineSet()
   drawing.elements.forEach((element, elementIndex) => {
     flattenPath(element.pathData, element.matrix, params.chordToleranceMm, pieces, OPERATION_CODES[element.operation], elementIndex, element.filled)
   })
+  lap('flatten')
   const contours = chainPolylines(pieces, params.chainToleranceMm)
+  lap('chain')
   if (contours.count === 0) throw emptyDrawingError(drawing.findings.length > 0)
   const bounds = contours.bounds()
   const measurement = measureContours(contours, bounds, drawing.elements)
+  lap('measure')
   const checks = runDesignRuleChecks({ contours, bounds }, params)
+  lap('checks')
   const machine = estimateMachineTime(contours, bounds, measurement.engrave.areaMm2, params)
+  lap('time')
   const minutes = billableMinutes(machine.time.totalS, params.billingIncrementMinutes)
   const { width, height } = measurement.bbox
   const result: AnalysisResult = {
@@ -75,6 +88,7 @@ export function analyzeSvgWithGeometry(svgText: string, params: AnalysisParams, 
     checks: checks.summary,
   }
   if (options.includeContours) result.contours = previewContours(contours)
+  lap('result')
   return { result, geometry: { contours, bounds, runOrder: machine.runOrder } }
 }
 
