@@ -92,17 +92,28 @@ export class CutSegments {
 
   /** The neighbouring segments of one along its contour (one or two). */
   neighbours(segment: number): number[] {
+    return [this.previous(segment), this.next(segment)].filter((neighbour) => neighbour >= 0)
+  }
+
+  /** The segment before this one on its contour (a closed contour wraps round), −1 at the start of an open one. */
+  previous(segment: number): number {
+    const { first, last, closed } = this.segmentRange(segment)
+    if (segment > first) return segment - 1
+    return closed && last > first ? last : -1
+  }
+
+  /** The segment after this one on its contour, −1 at the end of an open one. */
+  next(segment: number): number {
+    const { first, last, closed } = this.segmentRange(segment)
+    if (segment < last) return segment + 1
+    return closed && last > first ? first : -1
+  }
+
+  /** Ids of the first and last segment of this segment's contour. */
+  private segmentRange(segment: number): { first: number; last: number; closed: boolean } {
     const contour = this.contourOf[segment]
-    const first = this.contours.start[contour]
-    const lastSegmentPoint = this.contours.start[contour + 1] - 2
-    const point = this.firstPoint[segment]
-    const closed = this.contours.closed[contour] === 1
-    const found: number[] = []
-    if (point > first) found.push(segment - 1)
-    else if (closed && lastSegmentPoint > first) found.push(segment + (lastSegmentPoint - first))
-    if (point < lastSegmentPoint) found.push(segment + 1)
-    else if (closed && lastSegmentPoint > first) found.push(segment - (lastSegmentPoint - first))
-    return found
+    const offset = segment - this.firstPoint[segment]
+    return { first: this.contours.start[contour] + offset, last: this.contours.start[contour + 1] - 2 + offset, closed: this.contours.closed[contour] === 1 }
   }
 
   /** Distance along the contour between parameter u of segment a and v of segment b (same contour; the shorter way round a closed one). */
@@ -124,10 +135,26 @@ export class CutSegments {
     return side !== 0 && side !== Math.sign(this.contours.signedArea(contour))
   }
 
-  /** Whether the offset (dx, dy) from a point of the segment points into material, or along the cut (not clearly away from it). */
-  pointsIntoMaterial(segment: number, dx: number, dy: number): boolean {
+  /**
+   * Whether the offset (dx, dy) from the point at parameter t of the segment
+   * points into material (or along the cut, not away from it). At a corner of
+   * a closed cut both segments meeting there count: material on a convex
+   * corner lies on the material side of both, on a reflex corner of either.
+   */
+  pointsIntoMaterial(segment: number, t: number, dx: number, dy: number): boolean {
     const side = this.materialSide[this.contourOf[segment]]
     if (side === 0) return true
+    const onThisSide = this.materialSideOf(segment, side, dx, dy)
+    const neighbour = t === 0 ? this.previous(segment) : t === 1 ? this.next(segment) : -1
+    if (neighbour < 0) return onThisSide
+    const onNeighbourSide = this.materialSideOf(neighbour, side, dx, dy)
+    const [ax, ay, bx, by] = this.ends(t === 0 ? neighbour : segment)
+    const [cx, cy, dx2, dy2] = this.ends(t === 0 ? segment : neighbour)
+    const turnsTowardsMaterial = side * ((bx - ax) * (dy2 - cy) - (by - ay) * (dx2 - cx)) > 0
+    return turnsTowardsMaterial ? onThisSide && onNeighbourSide : onThisSide || onNeighbourSide
+  }
+
+  private materialSideOf(segment: number, side: number, dx: number, dy: number): boolean {
     const [ax, ay, bx, by] = this.ends(segment)
     const cross = (bx - ax) * dy - (by - ay) * dx
     return side * cross >= -ALONG_THE_CUT_RELATIVE * Math.hypot(bx - ax, by - ay) * Math.hypot(dx, dy)

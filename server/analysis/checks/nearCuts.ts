@@ -4,7 +4,7 @@ import { type CutSegments, cutSegmentsOf } from './cutSegments'
 import type { CheckGeometry } from './index'
 import { oncePerGeometry } from './memo'
 import { contourPairKey, isRepeatedStretch, repeatedCutsOf, repeatToleranceMm } from './repeatedCuts'
-import { closestPointsOfSegments, crossingParameters, emptyClosestPoints } from './segmentGeometry'
+import { type ClosestPoints, closestPointsOfSegments, crossingParameters, emptyClosestPoints } from './segmentGeometry'
 
 /**
  * How two nearby cut segments relate:
@@ -73,9 +73,9 @@ function findNearCuts(geometry: CheckGeometry, params: AnalysisParams): NearCut[
   return found
 }
 
-function webKind(segments: CutSegments, first: number, second: number, closest: { px: number; py: number; qx: number; qy: number; distanceMm: number }, touchMm: number): NearKind {
+function webKind(segments: CutSegments, first: number, second: number, closest: ClosestPoints, touchMm: number): NearKind {
   const { px, py, qx, qy, distanceMm } = closest
-  if (!segments.pointsIntoMaterial(first, qx - px, qy - py) || !segments.pointsIntoMaterial(second, px - qx, py - qy)) return 'scrap'
+  if (!segments.pointsIntoMaterial(first, closest.u, qx - px, qy - py) || !segments.pointsIntoMaterial(second, closest.v, px - qx, py - qy)) return 'scrap'
   // Crossings within the touch tolerance of P or Q are where the line leaves its own cuts' neighbours.
   const endMargin = touchMm / distanceMm
   let screened = false

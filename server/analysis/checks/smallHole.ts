@@ -31,26 +31,67 @@ export function checkSmallHoles(geometry: CheckGeometry, params: AnalysisParams)
   return findings
 }
 
-// Rounding slack, relative to the radius, when telling whether all points lie on one circle.
+// Rounding slack, relative to the radius, when telling whether points lie on one circle.
 const ROUNDING_RELATIVE = 1e-9
 
 /**
- * A flattened circle has its points on the circle (the chords cut inside
- * it), so all lie at one distance from the box centre, up to the chord
- * tolerance the box may miss the extremes by; its diameter is twice that
- * distance. Anything else measures the smaller side of its box.
+ * The diameter when the contour is a flattened circle, otherwise the smaller
+ * side of its box. A flattened circle has every point on the circle and every
+ * chord within the chord tolerance inside it; a polygon with its corners on
+ * a circle (a rectangle) fails the second test.
  */
 export function holeSizeMm(geometry: CheckGeometry, contour: number, chordToleranceMm: number): number {
   const { contours, bounds } = geometry
-  const centreX = (bounds[4 * contour] + bounds[4 * contour + 2]) / 2
-  const centreY = (bounds[4 * contour + 1] + bounds[4 * contour + 3]) / 2
-  let nearest = Infinity
-  let farthest = 0
-  for (let point = contours.start[contour]; point < contours.start[contour + 1]; point++) {
-    const radius = Math.hypot(contours.xy[2 * point] - centreX, contours.xy[2 * point + 1] - centreY)
-    nearest = Math.min(nearest, radius)
-    farthest = Math.max(farthest, radius)
+  const boxSideMm = Math.min(bounds[4 * contour + 2] - bounds[4 * contour], bounds[4 * contour + 3] - bounds[4 * contour + 1])
+  const circle = fittedCircle(contours, contour)
+  if (circle === null) return boxSideMm
+  const slackMm = ROUNDING_RELATIVE * circle.radiusMm
+  const { xy } = contours
+  for (let point = contours.start[contour]; point < contours.start[contour + 1] - 1; point++) {
+    const [x, y, nextX, nextY] = [xy[2 * point], xy[2 * point + 1], xy[2 * point + 2], xy[2 * point + 3]]
+    if (Math.abs(Math.hypot(x - circle.x, y - circle.y) - circle.radiusMm) > slackMm) return boxSideMm
+    if (Math.hypot((x + nextX) / 2 - circle.x, (y + nextY) / 2 - circle.y) < circle.radiusMm - chordToleranceMm - slackMm) return boxSideMm
   }
-  const isCircle = farthest - nearest <= 2 * chordToleranceMm + ROUNDING_RELATIVE * farthest
-  return isCircle ? 2 * farthest : Math.min(bounds[4 * contour + 2] - bounds[4 * contour], bounds[4 * contour + 3] - bounds[4 * contour + 1])
+  return 2 * circle.radiusMm
+}
+
+/**
+ * Least-squares circle through the contour's points (Kåsa's algebraic fit:
+ * x² + y² + D·x + E·y + F = 0 is linear in D, E, F), exact when the points
+ * lie on a circle. Coordinates are taken about their mean for precision.
+ */
+function fittedCircle(contours: CheckGeometry['contours'], contour: number): { x: number; y: number; radiusMm: number } | null {
+  const first = contours.start[contour]
+  const end = contours.start[contour + 1] - 1
+  const count = end - first
+  if (count < 3) return null
+  const { xy } = contours
+  let meanX = 0
+  let meanY = 0
+  for (let point = first; point < end; point++) {
+    meanX += xy[2 * point] / count
+    meanY += xy[2 * point + 1] / count
+  }
+  // Normal equations of Σ (u² + v² + D·u + E·v + F)² for centred u, v.
+  let suu = 0, svv = 0, suv = 0, suuu = 0, svvv = 0, suvv = 0, svuu = 0
+  for (let point = first; point < end; point++) {
+    const u = xy[2 * point] - meanX
+    const v = xy[2 * point + 1] - meanY
+    suu += u * u
+    svv += v * v
+    suv += u * v
+    suuu += u * u * u
+    svvv += v * v * v
+    suvv += u * v * v
+    svuu += v * u * u
+  }
+  // With centred coordinates Σu = Σv = 0, so the centre (uc, vc) solves a 2 × 2 system.
+  const determinant = suu * svv - suv * suv
+  if (determinant === 0) return null
+  const rightU = (suuu + suvv) / 2
+  const rightV = (svvv + svuu) / 2
+  const centreU = (rightU * svv - rightV * suv) / determinant
+  const centreV = (suu * rightV - suv * rightU) / determinant
+  const radiusMm = Math.sqrt(centreU * centreU + centreV * centreV + (suu + svv) / count)
+  return { x: centreU + meanX, y: centreV + meanY, radiusMm }
 }
