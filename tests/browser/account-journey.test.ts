@@ -5,7 +5,7 @@ import { describe, expect } from 'vitest'
 import { client, DEMO_PASSWORD, linkToken, uniqueEmail, waitForMail } from '../api/helpers'
 import type { Role } from '../../shared/roles'
 import { NAV_ITEMS } from '../../utils/navigation'
-import { browserTest, checkAccessibility, screenshot, signInThroughForm, signOutThroughHeader, submitSignInForm, waitForSignedIn } from './browser'
+import { browserTest, checkAccessibility, expectVisibleFocus, screenshot, signInThroughForm, signOutThroughHeader, submitSignInForm, tabThrough, waitForSignedIn } from './browser'
 
 /** The navigation the layout should show to a role, from the one list of top-level pages. */
 function navLabelsFor(role: Role): string[] {
@@ -20,26 +20,6 @@ function mainNavLabels(page: Page): Promise<string[]> {
     .then((labels) => labels.map((label) => label.trim()))
 }
 
-/** What a sighted keyboard user sees of the focused element: which one it is, and its outline. */
-function focusedElement(page: Page) {
-  return page.evaluate(() => {
-    const element = document.activeElement as HTMLElement | null
-    const style = element ? getComputedStyle(element) : null
-    return {
-      name: element ? (element as HTMLInputElement).labels?.[0]?.textContent?.replace('*', '').trim() || element.textContent?.trim() : undefined,
-      outlineStyle: style?.outlineStyle,
-      outlineWidthPx: style ? parseFloat(style.outlineWidth) : 0,
-    }
-  })
-}
-
-async function expectVisibleFocusOn(page: Page, name: string) {
-  const focused = await focusedElement(page)
-  expect(focused.name).toBe(name)
-  expect(focused.outlineStyle, `outline of focused "${name}"`).not.toBe('none')
-  expect(focused.outlineWidthPx, `outline width of focused "${name}"`).toBeGreaterThanOrEqual(1)
-}
-
 describe('account journey in the browser', () => {
   browserTest('a visitor joins, confirms by the e-mailed link, signs in again and changes the password', async ({ browser }) => {
     const { page } = browser
@@ -49,6 +29,7 @@ describe('account journey in the browser', () => {
 
     await browser.open('/')
     await checkAccessibility(page)
+    expect(await tabThrough(page)).toContain('Join the workshop')
     await screenshot(page, 'landing')
 
     await page.getByRole('main').getByRole('link', { name: 'Join the workshop' }).click()
@@ -102,14 +83,13 @@ describe('account journey in the browser', () => {
     const { page } = browser
     await browser.open('/sign-in')
     // The skip link and the header come first; the form must follow within a few steps.
-    for (let step = 0; step < 8 && (await focusedElement(page)).name !== 'E-mail'; step++) await page.keyboard.press('Tab')
-    await expectVisibleFocusOn(page, 'E-mail')
+    await tabThrough(page, 'E-mail', 8)
     await page.keyboard.type('member@example.test')
     await page.keyboard.press('Tab')
-    await expectVisibleFocusOn(page, 'Password')
+    await expectVisibleFocus(page, 'Password')
     await page.keyboard.type(DEMO_PASSWORD)
     await page.keyboard.press('Tab')
-    await expectVisibleFocusOn(page, 'Sign in')
+    await expectVisibleFocus(page, 'Sign in')
     await page.keyboard.press('Enter')
     await waitForSignedIn(page)
     expect(new URL(page.url()).pathname).toBe('/')

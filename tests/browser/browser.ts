@@ -182,6 +182,83 @@ export async function checkAccessibility(page: Page): Promise<void> {
   throw new Error(`${violations.length} accessibility violation(s) on ${page.url()}:\n${report}`)
 }
 
+/** What a sighted keyboard user sees of the focused element: what it is called, and its outline. */
+export interface FocusStop {
+  name: string
+  outlineStyle: string
+  outlineWidthPx: number
+  /** Contrast of the outline against the background around the element (WCAG 1.4.11 asks for 3:1). */
+  outlineContrast: number
+}
+
+export function describeFocus(page: Page): Promise<FocusStop | null> {
+  return page.evaluate(() => {
+    const element = document.activeElement as HTMLElement | null
+    if (!element || element === document.body) return null
+    const channels = (css: string) => (css.match(/[\d.]+/g) ?? []).map(Number)
+    const luminance = (css: string) => {
+      const [r, g, b] = channels(css).map((c) => c / 255).map((c) => (c <= 0.03928 ? c / 12.92 : ((c + 0.055) / 1.055) ** 2.4))
+      return 0.2126 * r! + 0.7152 * g! + 0.0722 * b!
+    }
+    const contrast = (a: string, b: string) => {
+      const [light, dark] = [luminance(a), luminance(b)].sort((x, y) => y - x)
+      return (light! + 0.05) / (dark! + 0.05)
+    }
+    // The outline sits outside the element, so what it must stand out from is the nearest painted
+    // ancestor; for a gradient, every colour stop of it.
+    let backgrounds: string[] = ['rgb(255, 255, 255)']
+    for (let ancestor = element.parentElement; ancestor; ancestor = ancestor.parentElement) {
+      const style = getComputedStyle(ancestor)
+      const stops = style.backgroundImage.match(/rgba?\([^)]*\)/g)
+      if (stops) backgrounds = stops
+      else if ((channels(style.backgroundColor)[3] ?? 1) > 0) backgrounds = [style.backgroundColor]
+      else continue
+      break
+    }
+    const style = getComputedStyle(element)
+    const label = (element as HTMLInputElement).labels?.[0]
+    return {
+      name: (label ? label.textContent?.replace('*', '') : element.getAttribute('aria-label') ?? element.textContent)?.trim() ?? '',
+      outlineStyle: style.outlineStyle,
+      outlineWidthPx: parseFloat(style.outlineWidth),
+      outlineContrast: Math.min(...backgrounds.map((background) => contrast(style.outlineColor, background))),
+    }
+  })
+}
+
+function expectFocusShown(focus: FocusStop): void {
+  expect(focus.outlineStyle, `outline of focused "${focus.name}"`).not.toBe('none')
+  expect(focus.outlineWidthPx, `outline width of focused "${focus.name}"`).toBeGreaterThanOrEqual(1)
+  expect(focus.outlineContrast, `outline contrast of focused "${focus.name}"`).toBeGreaterThanOrEqual(3)
+}
+
+/** Fails unless `name` has the keyboard focus and shows an outline that can be seen. */
+export async function expectVisibleFocus(page: Page, name: string): Promise<void> {
+  const focus = await describeFocus(page)
+  expect(focus?.name, 'the focused element').toBe(name)
+  expectFocusShown(focus!)
+}
+
+/**
+ * Presses Tab until `until` has the focus, or without it until the focus leaves the page, and fails
+ * on any stop on the way whose focus cannot be seen. Returns the names of the stops.
+ */
+export async function tabThrough(page: Page, until?: string, maxStops = 40): Promise<string[]> {
+  const stops: string[] = []
+  while (stops.length < maxStops) {
+    await page.keyboard.press('Tab')
+    const focus = await describeFocus(page)
+    if (!focus) {
+      if (until === undefined) return stops
+      break
+    }
+    expectFocusShown(focus)
+    stops.push(focus.name)
+    if (focus.name === until) return stops
+  }
+  throw new Error(`Tab never reached ${until ? `"${until}"` : 'the end of the page'} within ${maxStops} stops: ${stops.join(' → ')}`)
+}
+
 /** Opens /sign-in, fills in the form as a person would and presses the button. */
 export async function submitSignInForm(browser: BrowserSession, email: string, password: string): Promise<void> {
   await browser.open('/sign-in')
