@@ -132,7 +132,7 @@ export class BrowserSession {
   }
 }
 
-export async function waitForHydration(page: Page): Promise<void> {
+async function waitForHydration(page: Page): Promise<void> {
   await page.waitForFunction(() => {
     const app = (document.querySelector('#__nuxt') as { __vue_app__?: { $nuxt?: { isHydrating?: boolean } } } | null)?.__vue_app__
     return app?.$nuxt?.isHydrating === false
@@ -183,7 +183,7 @@ export async function checkAccessibility(page: Page): Promise<void> {
 }
 
 /** What a sighted keyboard user sees of the focused element: what it is called, and its outline. */
-export interface FocusStop {
+interface FocusStop {
   name: string
   outlineStyle: string
   outlineWidthPx: number
@@ -191,7 +191,7 @@ export interface FocusStop {
   outlineContrast: number
 }
 
-export function describeFocus(page: Page): Promise<FocusStop | null> {
+function describeFocus(page: Page): Promise<FocusStop | null> {
   return page.evaluate(() => {
     const element = document.activeElement as HTMLElement | null
     if (!element || element === document.body) return null
