@@ -39,6 +39,7 @@ export async function analysisParamsFor(db: Knex, choice: ProfileChoice): Promis
     pierceTimeS: setting.pierceS + cutter.pierceOverheadS,
     kerfMm: setting.kerfMm,
     thicknessMm: material.thicknessMm,
+    cutterMaxThicknessMm: cutter.maxThicknessMm,
     minBridgeMm: setting.minBridgeMm,
     minHoleMm: setting.minHoleMm,
     sheetWidthMm: sheet.widthMm,

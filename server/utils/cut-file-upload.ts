@@ -34,6 +34,23 @@ export async function readCutFileUpload(event: H3Event): Promise<CutFileUpload> 
   } catch {
     throw new UnsupportedMediaType('This file is not an SVG drawing (it is not text). Export your pattern as SVG and upload that.')
   }
+  assertNoActiveContent(svgText)
   const fields = Object.fromEntries(parts.filter((p) => p.filename === undefined && p.name).map((p) => [p.name!, p.data.toString('utf8')]))
   return { filename: file.filename ?? 'upload.svg', svgText, sizeBytes: file.data.length, fields }
+}
+
+// Scripts, event handlers, javascript: links and embedded HTML have no place in a cut file; refusing
+// them outright means no upload can ever run code, wherever its content is shown later.
+const ACTIVE_CONTENT: [RegExp, string][] = [
+  [/<script[\s>/]/i, 'a script'],
+  [/<foreignObject[\s>/]/i, 'embedded HTML (foreignObject)'],
+  [/\son[a-z]+\s*=/i, 'an event handler (on… attribute)'],
+  [/(?:href|src)\s*=\s*["']?\s*(?:javascript|data:text\/html)/i, 'a script link'],
+]
+
+export function assertNoActiveContent(svgText: string): void {
+  const found = ACTIVE_CONTENT.filter(([pattern]) => pattern.test(svgText)).map(([, what]) => what)
+  if (found.length > 0) {
+    throw new DomainError(`This file contains ${found.join(' and ')}, which a cut file never needs. Export the pattern again as a plain SVG.`, 422, { kind: 'activeContent' })
+  }
 }

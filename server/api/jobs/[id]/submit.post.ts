@@ -1,0 +1,13 @@
+import { idParamSchema } from '#shared/schemas/auth'
+import { submitJobSchema } from '#shared/schemas/jobs'
+import { sendJobTransitionMail } from '../../../services/job-mail'
+import { submitJob } from '../../../services/jobs'
+
+export default defineApiHandler(async (event) => {
+  const user = await requireUser(event)
+  const { id } = readParamsAs(event, idParamSchema)
+  const { acknowledgement } = await readBodyAs(event, submitJobSchema)
+  const record = await submitJob(useDb(), user, id, acknowledgement)
+  await sendJobTransitionMail(useDb(), record)
+  return record
+})

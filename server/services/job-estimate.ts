@@ -1,0 +1,65 @@
+import type { AnalysisResult } from '../analysis/index'
+import type { Cutter } from './catalog/cutters'
+import { layoutSheets, type JobSheets } from './sheet-layout'
+
+export interface EstimatedFile {
+  fileId: number
+  quantity: number
+  analysis: AnalysisResult
+}
+
+export interface JobEstimate {
+  cutLengthMm: number
+  pierces: number
+  /** Machine time for every copy of every file plus one setup. */
+  machineS: number
+  billableMinutes: number
+  machinePriceMinor: number
+  sheetCount: number
+  materialPriceMinor: number
+  totalPriceMinor: number
+  currency: string
+  layout: JobSheets
+}
+
+// Spacing between parts on a sheet on top of the kerf (common practice, no source).
+export const PART_GAP_MM = 2
+export const SHEET_MARGIN_MM = 5
+
+/**
+ * The job's totals: machine time summed over copies with one setup per job, rounded up to the cutter's
+ * billing increment, plus whole stock sheets from the layout. Money in integer minor units.
+ */
+export function estimateJob(files: EstimatedFile[], cutter: Pick<Cutter, 'setupMinutes' | 'billingIncrementMinutes' | 'pricePerMinuteMinor' | 'currency'>, sheet: { widthMm: number; heightMm: number; priceMinor: number }, kerfMm: number): JobEstimate {
+  const setupS = cutter.setupMinutes * 60
+  let machineS = files.length > 0 ? setupS : 0
+  let cutLengthMm = 0
+  let pierces = 0
+  for (const file of files) {
+    machineS += (file.analysis.time.totalS - file.analysis.time.setupS) * file.quantity
+    cutLengthMm += file.analysis.cut.lengthMm * file.quantity
+    pierces += file.analysis.cut.pierces * file.quantity
+  }
+  const increment = cutter.billingIncrementMinutes
+  const billableMinutes = machineS > 0 ? Math.ceil(machineS / 60 / increment - 1e-9) * increment : 0
+  const layout = layoutSheets(
+    files.map((f) => ({ fileId: f.fileId, widthMm: f.analysis.bbox.width, heightMm: f.analysis.bbox.height, quantity: f.quantity })),
+    sheet,
+    kerfMm + PART_GAP_MM,
+    SHEET_MARGIN_MM,
+  )
+  const machinePriceMinor = billableMinutes * cutter.pricePerMinuteMinor
+  const materialPriceMinor = layout.sheets.length * sheet.priceMinor
+  return {
+    cutLengthMm,
+    pierces,
+    machineS,
+    billableMinutes,
+    machinePriceMinor,
+    sheetCount: layout.sheets.length,
+    materialPriceMinor,
+    totalPriceMinor: machinePriceMinor + materialPriceMinor,
+    currency: cutter.currency,
+    layout,
+  }
+}

@@ -1,0 +1,83 @@
+import type { Knex } from 'knex'
+import { MAX_FILES_PER_JOB } from '#shared/schemas/jobs'
+import type { SessionUser } from '#shared/roles'
+import type { AnalysisResult } from '../analysis/index'
+import { analyzeInWorker } from '../utils/analysis-pool'
+import type { CutFileUpload } from '../utils/cut-file-upload'
+import { Conflict, NotFound } from '../utils/errors'
+import { nowIso } from '../utils/rows'
+import { storeUpload } from '../utils/upload-store'
+import { analysisParamsFor } from './analysis-profile'
+import { assertEditable, jobForViewer, type JobRow } from './jobs'
+
+function worstSeverity(result: AnalysisResult): string | null {
+  for (const severity of ['error', 'warning', 'info'] as const) if (result.findings.some((f) => f.severity === severity)) return severity
+  return null
+}
+
+/** Analyses with the job's process and stores the file before its row, so a row never lacks its file. */
+async function analyseAndStore(db: Knex, job: JobRow, upload: CutFileUpload) {
+  const params = await analysisParamsFor(db, { cutterId: job.cutter_id, materialId: job.material_id, sheetId: job.sheet_id })
+  const analysis = await analyzeInWorker(upload.svgText, params, { includeContours: true })
+  const sha256 = storeUpload(upload.svgText)
+  return { analysis, sha256 }
+}
+
+function revisionRow(fileId: number, revision: number, upload: CutFileUpload, uploaderId: number, stored: { analysis: AnalysisResult; sha256: string }) {
+  return {
+    job_file_id: fileId,
+    revision,
+    sha256: stored.sha256,
+    original_name: upload.filename,
+    size_bytes: upload.sizeBytes,
+    content_type: 'image/svg+xml',
+    analysis_json: JSON.stringify(stored.analysis),
+    worst_severity: worstSeverity(stored.analysis),
+    uploaded_by: uploaderId,
+  }
+}
+
+export async function addJobFile(db: Knex, viewer: SessionUser, jobId: number, upload: CutFileUpload, quantity: number): Promise<number> {
+  const job = await jobForViewer(db, viewer, jobId)
+  assertEditable(job)
+  const count = await db('job_files').where({ job_id: jobId }).whereNull('removed_at').count<{ n: number }[]>({ n: '*' }).first()
+  if (Number(count?.n ?? 0) >= MAX_FILES_PER_JOB) throw new Conflict(`A job holds at most ${MAX_FILES_PER_JOB} files; start another job for the rest.`)
+  const stored = await analyseAndStore(db, job, upload)
+  return db.transaction(async (trx) => {
+    const [fileId] = await trx('job_files').insert({ job_id: jobId, name: upload.filename.replace(/\.svg$/i, ''), quantity })
+    await trx('file_revisions').insert(revisionRow(fileId!, 1, upload, viewer.id, stored))
+    await trx('jobs').where({ id: jobId }).update({ updated_at: nowIso() })
+    return fileId!
+  })
+}
+
+/** A new revision of a file; the older revisions and their analyses stay as they were. */
+export async function replaceJobFile(db: Knex, viewer: SessionUser, jobId: number, fileId: number, upload: CutFileUpload): Promise<number> {
+  const job = await jobForViewer(db, viewer, jobId)
+  assertEditable(job)
+  const file = await db('job_files').where({ id: fileId, job_id: jobId }).whereNull('removed_at').first()
+  if (!file) throw new NotFound('No such file in this job.')
+  const stored = await analyseAndStore(db, job, upload)
+  return db.transaction(async (trx) => {
+    const latest = await trx('file_revisions').where({ job_file_id: fileId }).max<{ n: number }[]>({ n: 'revision' }).first()
+    const revision = Number(latest?.n ?? 0) + 1
+    await trx('file_revisions').insert(revisionRow(fileId, revision, upload, viewer.id, stored))
+    await trx('jobs').where({ id: jobId }).update({ updated_at: nowIso() })
+    return revision
+  })
+}
+
+export async function setJobFileQuantity(db: Knex, viewer: SessionUser, jobId: number, fileId: number, quantity: number): Promise<void> {
+  const job = await jobForViewer(db, viewer, jobId)
+  assertEditable(job)
+  const changed = await db('job_files').where({ id: fileId, job_id: jobId }).whereNull('removed_at').update({ quantity, updated_at: nowIso() })
+  if (changed === 0) throw new NotFound('No such file in this job.')
+}
+
+/** Takes a file out of the job; its revisions stay in the database as history. */
+export async function removeJobFile(db: Knex, viewer: SessionUser, jobId: number, fileId: number): Promise<void> {
+  const job = await jobForViewer(db, viewer, jobId)
+  assertEditable(job)
+  const changed = await db('job_files').where({ id: fileId, job_id: jobId }).whereNull('removed_at').update({ removed_at: nowIso(), updated_at: nowIso() })
+  if (changed === 0) throw new NotFound('No such file in this job.')
+}

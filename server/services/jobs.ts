@@ -1,0 +1,299 @@
+import type { Knex } from 'knex'
+import { EDITABLE_JOB_STATES, JOB_STATE_LABELS, type JobState } from '#shared/job-states'
+import type { SessionUser } from '#shared/roles'
+import type { JobCreateInput } from '#shared/schemas/jobs'
+import type { AnalysisResult, Finding } from '../analysis/index'
+import { Conflict, InvalidInput, NotFound } from '../utils/errors'
+import { nowIso } from '../utils/rows'
+import { analysisParamsFor } from './analysis-profile'
+import { getCutter } from './catalog/cutters'
+import { getMaterial } from './catalog/materials'
+import { findProcessSetting } from './catalog/process-settings'
+import { estimateJob, type JobEstimate } from './job-estimate'
+import { availableActions, transitionJob, type JobAction, type TransitionRecord } from './job-states'
+
+export interface JobRow {
+  id: number
+  member_id: number
+  title: string
+  cutter_id: number
+  material_id: number
+  sheet_id: number
+  notes: string
+  state: JobState
+  warnings_acknowledgement: string | null
+  override_reason: string | null
+  submitted_at: string | null
+  created_at: string
+  updated_at: string
+}
+
+const isStaff = (viewer: SessionUser) => viewer.role === 'staff' || viewer.role === 'admin'
+
+/** The job if the viewer may see it; another member's job is "not found", so ids are not confirmed. */
+export async function jobForViewer(db: Knex, viewer: SessionUser, jobId: number): Promise<JobRow> {
+  const job = await db<JobRow>('jobs').where({ id: jobId }).first()
+  if (!job || (!isStaff(viewer) && job.member_id !== viewer.id)) throw new NotFound('No such job.')
+  return job
+}
+
+export function assertEditable(job: JobRow): void {
+  if (!EDITABLE_JOB_STATES.includes(job.state)) {
+    throw new Conflict(`The job is "${JOB_STATE_LABELS[job.state]}": files and details can change only in a draft or when changes are asked for.`)
+  }
+}
+
+export async function createJob(db: Knex, member: SessionUser, input: JobCreateInput): Promise<number> {
+  // Validates the pair the same way the analysis does: allowed, set up here, and the sheet stocked.
+  await analysisParamsFor(db, { cutterId: input.cutterId, materialId: input.materialId, sheetId: input.sheetId })
+  const material = await getMaterial(db, input.materialId)
+  const sheetId = input.sheetId ?? material.sheets[0]!.id
+  return db.transaction(async (trx) => {
+    const [id] = await trx('jobs').insert({ member_id: member.id, title: input.title, cutter_id: input.cutterId, material_id: input.materialId, sheet_id: sheetId, notes: input.notes })
+    await trx('job_events').insert({ job_id: id, actor_id: member.id, from_state: null, to_state: 'draft', comment: '' })
+    return id!
+  })
+}
+
+export async function updateJob(db: Knex, viewer: SessionUser, jobId: number, change: Partial<JobCreateInput>): Promise<void> {
+  const job = await jobForViewer(db, viewer, jobId)
+  assertEditable(job)
+  const processChanges = (change.cutterId ?? job.cutter_id) !== job.cutter_id || (change.materialId ?? job.material_id) !== job.material_id || (change.sheetId ?? job.sheet_id) !== job.sheet_id
+  if (processChanges) {
+    if (await db('job_files').where({ job_id: jobId }).whereNull('removed_at').first()) {
+      throw new Conflict('The files were checked for this cutter, material and sheet. Remove them first, or start a new job for another process.')
+    }
+    await analysisParamsFor(db, { cutterId: change.cutterId ?? job.cutter_id, materialId: change.materialId ?? job.material_id, sheetId: change.sheetId })
+  }
+  const patch: Record<string, unknown> = { updated_at: nowIso() }
+  if (change.title !== undefined) patch.title = change.title
+  if (change.notes !== undefined) patch.notes = change.notes
+  if (change.cutterId !== undefined) patch.cutter_id = change.cutterId
+  if (change.materialId !== undefined) {
+    patch.material_id = change.materialId
+    patch.sheet_id = change.sheetId ?? (await getMaterial(db, change.materialId)).sheets[0]!.id
+  } else if (change.sheetId !== undefined) patch.sheet_id = change.sheetId
+  await db('jobs').where({ id: jobId }).update(patch)
+}
+
+interface RevisionRow {
+  id: number
+  job_file_id: number
+  revision: number
+  sha256: string
+  original_name: string
+  size_bytes: number
+  analysis_json: string
+  worst_severity: string | null
+  created_at: string
+}
+
+export interface RevisionSummary {
+  revision: number
+  originalName: string
+  sizeBytes: number
+  uploadedAt: string
+  worstSeverity: string | null
+  cutLengthMm: number
+  pierces: number
+  findingCount: number
+}
+
+export interface JobFileView {
+  id: number
+  name: string
+  quantity: number
+  current: RevisionSummary & { analysis: Omit<AnalysisResult, 'contours'> }
+  revisions: RevisionSummary[]
+  /** How the current revision differs from the one before it. */
+  change: { cutLengthMm: number; pierces: number; findings: number } | null
+}
+
+function parseAnalysis(row: RevisionRow): AnalysisResult {
+  return JSON.parse(row.analysis_json) as AnalysisResult
+}
+
+function summaryOf(row: RevisionRow, analysis: AnalysisResult): RevisionSummary {
+  return {
+    revision: row.revision,
+    originalName: row.original_name,
+    sizeBytes: row.size_bytes,
+    uploadedAt: row.created_at,
+    worstSeverity: row.worst_severity,
+    cutLengthMm: analysis.cut.lengthMm,
+    pierces: analysis.cut.pierces,
+    findingCount: analysis.findings.length,
+  }
+}
+
+/** The job's current files, each with its newest revision's analysis and the list of older revisions. */
+export async function currentFiles(db: Knex, jobId: number): Promise<JobFileView[]> {
+  const files = await db('job_files').where({ job_id: jobId }).whereNull('removed_at').orderBy('id')
+  const revisions = await db<RevisionRow>('file_revisions')
+    .whereIn('job_file_id', files.map((f) => f.id))
+    .orderBy(['job_file_id', { column: 'revision', order: 'desc' }])
+  return files.map((file) => {
+    const own = revisions.filter((r) => r.job_file_id === file.id)
+    const [latest, previous] = own.map((row) => ({ row, analysis: parseAnalysis(row) }))
+    const { contours: _contours, ...analysis } = latest!.analysis
+    return {
+      id: file.id,
+      name: file.name,
+      quantity: file.quantity,
+      current: { ...summaryOf(latest!.row, latest!.analysis), analysis },
+      revisions: own.map((row) => summaryOf(row, parseAnalysis(row))),
+      change: previous
+        ? {
+            cutLengthMm: latest!.analysis.cut.lengthMm - previous.analysis.cut.lengthMm,
+            pierces: latest!.analysis.cut.pierces - previous.analysis.cut.pierces,
+            findings: latest!.analysis.findings.length - previous.analysis.findings.length,
+          }
+        : null,
+    }
+  })
+}
+
+export async function revisionAnalysis(db: Knex, viewer: SessionUser, jobId: number, fileId: number, revision: number): Promise<AnalysisResult & { revision: number; originalName: string }> {
+  await jobForViewer(db, viewer, jobId)
+  const row = await db<RevisionRow>('file_revisions as r')
+    .join('job_files as f', 'f.id', 'r.job_file_id')
+    .where({ 'f.job_id': jobId, 'f.id': fileId, 'r.revision': revision })
+    .first('r.*')
+  if (!row) throw new NotFound('No such file revision.')
+  return { ...parseAnalysis(row), revision: row.revision, originalName: row.original_name }
+}
+
+export function countFindings(files: Pick<JobFileView, 'current'>[]): { errors: number; warnings: number; notes: number } {
+  const all: Finding[] = files.flatMap((f) => f.current.analysis.findings)
+  return {
+    errors: all.filter((f) => f.severity === 'error').length,
+    warnings: all.filter((f) => f.severity === 'warning').length,
+    notes: all.filter((f) => f.severity === 'info').length,
+  }
+}
+
+export async function jobEstimate(db: Knex, job: JobRow, files: JobFileView[]): Promise<JobEstimate> {
+  const cutter = await getCutter(db, job.cutter_id)
+  const material = await getMaterial(db, job.material_id)
+  const sheet = material.sheets.find((s) => s.id === job.sheet_id) ?? material.sheets[0]!
+  const setting = await findProcessSetting(db, job.cutter_id, job.material_id)
+  return estimateJob(
+    files.map((f) => ({ fileId: f.id, quantity: f.quantity, analysis: f.current.analysis as AnalysisResult })),
+    cutter,
+    sheet,
+    setting?.kerfMm ?? 0,
+  )
+}
+
+export async function jobDetail(db: Knex, viewer: SessionUser, jobId: number) {
+  const job = await jobForViewer(db, viewer, jobId)
+  const [files, member, cutter, material, events] = await Promise.all([
+    currentFiles(db, jobId),
+    db('users').where({ id: job.member_id }).first('id', 'name', 'email'),
+    getCutter(db, job.cutter_id),
+    getMaterial(db, job.material_id),
+    db('job_events as e').leftJoin('users as u', 'u.id', 'e.actor_id').where('e.job_id', jobId).orderBy('e.id').select('e.*', 'u.name as actor_name'),
+  ])
+  const sheet = material.sheets.find((s) => s.id === job.sheet_id) ?? material.sheets[0]!
+  return {
+    id: job.id,
+    title: job.title,
+    state: job.state,
+    notes: job.notes,
+    member,
+    cutter: { id: cutter.id, name: cutter.name, kind: cutter.kind, bedWidthMm: cutter.bedWidthMm, bedHeightMm: cutter.bedHeightMm },
+    material: { id: material.id, name: material.name, thicknessMm: material.thicknessMm, family: material.family },
+    sheet,
+    warningsAcknowledgement: job.warnings_acknowledgement,
+    overrideReason: job.override_reason,
+    submittedAt: job.submitted_at,
+    createdAt: job.created_at,
+    files,
+    findings: countFindings(files),
+    estimate: await jobEstimate(db, job, files),
+    events: events.map((e) => ({
+      at: e.created_at,
+      actorName: e.actor_name ?? 'Kerfbook',
+      from: e.from_state,
+      to: e.to_state,
+      comment: e.comment,
+      findingRef: e.finding_ref_json ? JSON.parse(e.finding_ref_json) : null,
+    })),
+    actions: availableActions(job.state, viewer, job.member_id),
+  }
+}
+
+export async function listJobs(db: Knex, viewer: SessionUser, filter: { state?: string; scope?: 'mine' | 'all' }) {
+  const query = db('jobs as j')
+    .join('users as u', 'u.id', 'j.member_id')
+    .join('cutters as c', 'c.id', 'j.cutter_id')
+    .join('materials as m', 'm.id', 'j.material_id')
+    .select('j.*', 'u.name as member_name', 'c.name as cutter_name', 'm.name as material_name', 'm.thickness_mm')
+  if (!isStaff(viewer) || filter.scope !== 'all') query.where('j.member_id', viewer.id)
+  if (filter.state) query.whereIn('j.state', filter.state.split(','))
+  query.orderByRaw('coalesce(j.submitted_at, j.created_at) asc')
+  const rows = await query
+  const summaries = []
+  for (const row of rows) {
+    const files = await currentFiles(db, row.id)
+    const estimate = await jobEstimate(db, row as JobRow, files)
+    const counts = countFindings(files)
+    summaries.push({
+      id: row.id,
+      title: row.title,
+      state: row.state as JobState,
+      memberName: row.member_name,
+      cutterName: row.cutter_name,
+      materialName: `${row.material_name} ${row.thickness_mm} mm`,
+      fileCount: files.length,
+      billableMinutes: estimate.billableMinutes,
+      totalPriceMinor: estimate.totalPriceMinor,
+      currency: estimate.currency,
+      worstFinding: counts.errors ? 'error' : counts.warnings ? 'warning' : counts.notes ? 'info' : null,
+      submittedAt: row.submitted_at,
+      createdAt: row.created_at,
+    })
+  }
+  return summaries
+}
+
+/** Submission: needs files, no unresolved errors (unless staff let this job through) and, with warnings, the member's acknowledgement. */
+export async function submitJob(db: Knex, member: SessionUser, jobId: number, acknowledgement?: string): Promise<TransitionRecord> {
+  const job = await jobForViewer(db, member, jobId)
+  await analysisParamsFor(db, { cutterId: job.cutter_id, materialId: job.material_id, sheetId: job.sheet_id })
+  const files = await currentFiles(db, jobId)
+  if (files.length === 0) throw new InvalidInput('Add at least one file before submitting.')
+  const counts = countFindings(files)
+  if (counts.errors > 0 && !job.override_reason) {
+    throw new InvalidInput(`${counts.errors} ${counts.errors === 1 ? 'problem needs' : 'problems need'} fixing before this job can be submitted. Upload corrected files, or ask the staff.`, { errors: counts.errors })
+  }
+  const note = acknowledgement?.trim() ?? ''
+  if (counts.warnings > 0 && note.length < 5) {
+    throw new InvalidInput(`Say in a few words why the ${counts.warnings} ${counts.warnings === 1 ? 'warning is' : 'warnings are'} fine (for example: "the 0.9 mm bridges are meant to fold").`, {
+      fields: { acknowledgement: 'Please acknowledge the warnings.' },
+    })
+  }
+  return db.transaction(async (trx) => {
+    await trx('jobs').where({ id: jobId }).update({ warnings_acknowledgement: counts.warnings > 0 ? note : null })
+    return transitionJob(trx, jobId, 'submit', member, { comment: counts.warnings > 0 ? `Warnings acknowledged: ${note}` : '' })
+  })
+}
+
+/** Review and the later steps: every move goes through transitionJob; approval re-checks for errors. */
+export async function moveJob(db: Knex, actor: SessionUser, jobId: number, action: Exclude<JobAction, 'submit' | 'book' | 'unbook'>, options: { comment?: string; findingRef?: { fileId: number; revision: number; index: number } } = {}): Promise<TransitionRecord> {
+  const job = await jobForViewer(db, actor, jobId)
+  if (action === 'approve' && !job.override_reason) {
+    const counts = countFindings(await currentFiles(db, jobId))
+    if (counts.errors > 0) throw new Conflict(`This job still has ${counts.errors} error(s). Ask for changes, or record an override with a reason first.`)
+  }
+  return db.transaction((trx) => transitionJob(trx, jobId, action, actor, options))
+}
+
+export async function recordOverride(db: Knex, staff: SessionUser, jobId: number, reason: string): Promise<void> {
+  const job = await jobForViewer(db, staff, jobId)
+  if (!['draft', 'submitted', 'changes_requested'].includes(job.state)) throw new Conflict('Limits can be overridden only before approval.')
+  await db.transaction(async (trx) => {
+    await trx('jobs').where({ id: jobId }).update({ override_reason: reason, override_by: staff.id, updated_at: nowIso() })
+    await trx('job_events').insert({ job_id: jobId, actor_id: staff.id, from_state: job.state, to_state: job.state, comment: `Limit override: ${reason}` })
+  })
+}

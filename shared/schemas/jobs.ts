@@ -1,0 +1,44 @@
+import { z } from 'zod'
+import { idField, optionalText, requiredText, wholeNumber } from './fields'
+
+export const MAX_FILES_PER_JOB = 200
+
+export const jobCreateSchema = z.object({
+  title: requiredText('Title', 120),
+  cutterId: idField('cutter'),
+  materialId: idField('material'),
+  sheetId: idField('sheet size').optional(),
+  notes: optionalText(2000),
+})
+export type JobCreateInput = z.output<typeof jobCreateSchema>
+
+export const jobUpdateSchema = jobCreateSchema.partial()
+
+export const fileQuantityField = wholeNumber('Copies', 1, 1000)
+
+export const jobFileUpdateSchema = z.object({ quantity: fileQuantityField })
+
+export const submitJobSchema = z.object({
+  acknowledgement: z.string().trim().max(2000).optional(),
+})
+
+export const reviewCommentSchema = z.object({
+  comment: z.string({ error: 'A comment is required.' }).trim().max(4000, { error: 'Use at most 4000 characters.' }).default(''),
+  findingRef: z.object({ fileId: z.number().int().positive(), revision: z.number().int().positive(), index: z.number().int().min(0) }).optional(),
+})
+
+export const overrideSchema = z.object({ reason: requiredText('Reason', 1000) })
+
+export const jobListQuerySchema = z.object({
+  state: z.string().optional(),
+  scope: z.enum(['mine', 'all']).optional(),
+})
+
+export const jobFileParamsSchema = z.object({
+  id: z.coerce.number().int().positive({ error: 'The job id must be a positive whole number.' }),
+  fileId: z.coerce.number().int().positive({ error: 'The file id must be a positive whole number.' }),
+})
+
+export const revisionParamsSchema = jobFileParamsSchema.extend({
+  revision: z.coerce.number().int().positive({ error: 'The revision must be a positive whole number.' }),
+})
