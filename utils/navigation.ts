@@ -9,6 +9,8 @@ export interface NavItem {
 // The one list of top-level pages; the layout shows each item to the roles named.
 export const NAV_ITEMS: NavItem[] = [
   { label: 'Overview', to: '/', roles: ['member', 'staff', 'admin'] },
+  { label: 'My jobs', to: '/jobs', roles: ['member', 'staff', 'admin'] },
+  { label: 'Review', to: '/staff/review', roles: ['staff', 'admin'] },
   { label: 'Check a file', to: '/check', roles: ['member', 'staff', 'admin'] },
   { label: 'What can I cut', to: '/catalog', roles: ['member', 'staff', 'admin'] },
   { label: 'Workshop setup', to: '/staff/setup/cutters', roles: ['staff', 'admin'] },
