@@ -53,26 +53,26 @@ export class CutSegments {
 
   /** Calls `visit(a, b)` once for every pair a < b of segments whose boxes come within `reachMm` of each other. */
   forEachPairWithin(reachMm: number, visit: (a: number, b: number) => void): void {
-    for (let a = 0; a < this.count; a++) {
-      this.forEachNear(this.boxOf(a, reachMm), (b) => {
-        if (b > a) visit(a, b)
-      })
+    if (this.index === null) return
+    const { xy } = this.contours
+    let a = 0
+    // One filter callback for all searches: it visits matches without building result arrays.
+    const visitLater = (b: number) => {
+      if (b > a) visit(a, b)
+      return false
+    }
+    for (; a < this.count; a++) {
+      const point = 2 * this.firstPoint[a]
+      this.index.search(Math.min(xy[point], xy[point + 2]) - reachMm, Math.min(xy[point + 1], xy[point + 3]) - reachMm, Math.max(xy[point], xy[point + 2]) + reachMm, Math.max(xy[point + 1], xy[point + 3]) + reachMm, visitLater)
     }
   }
 
   /** Calls `visit` for every segment whose box meets [minX, minY, maxX, maxY]. */
-  forEachNear(box: readonly [number, number, number, number], visit: (segment: number) => void): void {
-    // The filter callback visits matches without building a result array.
-    this.index?.search(box[0], box[1], box[2], box[3], (segment) => {
+  forEachNear(minX: number, minY: number, maxX: number, maxY: number, visit: (segment: number) => void): void {
+    this.index?.search(minX, minY, maxX, maxY, (segment) => {
       visit(segment)
       return false
     })
-  }
-
-  boxOf(segment: number, marginMm: number): [number, number, number, number] {
-    const { xy } = this.contours
-    const point = this.firstPoint[segment]
-    return [Math.min(xy[2 * point], xy[2 * point + 2]) - marginMm, Math.min(xy[2 * point + 1], xy[2 * point + 3]) - marginMm, Math.max(xy[2 * point], xy[2 * point + 2]) + marginMm, Math.max(xy[2 * point + 1], xy[2 * point + 3]) + marginMm]
   }
 
   /** [ax, ay, bx, by] of a segment. */
@@ -90,43 +90,34 @@ export class CutSegments {
     return gap === 1 || (this.contours.closed[contour] === 1 && gap === this.contours.pointsOf(contour) - 2)
   }
 
-  /** The neighbouring segments of one along its contour (one or two). */
-  neighbours(segment: number): number[] {
-    return [this.previous(segment), this.next(segment)].filter((neighbour) => neighbour >= 0)
-  }
-
   /** The segment before this one on its contour (a closed contour wraps round), −1 at the start of an open one. */
   previous(segment: number): number {
-    const { first, last, closed } = this.segmentRange(segment)
-    if (segment > first) return segment - 1
-    return closed && last > first ? last : -1
+    const contour = this.contourOf[segment]
+    if (this.firstPoint[segment] > this.contours.start[contour]) return segment - 1
+    const lastOffset = this.contours.start[contour + 1] - 2 - this.contours.start[contour]
+    return this.contours.closed[contour] === 1 && lastOffset > 0 ? segment + lastOffset : -1
   }
 
   /** The segment after this one on its contour, −1 at the end of an open one. */
   next(segment: number): number {
-    const { first, last, closed } = this.segmentRange(segment)
-    if (segment < last) return segment + 1
-    return closed && last > first ? first : -1
-  }
-
-  /** Ids of the first and last segment of this segment's contour. */
-  private segmentRange(segment: number): { first: number; last: number; closed: boolean } {
     const contour = this.contourOf[segment]
-    const offset = segment - this.firstPoint[segment]
-    return { first: this.contours.start[contour] + offset, last: this.contours.start[contour + 1] - 2 + offset, closed: this.contours.closed[contour] === 1 }
+    const lastOffset = this.contours.start[contour + 1] - 2 - this.contours.start[contour]
+    if (this.firstPoint[segment] < this.contours.start[contour + 1] - 2) return segment + 1
+    return this.contours.closed[contour] === 1 && lastOffset > 0 ? segment - lastOffset : -1
   }
 
   /** Distance along the contour between parameter u of segment a and v of segment b (same contour; the shorter way round a closed one). */
   alongBetweenMm(a: number, u: number, b: number, v: number): number {
-    const at = (segment: number, parameter: number) => {
-      const point = this.firstPoint[segment]
-      return this.alongMm[point] + parameter * (this.alongMm[point + 1] - this.alongMm[point])
-    }
-    const direct = Math.abs(at(a, u) - at(b, v))
+    const direct = Math.abs(this.alongAt(a, u) - this.alongAt(b, v))
     const contour = this.contourOf[a]
     if (this.contours.closed[contour] !== 1) return direct
     const perimeter = this.alongMm[this.contours.start[contour + 1] - 1]
     return Math.min(direct, perimeter - direct)
+  }
+
+  private alongAt(segment: number, parameter: number): number {
+    const point = this.firstPoint[segment]
+    return this.alongMm[point] + parameter * (this.alongMm[point + 1] - this.alongMm[point])
   }
 
   /** A closed cut whose inside drops out. */
@@ -148,16 +139,19 @@ export class CutSegments {
     const neighbour = t === 0 ? this.previous(segment) : t === 1 ? this.next(segment) : -1
     if (neighbour < 0) return onThisSide
     const onNeighbourSide = this.materialSideOf(neighbour, side, dx, dy)
-    const [ax, ay, bx, by] = this.ends(t === 0 ? neighbour : segment)
-    const [cx, cy, dx2, dy2] = this.ends(t === 0 ? segment : neighbour)
-    const turnsTowardsMaterial = side * ((bx - ax) * (dy2 - cy) - (by - ay) * (dx2 - cx)) > 0
-    return turnsTowardsMaterial ? onThisSide && onNeighbourSide : onThisSide || onNeighbourSide
+    const incoming = 2 * this.firstPoint[t === 0 ? neighbour : segment]
+    const outgoing = 2 * this.firstPoint[t === 0 ? segment : neighbour]
+    const { xy } = this.contours
+    const turn = (xy[incoming + 2] - xy[incoming]) * (xy[outgoing + 3] - xy[outgoing + 1]) - (xy[incoming + 3] - xy[incoming + 1]) * (xy[outgoing + 2] - xy[outgoing])
+    return side * turn > 0 ? onThisSide && onNeighbourSide : onThisSide || onNeighbourSide
   }
 
   private materialSideOf(segment: number, side: number, dx: number, dy: number): boolean {
-    const [ax, ay, bx, by] = this.ends(segment)
-    const cross = (bx - ax) * dy - (by - ay) * dx
-    return side * cross >= -ALONG_THE_CUT_RELATIVE * Math.hypot(bx - ax, by - ay) * Math.hypot(dx, dy)
+    const point = 2 * this.firstPoint[segment]
+    const { xy } = this.contours
+    const alongX = xy[point + 2] - xy[point]
+    const alongY = xy[point + 3] - xy[point + 1]
+    return side * (alongX * dy - alongY * dx) >= -ALONG_THE_CUT_RELATIVE * Math.hypot(alongX, alongY) * Math.hypot(dx, dy)
   }
 }
 

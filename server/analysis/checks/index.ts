@@ -68,7 +68,7 @@ function summarise(findings: Finding[], params: AnalysisParams): DesignRuleSumma
   const duplicateCutLengthMm = findings.filter((finding) => finding.code === 'duplicate-cut').reduce((sum, finding) => sum + (finding.valueMm ?? 0), 0)
   return {
     narrowBridgeSites: bridges.length,
-    narrowestBridgeMm: bridges.length > 0 ? Math.min(...bridges.map((finding) => finding.valueMm!)) : null,
+    narrowestBridgeMm: bridges.reduce<number | null>((narrowest, finding) => (narrowest === null ? finding.valueMm! : Math.min(narrowest, finding.valueMm!)), null),
     duplicateCutLengthMm,
     duplicateCutTimeS: cutTimeS(duplicateCutLengthMm, params),
   }

@@ -1,19 +1,17 @@
 import type { AnalysisParams } from '../params'
-import type { PolylineSet } from '../polylines'
 import { type CutSegments, cutSegmentsOf } from './cutSegments'
 import type { CheckGeometry } from './index'
 import { oncePerGeometry } from './memo'
 import { contourPairKey, isRepeatedStretch, repeatedCutsOf, repeatToleranceMm } from './repeatedCuts'
-import { type ClosestPoints, closestPointsOfSegments, crossingParameters, emptyClosestPoints } from './segmentGeometry'
+import { closestPointsOfSegments, crossingParameters, emptyClosestPoints } from './segmentGeometry'
 
 /**
  * How two nearby cut segments relate:
  * - `touch`: their centre lines cross or meet (within the chaining tolerance);
- * - `web`: the straight line between their closest points runs through material and crosses no other cut, so it measures a bridge;
- * - `scrap`: that line runs through the piece that drops out (a slot's inside, the gap between two parts);
- * - `screened`: another cut lies between them, so they leave no web of their own.
+ * - `web`: the straight line between their closest points leaves both cuts into material, so it may measure a bridge (unless another cut screens it, see `isScreened`);
+ * - `scrap`: that line runs through the piece that drops out (a slot's inside, the gap between two parts).
  */
-export type NearKind = 'touch' | 'web' | 'scrap' | 'screened'
+export type NearKind = 'touch' | 'web' | 'scrap'
 
 export interface NearCut {
   kind: NearKind
@@ -47,18 +45,22 @@ function findNearCuts(geometry: CheckGeometry, params: AnalysisParams): NearCut[
   const repeated = repeatedCutsOf(geometry, params)
   const reachMm = bridgeReachMm(params)
   const touchMm = params.chainToleranceMm
+  const repeatMm = repeatToleranceMm(params)
+  const { xy } = segments.contours
   const closest = emptyClosestPoints()
   const found: NearCut[] = []
   segments.forEachPairWithin(reachMm, (first, second) => {
     if (segments.adjacent(first, second)) return
     const firstContour = segments.contourOf[first]
-    const sameContour = firstContour === segments.contourOf[second]
-    if (sameContour ? isRepeatedStretch(segments, first, second, params) : repeated.repeatingPairs.has(contourPairKey(segments.contours, firstContour, segments.contourOf[second]))) return
-    const [ax, ay, bx, by] = segments.ends(first)
-    const [cx, cy, dx, dy] = segments.ends(second)
-    closestPointsOfSegments(ax, ay, bx, by, cx, cy, dx, dy, closest)
+    const secondContour = segments.contourOf[second]
+    const sameContour = firstContour === secondContour
+    if (!sameContour && repeated.repeatingPairs.has(contourPairKey(segments.contours, firstContour, secondContour))) return
+    const a = 2 * segments.firstPoint[first]
+    const c = 2 * segments.firstPoint[second]
+    closestPointsOfSegments(xy[a], xy[a + 1], xy[a + 2], xy[a + 3], xy[c], xy[c + 1], xy[c + 2], xy[c + 3], closest)
     const { distanceMm, px, py, qx, qy } = closest
     if (distanceMm >= reachMm) return
+    if (sameContour && distanceMm <= repeatMm && isRepeatedStretch(segments, first, second, params)) return
     const alongMm = sameContour ? segments.alongBetweenMm(first, closest.u, second, closest.v) : Infinity
     let kind: NearKind
     if (distanceMm <= touchMm) {
@@ -66,26 +68,31 @@ function findNearCuts(geometry: CheckGeometry, params: AnalysisParams): NearCut[
       kind = 'touch'
     } else {
       if (alongMm <= distanceMm + 2 * reachMm) return
-      kind = webKind(segments, first, second, closest, touchMm)
+      kind = segments.pointsIntoMaterial(first, closest.u, qx - px, qy - py) && segments.pointsIntoMaterial(second, closest.v, px - qx, py - qy) ? 'web' : 'scrap'
     }
     found.push({ kind, first, second, sameContour, distanceMm, px, py, qx, qy })
   })
   return found
 }
 
-function webKind(segments: CutSegments, first: number, second: number, closest: ClosestPoints, touchMm: number): NearKind {
-  const { px, py, qx, qy, distanceMm } = closest
-  if (!segments.pointsIntoMaterial(first, closest.u, qx - px, qy - py) || !segments.pointsIntoMaterial(second, closest.v, px - qx, py - qy)) return 'scrap'
-  // Crossings within the touch tolerance of P or Q are where the line leaves its own cuts' neighbours.
-  const endMargin = touchMm / distanceMm
+/**
+ * Whether another cut crosses the line between a web's closest points, so
+ * the two cuts leave no web of their own (the outer two of three parallel
+ * slits). Crossings within the touch tolerance of either end are where the
+ * line leaves its own cuts' neighbours.
+ */
+export function isScreened(segments: CutSegments, near: NearCut, touchMm: number): boolean {
+  const { px, py, qx, qy } = near
+  const endMargin = touchMm / near.distanceMm
+  const { xy } = segments.contours
   let screened = false
-  segments.forEachNear([Math.min(px, qx), Math.min(py, qy), Math.max(px, qx), Math.max(py, qy)], (other) => {
-    if (screened || other === first || other === second) return
-    const [ax, ay, bx, by] = segments.ends(other)
-    const crossing = crossingParameters(px, py, qx, qy, ax, ay, bx, by)
+  segments.forEachNear(Math.min(px, qx), Math.min(py, qy), Math.max(px, qx), Math.max(py, qy), (other) => {
+    if (screened || other === near.first || other === near.second) return
+    const point = 2 * segments.firstPoint[other]
+    const crossing = crossingParameters(px, py, qx, qy, xy[point], xy[point + 1], xy[point + 2], xy[point + 3])
     if (crossing !== null && crossing[0] > endMargin && crossing[0] < 1 - endMargin) screened = true
   })
-  return screened ? 'screened' : 'web'
+  return screened
 }
 
 /** The near pairs of a geometry, found once for the checks that need them. */
