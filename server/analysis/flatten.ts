@@ -4,7 +4,7 @@ import { measuredCurveLength } from './curveLength'
 import { AnalysisInputError } from './errors'
 import type { Matrix } from './matrix'
 import type { PolylineSet } from './polylines'
-import { STEP_CLOSE, STEP_MOVE, StraightPath } from './straightPath'
+import { type CurveSegment, PathSteps, STEP_CLOSE, STEP_CURVE, STEP_MOVE } from './pathSteps'
 
 // Beyond a kilometre a coordinate is a drawing mistake (or 1e300), and sums of squares would overflow.
 const MAX_COORDINATE_MM = 1e6
@@ -21,26 +21,33 @@ interface SvgPathWithState {
  * one polyline per subpath, with chords no farther than `chordToleranceMm`
  * from the curve and the exact length of the transformed curves (svgpath
  * transforms arcs exactly, including skew; svg-path-properties measures them).
- * Straight path data skips svgpath: the points it would give are the
- * absolute user-space points through the matrix, computed here the same way.
+ * Path data that PathSteps reads skips svgpath: straight steps go through
+ * the matrix as svgpath's Matrix.calc would take them, and curves are used
+ * as read when the matrix is the identity (svgpath leaves them alone then).
  */
 export function flattenPath(pathData: string, matrix: Matrix, chordToleranceMm: number, target: PolylineSet, operationCode: number, elementIndex: number, forceClosed: boolean): void {
   const subpaths = new SubpathWriter(target, operationCode, elementIndex, forceClosed)
-  if (straightPath.read(pathData)) flattenStraight(straightPath, matrix, subpaths)
+  const [a, b, c, d, e, f] = matrix
+  // svgpath's own identity test: under it no arithmetic may touch the numbers.
+  const identity = a === 1 && b === 0 && c === 0 && d === 1 && e === 0 && f === 0
+  if (pathSteps.read(pathData) && (identity || pathSteps.curves.length === 0)) flattenSteps(pathSteps, matrix, identity, chordToleranceMm, subpaths)
   else flattenWithSvgpath(pathData, matrix, chordToleranceMm, subpaths)
   subpaths.finish(false)
 }
 
-const straightPath = new StraightPath()
+const pathSteps = new PathSteps()
 
-function flattenStraight(steps: StraightPath, matrix: Matrix, subpaths: SubpathWriter): void {
+function flattenSteps(steps: PathSteps, matrix: Matrix, identity: boolean, chordToleranceMm: number, subpaths: SubpathWriter): void {
   const [a, b, c, d, e, f] = matrix
-  // svgpath leaves points alone under the identity, so no arithmetic may touch them then.
-  const identity = a === 1 && b === 0 && c === 0 && d === 1 && e === 0 && f === 0
+  let curve = 0
   for (let step = 0; step < steps.count; step++) {
     const kind = steps.kind[step]
     if (kind === STEP_CLOSE) {
       subpaths.finish(true)
+      continue
+    }
+    if (kind === STEP_CURVE) {
+      flattenCurve(steps.curves[curve++], chordToleranceMm, subpaths)
       continue
     }
     const userX = steps.x[step]
@@ -58,7 +65,6 @@ function flattenWithSvgpath(pathData: string, matrix: Matrix, chordToleranceMm: 
   if (path.err) {
     throw new AnalysisInputError('badNumber', `A shape's path data cannot be read (${path.err.replace(/^SvgPath: /, '')}). Save the file again from your drawing program.`)
   }
-  const { target } = subpaths
   for (const segment of path.segments) {
     const command = segment[0]
     switch (command) {
@@ -74,38 +80,42 @@ function flattenWithSvgpath(pathData: string, matrix: Matrix, chordToleranceMm: 
         subpaths.lineTo(command === 'V' ? subpaths.x : (segment[1] as number), command === 'H' ? subpaths.y : command === 'V' ? (segment[1] as number) : (segment[2] as number))
         break
       case 'C':
-      case 'Q': {
-        subpaths.ensureOpen()
-        const { x, y } = subpaths
-        const [, ...numbers] = segment as [string, ...number[]]
-        const chordsMm = command === 'C'
-          ? addCubic(target, x, y, numbers[0], numbers[1], numbers[2], numbers[3], numbers[4], numbers[5], chordToleranceMm)
-          : addQuadratic(target, x, y, numbers[0], numbers[1], numbers[2], numbers[3], chordToleranceMm)
-        subpaths.curveTo(numbers[numbers.length - 2], numbers[numbers.length - 1], curveLength(x, y, segment, chordsMm))
+      case 'Q':
+      case 'A':
+        flattenCurve(segment as CurveSegment, chordToleranceMm, subpaths)
         break
-      }
-      case 'A': {
-        subpaths.ensureOpen()
-        const { x, y } = subpaths
-        const [, rx, ry, rotationDeg, largeArc, sweep, toX, toY] = segment as number[]
-        if (toX === x && toY === y) break
-        // SVG 1.1 F.6.2: an arc with a zero radius is a straight line.
-        if (rx === 0 || ry === 0) {
-          subpaths.lineTo(toX, toY)
-          break
-        }
-        for (const cubic of arcToCubics(x, y, toX, toY, largeArc, sweep, rx, ry, rotationDeg)) {
-          addCubic(target, cubic[0], cubic[1], cubic[2], cubic[3], cubic[4], cubic[5], cubic[6], cubic[7], chordToleranceMm)
-        }
-        // The cubics end on the arc's endpoint up to rounding; land exactly on it.
-        target.xy[2 * target.pointCount - 2] = toX
-        target.xy[2 * target.pointCount - 1] = toY
-        // The cubics approximating an arc bulge slightly outside it, so their chords are no lower bound here.
-        subpaths.curveTo(toX, toY, curveLength(x, y, segment, 0))
-        break
-      }
     }
   }
+}
+
+/** One absolute C, Q or A segment from the current point: its chords, and its exact length. */
+function flattenCurve(segment: CurveSegment, chordToleranceMm: number, subpaths: SubpathWriter): void {
+  const { target } = subpaths
+  subpaths.ensureOpen()
+  const { x, y } = subpaths
+  if (segment[0] !== 'A') {
+    const [, ...numbers] = segment
+    const chordsMm = segment[0] === 'C'
+      ? addCubic(target, x, y, numbers[0], numbers[1], numbers[2], numbers[3], numbers[4], numbers[5], chordToleranceMm)
+      : addQuadratic(target, x, y, numbers[0], numbers[1], numbers[2], numbers[3], chordToleranceMm)
+    subpaths.curveTo(numbers[numbers.length - 2], numbers[numbers.length - 1], curveLength(x, y, segment, chordsMm))
+    return
+  }
+  const [, rx, ry, rotationDeg, largeArc, sweep, toX, toY] = segment as unknown as number[]
+  if (toX === x && toY === y) return
+  // SVG 1.1 F.6.2: an arc with a zero radius is a straight line.
+  if (rx === 0 || ry === 0) {
+    subpaths.lineTo(toX, toY)
+    return
+  }
+  for (const cubic of arcToCubics(x, y, toX, toY, largeArc, sweep, rx, ry, rotationDeg)) {
+    addCubic(target, cubic[0], cubic[1], cubic[2], cubic[3], cubic[4], cubic[5], cubic[6], cubic[7], chordToleranceMm)
+  }
+  // The cubics end on the arc's endpoint up to rounding; land exactly on it.
+  target.xy[2 * target.pointCount - 2] = toX
+  target.xy[2 * target.pointCount - 1] = toY
+  // The cubics approximating an arc bulge slightly outside it, so their chords are no lower bound here.
+  subpaths.curveTo(toX, toY, curveLength(x, y, segment, 0))
 }
 
 /**
@@ -176,7 +186,7 @@ class SubpathWriter {
  * given: by the triangle inequality no curve is shorter than its chords, and
  * quadrature undershoots near cusps.
  */
-function curveLength(fromX: number, fromY: number, segment: [string, ...number[]], chordsMm: number): number {
+function curveLength(fromX: number, fromY: number, segment: CurveSegment, chordsMm: number): number {
   return Math.max(chordsMm, measuredCurveLength(fromX, fromY, segment))
 }
 

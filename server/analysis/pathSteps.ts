@@ -1,18 +1,23 @@
 /**
- * Reads path data made only of straight commands (M, L, H, V, Z, relative or
- * absolute) into absolute user-space points, without svgpath. Most of what
- * drawing programs export for cut patterns (lines, polylines, polygons,
- * square rects, slits) is like this, and for it one scan replaces svgpath's
- * segment arrays. It follows svgpath's grammar (numbers, implicit repeats,
- * `m` pairs becoming `l`), so both read the same points; anything it does not
- * accept — another command, an exponent, an unusual separator, a syntax error
- * — makes it answer false, and the caller uses svgpath, which also words the
- * error messages.
+ * Reads path data into absolute user-space steps without svgpath: moves,
+ * lines and closes as points (M, L, H, V, Z), and cubic, quadratic and arc
+ * segments (C, Q, A) as the absolute segments svgpath's abs() writes. Most of
+ * what drawing programs export for cut patterns is like this, and one scan
+ * replaces svgpath's parsing. It follows svgpath's grammar (numbers, arc
+ * flags, implicit repeats, `m` pairs becoming `l`), so both read the same
+ * numbers; anything it does not accept — S or T, an exponent, an unusual
+ * separator, a syntax error — makes it answer false, and the caller uses
+ * svgpath, which also words the error messages.
  */
 
 export const STEP_MOVE = 0
 export const STEP_LINE = 1
 export const STEP_CLOSE = 2
+/** A C, Q or A segment: see `curves`. */
+export const STEP_CURVE = 3
+
+/** An absolute curve segment as svgpath writes it: command, then its numbers. */
+export type CurveSegment = [string, ...number[]]
 
 const CHAR_SPACE = 0x20
 const CHAR_TAB = 0x09
@@ -25,6 +30,10 @@ const CHAR_DOT = 0x2e
 const CHAR_ZERO = 0x30
 const CHAR_NINE = 0x39
 const LOWER_CASE_BIT = 0x20
+const CHAR_ONE = 0x31
+
+// Numbers per segment (svgpath's paramCounts) for the curves read here.
+const CURVE_PARAMETERS: Record<number, number> = { 0x63 /* c */: 6, 0x71 /* q */: 4, 0x61 /* a */: 7 }
 
 // Powers of ten up to 1e22 are exact doubles, and so is any integer below 2^53:
 // their quotient is then correctly rounded, the same double parseFloat gives.
@@ -32,20 +41,23 @@ const EXACT_POWERS_OF_TEN = Array.from({ length: 23 }, (_, exponent) => Number(`
 const MAX_EXACT_DIGITS = 15
 
 /** The steps of one path, reused from element to element so a path costs no allocation. */
-export class StraightPath {
+export class PathSteps {
   kind = new Uint8Array(64)
   x = new Float64Array(64)
   y = new Float64Array(64)
   count = 0
+  /** The curve segments in step order, one per STEP_CURVE. */
+  curves: CurveSegment[] = []
   private text = ''
   private index = 0
   private number = 0
 
-  /** Fills the steps from `pathData`; false when the data is not plain straight path data. */
+  /** Fills the steps from `pathData`; false when it has something only svgpath reads. */
   read(pathData: string): boolean {
     this.text = pathData
     this.index = 0
     this.count = 0
+    this.curves = []
     let currentX = 0
     let currentY = 0
     let subpathX = 0
@@ -62,6 +74,14 @@ export class StraightPath {
         this.push(STEP_CLOSE, subpathX, subpathY)
         currentX = subpathX
         currentY = subpathY
+        continue
+      }
+      const curveParameters = CURVE_PARAMETERS[lowerCase]
+      if (curveParameters !== undefined) {
+        const end = this.readCurves(command, curveParameters, relative, currentX, currentY)
+        if (!end) return false
+        currentX = end[0]
+        currentY = end[1]
         continue
       }
       if (lowerCase !== 0x6d && lowerCase !== 0x6c /* l */ && lowerCase !== 0x68 /* h */ && lowerCase !== 0x76 /* v */) return false
@@ -95,6 +115,46 @@ export class StraightPath {
         if (this.index >= pathData.length || !startsNumber(pathData.charCodeAt(this.index))) break
       }
     }
+    return true
+  }
+
+  /**
+   * One curve command with its implicit repeats, from the current point;
+   * returns the new current point, or undefined on anything svgpath would
+   * refuse. Relative numbers add to the current point as in svgpath's abs():
+   * every pair of C and Q, only the end point of A.
+   */
+  private readCurves(command: number, parameters: number, relative: boolean, fromX: number, fromY: number): [number, number] | undefined {
+    const isArc = (command | LOWER_CASE_BIT) === 0x61
+    const name = String.fromCharCode(command & ~LOWER_CASE_BIT)
+    let currentX = fromX
+    let currentY = fromY
+    for (;;) {
+      const segment: CurveSegment = [name]
+      let commaFound = false
+      for (let position = 1; position <= parameters; position++) {
+        const isFlag = isArc && (position === 4 || position === 5)
+        if (!(isFlag ? this.scanFlag() : this.scanNumber())) return undefined
+        const isX = isArc ? position === 6 : position % 2 === 1
+        const isY = isArc ? position === 7 : position % 2 === 0
+        segment.push(relative && isX ? this.number + currentX : relative && isY ? this.number + currentY : this.number)
+        commaFound = this.skipSeparator()
+      }
+      currentX = segment[parameters - 1] as number
+      currentY = segment[parameters] as number
+      this.curves.push(segment)
+      this.push(STEP_CURVE, currentX, currentY)
+      if (commaFound) continue
+      if (this.index >= this.text.length || !startsNumber(this.text.charCodeAt(this.index))) return [currentX, currentY]
+    }
+  }
+
+  /** svgpath's arc flag: one character, 0 or 1. */
+  private scanFlag(): boolean {
+    const code = this.text.charCodeAt(this.index)
+    if (code !== CHAR_ZERO && code !== CHAR_ONE) return false
+    this.number = code - CHAR_ZERO
+    this.index++
     return true
   }
 
