@@ -1,43 +1,77 @@
 // Benchmark: `npm run bench`. Generates a fold pattern of invented units and times the engine against a bare svgson parse.
 import { parseSync } from 'svgson'
-import { analyzeSvg, DEFAULT_ANALYSIS_PARAMS } from '../server/analysis/index'
+import { type AnalysisStage, analyzeSvg, DEFAULT_ANALYSIS_PARAMS } from '../server/analysis/index'
 
 const UNIT_MM = 12
 const REPEATS = 3
 
+/** Three decimals, as drawing programs write coordinates. */
+function mm(value: number): string {
+  return value.toFixed(3)
+}
+
 /**
- * A sheet of square folding units: each unit has four slits along its sides
- * that stop short of the corners (leaving pinch bridges), each slit drawn as
- * two lines that chain, a small corner relief arc and a score line across.
+ * One square folding unit at (x, y), written the way a drawing program
+ * exports it (ids, absolute coordinates with three decimals, basic shapes):
+ * four slits along the sides that stop short of the corners, each drawn as
+ * two lines that chain; a pinch relief arc at each corner; a round relief
+ * hole; a rounded slot; a tab outline of two cubic curves; a zig-zag hinge
+ * polyline; and a score line across.
  */
+function foldUnit(row: number, column: number): string {
+  const x = column * UNIT_MM
+  const y = row * UNIT_MM
+  const id = `u${row}-${column}`
+  const inset = 0.6
+  const near = 1.2
+  const far = UNIT_MM - near
+  const middle = UNIT_MM / 2
+  const line = (name: string, fromX: number, fromY: number, toX: number, toY: number) => `<path id="${id}-${name}" d="M${mm(x + fromX)} ${mm(y + fromY)}L${mm(x + toX)} ${mm(y + toY)}"/>`
+  const corner = (name: string, cornerX: number, cornerY: number, sweep: number) =>
+    `<path id="${id}-${name}" d="M${mm(x + cornerX)} ${mm(y + cornerY - 0.4)}A0.4 0.4 0 0 ${sweep} ${mm(x + cornerX + (sweep ? 0.4 : -0.4))} ${mm(y + cornerY)}"/>`
+  const hinge = Array.from({ length: 9 }, (_, step) => `${mm(x + 3 + step * 0.75)},${mm(y + (step % 2 === 0 ? 8.4 : 9))}`).join(' ')
+  return [
+    `<g id="${id}">`,
+    line('top-a', near, inset, middle, inset),
+    line('top-b', middle, inset, far, inset),
+    line('bottom-a', far, UNIT_MM - inset, middle, UNIT_MM - inset),
+    line('bottom-b', middle, UNIT_MM - inset, near, UNIT_MM - inset),
+    line('left', inset, near, inset, far),
+    line('right', UNIT_MM - inset, far, UNIT_MM - inset, near),
+    corner('pinch-a', 2, 2, 1),
+    corner('pinch-b', far - 0.8, 2, 0),
+    corner('pinch-c', 2, far - 0.8, 1),
+    corner('pinch-d', far - 0.8, far - 0.8, 0),
+    `<circle id="${id}-relief" cx="${mm(x + middle)}" cy="${mm(y + middle)}" r="1.000"/>`,
+    `<rect id="${id}-slot" x="${mm(x + 7.5)}" y="${mm(y + 2.5)}" width="2.400" height="0.800" rx="0.400"/>`,
+    `<path id="${id}-tab" d="M${mm(x + 2.5)} ${mm(y + 4)}C${mm(x + 2.5)} ${mm(y + 2.8)} ${mm(x + 5)} ${mm(y + 2.8)} ${mm(x + 5)} ${mm(y + 4)}C${mm(x + 5)} ${mm(y + 5.2)} ${mm(x + 2.5)} ${mm(y + 5.2)} ${mm(x + 2.5)} ${mm(y + 4)}Z"/>`,
+    `<polyline id="${id}-hinge" points="${hinge}"/>`,
+    `<path id="${id}-fold" class="fold" d="M${mm(x + near)} ${mm(y + near)}L${mm(x + far)} ${mm(y + far)}"/>`,
+    '</g>',
+  ].join('')
+}
+
 function foldPattern(unitsAcross: number, unitsDown: number): string {
-  const parts: string[] = []
-  const bridgeMm = 1.2
+  const units: string[] = []
   for (let row = 0; row < unitsDown; row++) {
-    for (let column = 0; column < unitsAcross; column++) {
-      const x = column * UNIT_MM
-      const y = row * UNIT_MM
-      const near = bridgeMm
-      const far = UNIT_MM - bridgeMm
-      const middle = UNIT_MM / 2
-      parts.push(
-        `<g transform="translate(${x} ${y})">`,
-        `<path d="M${near} 0.6H${middle}"/><path d="M${middle} 0.6H${far}"/>`,
-        `<path d="M${far} ${UNIT_MM - 0.6}H${middle}"/><path d="M${middle} ${UNIT_MM - 0.6}H${near}"/>`,
-        `<path d="M0.6 ${near}V${far}"/><path d="M${UNIT_MM - 0.6} ${far}V${near}"/>`,
-        `<path d="M${middle - 1} ${middle}a1 1 0 1 1 2 0a1 1 0 1 1 -2 0z"/>`,
-        `<path class="fold" d="M${near} ${near}L${far} ${far}"/>`,
-        '</g>',
-      )
-    }
+    for (let column = 0; column < unitsAcross; column++) units.push(foldUnit(row, column))
   }
   const widthMm = unitsAcross * UNIT_MM
   const heightMm = unitsDown * UNIT_MM
   return `<svg xmlns="http://www.w3.org/2000/svg" width="${widthMm}mm" height="${heightMm}mm" viewBox="0 0 ${widthMm} ${heightMm}">
 <style>.fold { stroke: #00897b }</style>
-<g fill="none" stroke="#c2185b"><path d="M0 0H${widthMm}V${heightMm}H0Z"/>
-${parts.join('\n')}
+<g fill="none" stroke="#c2185b" stroke-width="0.1"><path id="outline" d="M0 0H${widthMm}V${heightMm}H0Z"/>
+${units.join('\n')}
 </g></svg>`
+}
+
+interface Figures {
+  megabytes: number
+  contours: number
+  engineMs: number
+  parseMs: number
+  /** Stage times of the fastest engine run. */
+  stageMs: Partial<Record<AnalysisStage, number>>
 }
 
 function fastestMs(run: () => void): number {
@@ -50,20 +84,39 @@ function fastestMs(run: () => void): number {
   return best
 }
 
-function measure(unitsAcross: number, unitsDown: number): { engineMs: number; parseMs: number; megabytes: number } {
+function measure(unitsAcross: number, unitsDown: number): Figures {
   const svg = foldPattern(unitsAcross, unitsDown)
   const params = { ...DEFAULT_ANALYSIS_PARAMS, sheetWidthMm: 2000, sheetHeightMm: 2000, bedWidthMm: 2000, bedHeightMm: 2000 }
-  const engineMs = fastestMs(() => analyzeSvg(svg, params))
+  let engineMs = Infinity
+  let stageMs: Figures['stageMs'] = {}
+  let contours = 0
+  for (let attempt = 0; attempt < REPEATS; attempt++) {
+    const stages: Figures['stageMs'] = {}
+    const started = performance.now()
+    const result = analyzeSvg(svg, params, { onStageTimed: (stage, elapsedMs) => (stages[stage] = elapsedMs) })
+    const elapsedMs = performance.now() - started
+    contours = result.cut.pierces
+    if (elapsedMs < engineMs) {
+      engineMs = elapsedMs
+      stageMs = stages
+    }
+  }
   const parseMs = fastestMs(() => parseSync(svg))
-  return { engineMs, parseMs, megabytes: svg.length / 1e6 }
+  return { megabytes: svg.length / 1e6, contours, engineMs, parseMs, stageMs }
+}
+
+function report(label: string, figures: Figures): void {
+  console.log(
+    `${label.padEnd(16)} ${figures.megabytes.toFixed(2)} MB  ${figures.contours} cut contours  engine ${figures.engineMs.toFixed(0)} ms  svgson parse ${figures.parseMs.toFixed(0)} ms  ratio ${(figures.engineMs / figures.parseMs).toFixed(2)}×`,
+  )
+  const stages = Object.entries(figures.stageMs).map(([stage, elapsedMs]) => `${stage} ${elapsedMs.toFixed(0)}`)
+  console.log(`${''.padEnd(16)} stages (ms): ${stages.join(', ')}`)
 }
 
 // Warm up the JIT on a small pattern so the first timing is not a compile.
 measure(10, 10)
 const base = measure(60, 60)
 const doubled = measure(60, 120)
-const line = (label: string, figures: ReturnType<typeof measure>) =>
-  `${label.padEnd(16)} ${figures.megabytes.toFixed(2)} MB  engine ${figures.engineMs.toFixed(0)} ms  svgson parse ${figures.parseMs.toFixed(0)} ms  ratio ${(figures.engineMs / figures.parseMs).toFixed(2)}×`
-console.log(line('60 × 60 units', base))
-console.log(line('60 × 120 units', doubled))
+report('60 × 60 units', base)
+report('60 × 120 units', doubled)
 console.log(`doubling the pattern: engine time × ${(doubled.engineMs / base.engineMs).toFixed(2)} (target ≤ 2.3), engine/parse targets ≤ 3`)
