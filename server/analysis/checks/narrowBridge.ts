@@ -16,23 +16,50 @@ export function checkNarrowBridges(geometry: CheckGeometry, params: AnalysisPara
   const segments = cutSegmentsOf(geometry)
   const narrow = nearCutsOf(geometry, params).filter((near) => near.kind === 'web' && webMm(near, params) < params.minBridgeMm)
   const siteOf = bridgeSites(segments, narrow)
-  const byWidth = Array.from(narrow.keys()).sort((a, b) => narrow[a].distanceMm - narrow[b].distanceMm)
-  const reported = new Uint8Array(narrow.length)
-  const findings: Finding[] = []
-  for (const slot of byWidth) {
+  const narrowestOfSite = new Map<number, number>()
+  narrow.forEach((near, slot) => {
     const site = siteOf(slot)
-    if (reported[site] || isScreened(segments, narrow[slot], params.chainToleranceMm)) continue
-    reported[site] = 1
-    findings.push(bridgeFinding(narrow[slot], segments.contourOf, params))
+    const best = narrowestOfSite.get(site)
+    if (best === undefined || near.distanceMm < narrow[best].distanceMm) narrowestOfSite.set(site, slot)
+  })
+  // Usually the narrowest pair of a site is unscreened; only sites where it is not need their other pairs, widest last.
+  const screenedSites = new Set([...narrowestOfSite].filter(([, slot]) => isScreened(segments, narrow[slot], params.chainToleranceMm)).map(([site]) => site))
+  const othersOfScreened = new Map<number, number[]>()
+  narrow.forEach((_, slot) => {
+    const site = siteOf(slot)
+    if (!screenedSites.has(site)) return
+    const others = othersOfScreened.get(site)
+    if (others === undefined) othersOfScreened.set(site, [slot])
+    else others.push(slot)
+  })
+  const reported: number[] = []
+  for (const [site, slot] of narrowestOfSite) {
+    if (!screenedSites.has(site)) {
+      reported.push(slot)
+      continue
+    }
+    const unscreened = othersOfScreened.get(site)!.sort((a, b) => narrow[a].distanceMm - narrow[b].distanceMm).find((other) => !isScreened(segments, narrow[other], params.chainToleranceMm))
+    if (unscreened !== undefined) reported.push(unscreened)
   }
-  return findings
+  return reported.sort((a, b) => narrow[a].distanceMm - narrow[b].distanceMm).map((slot) => bridgeFinding(narrow[slot], segments.contourOf, params))
 }
 
-/** Union–find over the narrow pairs: returns the site (a representative slot) of each slot. */
+/**
+ * Union–find over the narrow pairs: returns the site (a representative slot)
+ * of each slot. The pairs arrive sorted by their first segment (the pair scan
+ * goes through segments in order), so the pairs of one first segment form a
+ * short row found by offset, and a neighbouring pair is looked up in its row.
+ */
 function bridgeSites(segments: CutSegments, narrow: NearCut[]): (slot: number) => number {
-  const pairKey = (a: number, b: number) => Math.min(a, b) * segments.count + Math.max(a, b)
-  const slotOfPair = new Map<number, number>()
-  narrow.forEach((near, slot) => slotOfPair.set(pairKey(near.first, near.second), slot))
+  const rowStart = new Int32Array(segments.count + 1)
+  for (const near of narrow) rowStart[near.first + 1]++
+  for (let segment = 0; segment < segments.count; segment++) rowStart[segment + 1] += rowStart[segment]
+  const slotOfPair = (a: number, b: number) => {
+    const first = Math.min(a, b)
+    const second = Math.max(a, b)
+    for (let slot = rowStart[first]; slot < rowStart[first + 1]; slot++) if (narrow[slot].second === second) return slot
+    return -1
+  }
   const parent = Int32Array.from(narrow.keys())
   const find = (slot: number): number => {
     while (parent[slot] !== slot) slot = parent[slot] = parent[parent[slot]]
@@ -46,8 +73,8 @@ function bridgeSites(segments: CutSegments, narrow: NearCut[]): (slot: number) =
     for (const first of firstSides) {
       for (const second of secondSides) {
         if (first < 0 || second < 0) continue
-        const other = slotOfPair.get(pairKey(first, second))
-        if (other !== undefined) parent[find(other)] = find(slot)
+        const other = slotOfPair(first, second)
+        if (other >= 0) parent[find(other)] = find(slot)
       }
     }
   })
