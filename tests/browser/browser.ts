@@ -7,7 +7,7 @@ import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { fileURLToPath } from 'node:url'
 import type * as Axe from 'axe-core'
-import { chromium, type BrowserContext, type Page, type Request } from 'playwright-core'
+import { chromium, type BrowserContext, type Page } from 'playwright-core'
 import { expect, inject, test } from 'vitest'
 import { DEMO_PASSWORD } from '../api/helpers'
 
@@ -47,8 +47,7 @@ interface ExpectedProblem {
 export class BrowserSession {
   private readonly problems: BrowserProblem[] = []
   private readonly expectedProblems: ExpectedProblem[] = []
-  private readonly inFlight = new Set<Request>()
-  private readonly leftBehind = new WeakSet<Request>()
+  private openingPage = false
 
   private constructor(
     readonly context: BrowserContext,
@@ -59,13 +58,12 @@ export class BrowserSession {
       if (message.type() === 'error') this.report({ kind: 'console error', text: message.text(), url: message.location().url })
     })
     context.on('weberror', (error) => this.report({ kind: 'uncaught error', text: error.error().message, url: error.page()?.url() ?? '' }))
-    context.on('request', (request) => this.inFlight.add(request))
-    context.on('requestfinished', (request) => this.inFlight.delete(request))
     context.on('requestfailed', (request) => {
-      this.inFlight.delete(request)
       const errorText = request.failure()?.errorText ?? ''
-      // Leaving a page cancels its prefetches: that is the test navigating, not the app failing.
-      if (errorText === 'net::ERR_ABORTED' && this.leftBehind.has(request)) return
+      // Opening an address cancels what the page being left was still fetching (its prefetches): that
+      // is the test navigating, not the app failing. The new page's own loads are covered by the
+      // hydration wait in open(), which fails if they do not arrive.
+      if (errorText === 'net::ERR_ABORTED' && this.openingPage) return
       this.report({ kind: 'request failed', text: `${request.method()} ${errorText}`, url: request.url() })
     })
     context.on('response', (response) => {
@@ -114,9 +112,13 @@ export class BrowserSession {
 
   /** Opens a path and waits until Nuxt has hydrated it, so clicks reach Vue rather than plain HTML. */
   async open(path: string, expectedStatus = 200): Promise<void> {
-    for (const request of this.inFlight) this.leftBehind.add(request)
-    const response = await this.page.goto(path)
-    expect(response?.status(), `status of ${path}`).toBe(expectedStatus)
+    this.openingPage = true
+    try {
+      const response = await this.page.goto(path)
+      expect(response?.status(), `status of ${path}`).toBe(expectedStatus)
+    } finally {
+      this.openingPage = false
+    }
     await waitForHydration(this.page)
   }
 
