@@ -2,6 +2,7 @@ import type { Knex } from 'knex'
 import * as accounts from './0001_accounts'
 import * as catalog from './0002_catalog'
 import * as jobs from './0003_jobs'
+import * as bookings from './0004_bookings'
 
 // Append-only: a schema change is a new file added at the end of this list, never an edit of a landed one.
 // Migrations are imported statically so the bundled server and the CLI run the same list.
@@ -9,6 +10,7 @@ const migrations: Record<string, Knex.Migration> = {
   '0001_accounts': accounts,
   '0002_catalog': catalog,
   '0003_jobs': jobs,
+  '0004_bookings': bookings,
 }
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -7,6 +7,7 @@ export interface MailMessage {
   /** Paragraphs of plain text; the HTML part is built from the same paragraphs. */
   paragraphs: string[]
   action?: { label: string; url: string }
+  attachments?: { filename: string; content: string; contentType: string }[]
 }
 
 let transport: Transporter | undefined
@@ -39,7 +40,13 @@ export async function sendMail(message: MailMessage): Promise<boolean> {
   transport ??= nodemailer.createTransport(config.smtpUrl)
   const workshopName = await workshopDisplayName(useDb())
   try {
-    await transport.sendMail({ from: config.mailFrom, to: message.to, subject: `${message.subject} · ${workshopName}`, ...renderMail(message, workshopName) })
+    await transport.sendMail({
+      from: config.mailFrom,
+      to: message.to,
+      subject: `${message.subject} · ${workshopName}`,
+      ...renderMail(message, workshopName),
+      attachments: message.attachments,
+    })
     return true
   } catch (error) {
     console.error(`[mailer] could not send "${message.subject}" to ${message.to}:`, (error as Error).message)

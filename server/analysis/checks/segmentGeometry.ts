@@ -25,12 +25,9 @@ export function closestPointsOfSegments(ax: number, ay: number, bx: number, by: 
   const crossing = crossingParameters(ax, ay, bx, by, cx, cy, dx, dy)
   if (crossing !== null) {
     const [u, v] = crossing
-    out.distanceMm = 0
-    out.px = out.qx = ax + u * (bx - ax)
-    out.py = out.qy = ay + u * (by - ay)
-    out.u = u
-    out.v = v
-    return out
+    const x = ax + u * (bx - ax)
+    const y = ay + u * (by - ay)
+    return setClosest(out, 0, x, y, u, x, y, v)
   }
   out.distanceMm = Infinity
   considerEnd(ax, ay, cx, cy, dx, dy, false, 0, out)
@@ -40,29 +37,26 @@ export function closestPointsOfSegments(ax: number, ay: number, bx: number, by: 
   return out
 }
 
-/** The end (x, y) of one segment against the whole of the other segment (sx, sy)–(ex, ey). */
+function setClosest(out: ClosestPoints, distanceMm: number, px: number, py: number, u: number, qx: number, qy: number, v: number): ClosestPoints {
+  out.distanceMm = distanceMm
+  out.px = px
+  out.py = py
+  out.u = u
+  out.qx = qx
+  out.qy = qy
+  out.v = v
+  return out
+}
+
+/** The end (x, y) of one segment against the whole of the other segment (sx, sy)–(ex, ey), kept if nearer than the best so far. */
 function considerEnd(x: number, y: number, sx: number, sy: number, ex: number, ey: number, endIsOnSecond: boolean, endParameter: number, out: ClosestPoints): void {
   const t = projectionParameter(x, y, sx, sy, ex, ey)
-  const fx = sx + t * (ex - sx)
-  const fy = sy + t * (ey - sy)
-  const distance = Math.hypot(x - fx, y - fy)
+  const footX = sx + t * (ex - sx)
+  const footY = sy + t * (ey - sy)
+  const distance = Math.hypot(x - footX, y - footY)
   if (distance >= out.distanceMm) return
-  out.distanceMm = distance
-  if (endIsOnSecond) {
-    out.px = fx
-    out.py = fy
-    out.u = t
-    out.qx = x
-    out.qy = y
-    out.v = endParameter
-  } else {
-    out.px = x
-    out.py = y
-    out.u = endParameter
-    out.qx = fx
-    out.qy = fy
-    out.v = t
-  }
+  if (endIsOnSecond) setClosest(out, distance, footX, footY, t, x, y, endParameter)
+  else setClosest(out, distance, x, y, endParameter, footX, footY, t)
 }
 
 /** Parameter of the point of segment S–E nearest to (x, y), clamped to the segment. */

@@ -62,6 +62,8 @@ export async function updateCutter(db: Knex, role: Role, id: number, change: Par
 const CUTTER_REFERENCES = [
   { table: 'sign_offs', column: 'cutter_id', what: 'sign-offs' },
   { table: 'process_settings', column: 'cutter_id', what: 'process settings' },
+  { table: 'jobs', column: 'cutter_id', what: 'jobs' },
+  { table: 'bookings', column: 'cutter_id', what: 'bookings' },
 ]
 
 /** Deletes a cutter nothing refers to; a cutter with history is refused, so nothing is lost: retire it instead. */
