@@ -11,6 +11,10 @@ declare module '#app' {
 
 // Hides pages a role may not see. The server's requireRole is what actually protects the data.
 export default defineNuxtRouteMiddleware(async (to) => {
+  // The server already ran this guard for the first page (and rendered its error page if it refused);
+  // running it again while the browser hydrates would throw the same error a second time.
+  const nuxtApp = useNuxtApp()
+  if (import.meta.client && nuxtApp.isHydrating && nuxtApp.payload.serverRendered) return
   const session = useSessionStore()
   if (!session.loaded) await session.load()
   // Unknown addresses fall through to the 404 page rather than to sign-in.
