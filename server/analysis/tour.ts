@@ -193,7 +193,7 @@ class StopEndGrid {
 function improveWithTwoOpt(stops: TourStops, order: Int32Array, startX: number, startY: number): void {
   const count = order.length
   const ends = TourEnds.of(stops, order)
-  const { inX, inY, outX, outY } = ends
+  const { inX, inY, outX, outY, moveMm } = ends
   for (let pass = 0; pass < TWO_OPT_PASSES; pass++) {
     let improved = false
     for (let from = 0; from < count; from++) {
@@ -202,7 +202,7 @@ function improveWithTwoOpt(stops: TourStops, order: Int32Array, startX: number, 
       const last = Math.min(count, from + TWO_OPT_WINDOW) - 1
       for (let to = from; to <= last; to++) {
         const hasNext = to + 1 < count
-        const before = distance(inX[from] - previousX, inY[from] - previousY) + (hasNext ? distance(inX[to + 1] - outX[to], inY[to + 1] - outY[to]) : 0)
+        const before = (from > 0 ? moveMm[from - 1] : distance(inX[0] - startX, inY[0] - startY)) + (hasNext ? moveMm[to] : 0)
         const after = distance(outX[to] - previousX, outY[to] - previousY) + (hasNext ? distance(inX[to + 1] - inX[from], inY[to + 1] - inY[from]) : 0)
         if (after < before - 1e-9) {
           ends.reverseRun(order, from, to)
@@ -219,18 +219,24 @@ function distance(dx: number, dy: number): number {
   return Math.sqrt(dx * dx + dy * dy)
 }
 
-/** Where the head enters and leaves each tour position, kept in step with the order as runs are reversed. */
+/**
+ * Where the head enters and leaves each tour position, and the travel move
+ * from each position to the next, kept in step with the order as runs are
+ * reversed (a reversed run keeps its inner moves, in reverse order).
+ */
 class TourEnds {
   private constructor(
     readonly inX: Float64Array,
     readonly inY: Float64Array,
     readonly outX: Float64Array,
     readonly outY: Float64Array,
+    /** moveMm[p]: from position p's exit to position p + 1's entry. */
+    readonly moveMm: Float64Array,
   ) {}
 
   static of(stops: TourStops, order: Int32Array): TourEnds {
     const count = order.length
-    const ends = new TourEnds(new Float64Array(count), new Float64Array(count), new Float64Array(count), new Float64Array(count))
+    const ends = new TourEnds(new Float64Array(count), new Float64Array(count), new Float64Array(count), new Float64Array(count), new Float64Array(count))
     for (let position = 0; position < count; position++) {
       const entry = order[position]
       const stop = entry >= 0 ? entry : -1 - entry
@@ -239,7 +245,12 @@ class TourEnds {
       ends.outX[position] = entry >= 0 ? stops.exitX[stop] : stops.entryX[stop]
       ends.outY[position] = entry >= 0 ? stops.exitY[stop] : stops.entryY[stop]
     }
+    for (let position = 0; position + 1 < count; position++) ends.measureMove(position)
     return ends
+  }
+
+  private measureMove(position: number): void {
+    this.moveMm[position] = distance(this.inX[position + 1] - this.outX[position], this.inY[position + 1] - this.outY[position])
   }
 
   /** Reverses positions from…to: their order flips and each stop there runs the other way. */
@@ -262,6 +273,9 @@ class TourEnds {
       outX[right] = leftInX
       outY[right] = leftInY
     }
+    this.moveMm.subarray(from, to).reverse()
+    if (from > 0) this.measureMove(from - 1)
+    if (to + 1 < order.length) this.measureMove(to)
   }
 }
 
