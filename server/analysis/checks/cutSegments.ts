@@ -115,6 +115,15 @@ export class CutSegments {
     return Math.min(direct, perimeter - direct)
   }
 
+  /** An upper bound of `alongBetweenMm` over all points of two segments of one contour, first < second. */
+  farthestAlongMm(first: number, second: number): number {
+    const farthest = this.alongMm[this.firstPoint[second] + 1] - this.alongMm[this.firstPoint[first]]
+    const contour = this.contourOf[first]
+    if (this.contours.closed[contour] !== 1) return farthest
+    const nearest = this.alongMm[this.firstPoint[second]] - this.alongMm[this.firstPoint[first] + 1]
+    return Math.min(farthest, this.alongMm[this.contours.start[contour + 1] - 1] - nearest)
+  }
+
   private alongAt(segment: number, parameter: number): number {
     const point = this.firstPoint[segment]
     return this.alongMm[point] + parameter * (this.alongMm[point + 1] - this.alongMm[point])

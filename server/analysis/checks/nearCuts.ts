@@ -44,6 +44,7 @@ function findNearCuts(geometry: CheckGeometry, params: AnalysisParams): NearCut[
   const segments = cutSegmentsOf(geometry)
   const repeated = repeatedCutsOf(geometry, params)
   const reachMm = bridgeReachMm(params)
+  const reachSquared = reachMm * reachMm
   const touchMm = params.chainToleranceMm
   const repeatMm = repeatToleranceMm(params)
   const { xy } = segments.contours
@@ -54,9 +55,15 @@ function findNearCuts(geometry: CheckGeometry, params: AnalysisParams): NearCut[
     const firstContour = segments.contourOf[first]
     const secondContour = segments.contourOf[second]
     const sameContour = firstContour === secondContour
-    if (!sameContour && repeated.repeatingPairs.has(contourPairKey(segments.contours, firstContour, secondContour))) return
+    if (!sameContour && repeated.repeatingPairs.size > 0 && repeated.repeatingPairs.has(contourPairKey(segments.contours, firstContour, secondContour))) return
     const a = 2 * segments.firstPoint[first]
     const c = 2 * segments.firstPoint[second]
+    // The index matched boxes within the reach on each axis; boxes farther apart than that diagonally cannot hold points within it.
+    const gapX = Math.max(0, Math.min(xy[c], xy[c + 2]) - Math.max(xy[a], xy[a + 2]), Math.min(xy[a], xy[a + 2]) - Math.max(xy[c], xy[c + 2]))
+    const gapY = Math.max(0, Math.min(xy[c + 1], xy[c + 3]) - Math.max(xy[a + 1], xy[a + 3]), Math.min(xy[a + 1], xy[a + 3]) - Math.max(xy[c + 1], xy[c + 3]))
+    if (gapX * gapX + gapY * gapY >= reachSquared) return
+    // Two stretches of one contour that are never far apart along it can only be a corner, or a crossing if their boxes touch.
+    if (sameContour && Math.max(gapX, gapY) > touchMm && segments.farthestAlongMm(first, second) <= 2 * reachMm) return
     closestPointsOfSegments(xy[a], xy[a + 1], xy[a + 2], xy[a + 3], xy[c], xy[c + 1], xy[c + 2], xy[c + 3], closest)
     const { distanceMm, px, py, qx, qy } = closest
     if (distanceMm >= reachMm) return
