@@ -31,7 +31,7 @@ export const INITIAL_STYLE: ComputedStyle = {
   displayNone: false,
 }
 
-const STYLE_PROPERTIES = ['stroke', 'fill', 'color', 'stroke-width', 'stroke-opacity', 'fill-opacity', 'opacity', 'visibility', 'display', 'fill-rule']
+const STYLE_PROPERTIES = new Set(['stroke', 'fill', 'color', 'stroke-width', 'stroke-opacity', 'fill-opacity', 'opacity', 'visibility', 'display', 'fill-rule'])
 
 /**
  * Presentation attributes first, then the style sheet, then the inline style:
@@ -40,9 +40,10 @@ const STYLE_PROPERTIES = ['stroke', 'fill', 'color', 'stroke-width', 'stroke-opa
  */
 function collectDeclarations(node: INode, styleSheet: StyleSheet): Map<string, string> | undefined {
   let declarations: Map<string, string> | undefined
-  for (const property of STYLE_PROPERTIES) {
-    const value = node.attributes[property]
-    if (value !== undefined) (declarations ??= new Map()).set(property, value.trim())
+  // An element has a few attributes and there are ten style properties: look through the attributes.
+  for (const name in node.attributes) {
+    const value = node.attributes[name]
+    if (STYLE_PROPERTIES.has(name) && value !== undefined) (declarations ??= new Map()).set(name, value.trim())
   }
   if (!styleSheet.isEmpty) {
     for (const [property, value] of styleSheet.matching(node.name, node.attributes.class, node.attributes.id)) (declarations ??= new Map()).set(property, value)
