@@ -27,7 +27,7 @@ export interface NearCut {
 }
 
 /** How far apart two cuts may be and still leave too narrow a web between them. */
-export function bridgeReachMm(params: AnalysisParams): number {
+function bridgeReachMm(params: AnalysisParams): number {
   return params.minBridgeMm + params.kerfMm
 }
 

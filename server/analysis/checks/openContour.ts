@@ -5,7 +5,7 @@ import { formatMm } from './format'
 import type { CheckGeometry } from './index'
 
 /** Ends of an open cut closer than this were probably meant to meet (the project's rule of thumb, no source). */
-export const NEARLY_CLOSED_GAP_MM = 0.2
+const NEARLY_CLOSED_GAP_MM = 0.2
 // …when the line goes well away and comes back: a short stroke has its ends close too.
 const NEARLY_CLOSED_LENGTH_PER_GAP = 10
 

@@ -40,7 +40,7 @@ const ROUNDING_RELATIVE = 1e-9
  * chord within the chord tolerance inside it; a polygon with its corners on
  * a circle (a rectangle) fails the second test.
  */
-export function holeSizeMm(geometry: CheckGeometry, contour: number, chordToleranceMm: number): number {
+function holeSizeMm(geometry: CheckGeometry, contour: number, chordToleranceMm: number): number {
   const { contours, bounds } = geometry
   const boxSideMm = Math.min(bounds[4 * contour + 2] - bounds[4 * contour], bounds[4 * contour + 3] - bounds[4 * contour + 1])
   const circle = fittedCircle(contours, contour)

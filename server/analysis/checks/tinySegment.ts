@@ -9,7 +9,7 @@ import type { CheckGeometry } from './index'
  * line and still costs a pierce (the project's rule, no source): usually a
  * stray bit of drawing.
  */
-export function tinySegmentLimitMm(params: AnalysisParams): number {
+function tinySegmentLimitMm(params: AnalysisParams): number {
   return 2 * params.kerfMm
 }
 
