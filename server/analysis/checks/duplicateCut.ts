@@ -3,7 +3,8 @@ import type { Finding } from '../result'
 import { formatMm } from './format'
 import { cutTimeS } from './cutTime'
 import type { CheckGeometry } from './index'
-import { repeatedCutsOf, repeatToleranceMm } from './repeatedCuts'
+import { repeatToleranceMm } from './pairScan'
+import { repeatedCutsOf } from './repeatedCuts'
 
 /** Lines drawn more than once (within the repeat tolerance): one finding per pair of contours, with the length cut twice and the time it adds at cut speed. */
 export function checkDuplicateCuts(geometry: CheckGeometry, params: AnalysisParams): Finding[] {

@@ -4,7 +4,7 @@ import { cutSegmentsOf } from './cutSegments'
 import { formatMm } from './format'
 import type { CheckGeometry } from './index'
 import { type NearCut, nearCutsOf } from './nearCuts'
-import { contourPairKey } from './repeatedCuts'
+import { contourPairKey } from './pairScan'
 
 /**
  * Separate cuts that cross or meet, or that come within the kerf of each
