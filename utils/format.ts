@@ -1,3 +1,5 @@
+import { DateTime } from 'luxon'
+
 // Display formatting shared by every page. Money arrives as integer minor units (ISO 4217).
 export function formatMoney(amountMinor: number, currency: string): string {
   const format = new Intl.NumberFormat('en-IE', { style: 'currency', currency })
@@ -21,4 +23,12 @@ export function formatDate(iso: string | null | undefined): string {
 
 export function formatDateTime(iso: string): string {
   return new Date(iso).toLocaleString('en-IE', { dateStyle: 'medium', timeStyle: 'short' })
+}
+
+/**
+ * An instant shown as wall-clock time in the workshop's zone, e.g. "Thursday 3 Dec, 14:15". Luxon's
+ * fixed pattern renders the same on the server and in every browser (Intl layouts differ between ICU versions).
+ */
+export function formatInZone(iso: string, timeZone: string, withDate = true): string {
+  return DateTime.fromISO(iso, { zone: 'utc' }).setZone(timeZone).toFormat(withDate ? 'cccc d LLL, HH:mm' : 'HH:mm')
 }

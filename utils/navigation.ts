@@ -10,6 +10,8 @@ export interface NavItem {
 export const NAV_ITEMS: NavItem[] = [
   { label: 'Overview', to: '/', roles: ['member', 'staff', 'admin'] },
   { label: 'My jobs', to: '/jobs', roles: ['member', 'staff', 'admin'] },
+  { label: 'Calendar', to: '/calendar', roles: ['member', 'staff', 'admin'] },
+  { label: 'My bookings', to: '/bookings', roles: ['member'] },
   { label: 'Review', to: '/staff/review', roles: ['staff', 'admin'] },
   { label: 'Check a file', to: '/check', roles: ['member', 'staff', 'admin'] },
   { label: 'What can I cut', to: '/catalog', roles: ['member', 'staff', 'admin'] },
