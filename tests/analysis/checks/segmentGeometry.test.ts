@@ -50,7 +50,7 @@ describe('segment geometry against @flatten-js/core on random segments', () => {
         const length = Math.hypot(bx - ax, by - ay)
         const normalX = -(by - ay) / length
         const normalY = (bx - ax) / length
-        const at = (t: number) => [ax + t * (bx - ax) + offsetMm * normalX, ay + t * (by - ay) + offsetMm * normalY]
+        const at = (t: number): [number, number] => [ax + t * (bx - ax) + offsetMm * normalX, ay + t * (by - ay) + offsetMm * normalY]
         const closest = closestPointsOfSegments(ax, ay, bx, by, ...at(from), ...at(to), emptyClosestPoints())
         expect(closest.distanceMm).toBeCloseTo(offsetMm, 9)
       }),
