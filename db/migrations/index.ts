@@ -3,6 +3,8 @@ import * as accounts from './0001_accounts'
 import * as catalog from './0002_catalog'
 import * as jobs from './0003_jobs'
 import * as bookings from './0004_bookings'
+import * as payments from './0005_payments'
+import * as operations from './0006_operations'
 
 // Append-only: a schema change is a new file added at the end of this list, never an edit of a landed one.
 // Migrations are imported statically so the bundled server and the CLI run the same list.
@@ -11,6 +13,8 @@ const migrations: Record<string, Knex.Migration> = {
   '0002_catalog': catalog,
   '0003_jobs': jobs,
   '0004_bookings': bookings,
+  '0005_payments': payments,
+  '0006_operations': operations,
 }
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -1,16 +1,22 @@
 import { sendDueReminders } from '../services/booking-mail'
+import { releaseExpiredHolds } from '../services/payments'
 
-// Day-before reminders, checked every ten minutes. Sent-state lives in the database, so a restart
-// picks up where it left off and never sends twice.
-const INTERVAL_MS = 10 * 60_000
+// Background duties: unpaid holds released every minute, day-before reminders every ten. Their state
+// lives in the database, so a restart picks up where it left off and never sends twice.
+const HOLD_SWEEP_MS = 60_000
+const REMINDER_MS = 10 * 60_000
 
 export default defineNitroPlugin((nitro) => {
   if (process.env.KERFBOOK_REMINDERS === 'off') return
-  const run = () =>
-    databaseReady()
-      .then(() => sendDueReminders(useDb()))
-      .catch((error) => console.error('[reminders] failed:', error))
-  const timer = setInterval(run, INTERVAL_MS)
-  timer.unref()
-  nitro.hooks.hook('close', () => clearInterval(timer))
+  const every = (ms: number, name: string, duty: () => Promise<unknown>) => {
+    const timer = setInterval(() => {
+      databaseReady()
+        .then(duty)
+        .catch((error) => console.error(`[${name}] failed:`, error))
+    }, ms)
+    timer.unref()
+    nitro.hooks.hook('close', () => clearInterval(timer))
+  }
+  every(HOLD_SWEEP_MS, 'holds', () => releaseExpiredHolds(useDb()))
+  every(REMINDER_MS, 'reminders', () => sendDueReminders(useDb()))
 })

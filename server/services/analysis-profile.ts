@@ -40,6 +40,7 @@ export async function analysisParamsFor(db: Knex, choice: ProfileChoice): Promis
     kerfMm: setting.kerfMm,
     thicknessMm: material.thicknessMm,
     cutterMaxThicknessMm: cutter.maxThicknessMm,
+    materialAllowed: { allowed: true, reason: '' },
     minBridgeMm: setting.minBridgeMm,
     minHoleMm: setting.minHoleMm,
     sheetWidthMm: sheet.widthMm,

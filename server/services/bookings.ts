@@ -164,7 +164,9 @@ export async function bookJob(db: Knex, actor: SessionUser, input: { jobId: numb
       kind: 'job',
       starts_at: startIso,
       ends_at: endIso,
-      status: 'confirmed',
+      // Held until the card payment is authorised (the webhook confirms it); released when the time to pay runs out.
+      status: 'held',
+      hold_expires_at: addMinutes(nowIso(), settings.paymentHoldMinutes),
       ical_uid: `${randomUUID()}@kerfbook`,
       created_by: actor.id,
     })

@@ -1,5 +1,6 @@
 import type { AnalysisResult } from '../analysis/index'
 import type { Cutter } from './catalog/cutters'
+import { billedMinutes } from './money'
 import { layoutSheets, type JobSheets } from './sheet-layout'
 
 export interface EstimatedFile {
@@ -27,8 +28,8 @@ export const PART_GAP_MM = 2
 export const SHEET_MARGIN_MM = 5
 
 /**
- * The job's totals: machine time summed over copies with one setup per job, rounded up to the cutter's
- * billing increment, plus whole stock sheets from the layout. Money in integer minor units.
+ * The job's totals: machine time summed over copies plus one setup per job; cutting time rounded up to the
+ * cutter's billing increment, plus whole stock sheets from the layout. Money in integer minor units.
  */
 export function estimateJob(files: EstimatedFile[], cutter: Pick<Cutter, 'setupMinutes' | 'billingIncrementMinutes' | 'pricePerMinuteMinor' | 'currency'>, sheet: { widthMm: number; heightMm: number; priceMinor: number }, kerfMm: number): JobEstimate {
   const setupS = cutter.setupMinutes * 60
@@ -40,8 +41,8 @@ export function estimateJob(files: EstimatedFile[], cutter: Pick<Cutter, 'setupM
     cutLengthMm += file.analysis.cut.lengthMm * file.quantity
     pierces += file.analysis.cut.pierces * file.quantity
   }
-  const increment = cutter.billingIncrementMinutes
-  const billableMinutes = machineS > 0 ? Math.ceil(machineS / 60 / increment - 1e-9) * increment : 0
+  // Cutting time is billed in the cutter's increments; the setup is charged once, as it is.
+  const billableMinutes = files.length > 0 ? billedMinutes((machineS - setupS) / 60, cutter.billingIncrementMinutes) + cutter.setupMinutes : 0
   const layout = layoutSheets(
     files.map((f) => ({ fileId: f.fileId, widthMm: f.analysis.bbox.width, heightMm: f.analysis.bbox.height, quantity: f.quantity })),
     sheet,

@@ -2,6 +2,7 @@ import Database from 'better-sqlite3'
 import ICAL from 'ical.js'
 import { beforeAll, describe, expect, inject, it } from 'vitest'
 import { client, signedIn, waitForMail } from './helpers'
+import { payCheckout, waitForPaymentState } from './payment-helpers'
 import { bookingBench, type BookingBench } from './workshop-setup'
 
 let bench: BookingBench
@@ -210,7 +211,9 @@ describe('moving, cancelling and calendar files', () => {
   it('sends a day-before reminder once, however often the task runs', async () => {
     const jobId = await bench.approvedJob('Reminder')
     const booking = (await bench.member.post('/api/bookings', { jobId, cutterId: bench.cutterId, start: bench.at(1, '19:00') })).body
-    expect(booking.id).toBeTruthy()
+    // Only a paid (confirmed) booking is reminded: pay first.
+    await payCheckout(booking.checkoutUrl)
+    await waitForPaymentState(bench.member, booking.id, 'authorised')
     const first = (await bench.admin.post('/api/admin/tasks/send-reminders')).body.sent
     const second = (await bench.admin.post('/api/admin/tasks/send-reminders')).body.sent
     expect(first).toBeGreaterThanOrEqual(1)

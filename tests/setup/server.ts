@@ -10,12 +10,17 @@ import { join } from 'node:path'
 import type { TestProject } from 'vitest/node'
 import { migrateLatest, openDatabase, seedDemoIfEmpty } from '../../db/index'
 import { startSmtpSink, type SmtpSink } from '../../scripts/lib/smtp-sink'
+import { startStripeFake } from '../../scripts/lib/stripe-fake/index'
 
 declare module 'vitest' {
   export interface ProvidedContext {
     baseUrl: string
     outboxUrl: string
     databasePath: string
+    /** The app server's process id, for tests that read its memory from /proc. */
+    serverPid: number
+    stripeFakeUrl: string
+    stripeWebhookSecret: string
   }
 }
 
@@ -61,6 +66,8 @@ export default async function setup(project: TestProject) {
   const sink: SmtpSink = await startSmtpSink()
   const port = await freePort()
   const baseUrl = `http://127.0.0.1:${port}`
+  const webhookSecret = `whsec_test_${randomBytes(8).toString('hex')}`
+  const stripeFake = await startStripeFake({ webhook: { url: `${baseUrl}/api/webhooks/stripe`, secret: webhookSecret } })
   const server = spawn('node', ['.output/server/index.mjs'], {
     stdio: ['ignore', 'inherit', 'inherit'],
     env: {
@@ -74,6 +81,10 @@ export default async function setup(project: TestProject) {
       APP_URL: baseUrl,
       // Lets each test file act from its own address so the per-IP sign-in limit is testable.
       TRUST_PROXY: '1',
+      STRIPE_API_BASE: stripeFake.url,
+      STRIPE_SECRET_KEY: 'sk_test_kerfbook_tests',
+      STRIPE_WEBHOOK_SECRET: webhookSecret,
+      KERFBOOK_REMINDERS: 'off',
       NUXT_SESSION_PASSWORD: randomBytes(32).toString('hex'),
     },
   })
@@ -82,10 +93,14 @@ export default async function setup(project: TestProject) {
   project.provide('baseUrl', baseUrl)
   project.provide('outboxUrl', `http://127.0.0.1:${sink.httpPort}`)
   project.provide('databasePath', databasePath)
+  project.provide('serverPid', server.pid!)
+  project.provide('stripeFakeUrl', stripeFake.url)
+  project.provide('stripeWebhookSecret', webhookSecret)
 
   return async () => {
     server.kill('SIGTERM')
     await sink.close()
+    await stripeFake.close()
     rmSync(workDir, { recursive: true, force: true })
   }
 }

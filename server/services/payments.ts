@@ -1,0 +1,310 @@
+import type { Knex } from 'knex'
+import type Stripe from 'stripe'
+import type { SessionUser } from '#shared/roles'
+import { Conflict, DomainError, InvalidInput, NotFound } from '../utils/errors'
+import { nowIso } from '../utils/rows'
+import { serverConfig } from '../utils/config'
+import { useStripe } from '../utils/stripe'
+import type { BookingRow } from './bookings'
+import { getCutter } from './catalog/cutters'
+import { transitionJob } from './job-states'
+import { currentFiles, jobEstimate, type JobRow } from './jobs'
+import { cutCharge, percentOf, withBuffer } from './money'
+import { workshopSettings } from './settings'
+
+export type LedgerKind = 'authorised' | 'captured' | 'fee' | 'released' | 'refunded' | 'charged'
+
+export interface LedgerRow {
+  id: number
+  booking_id: number | null
+  job_id: number | null
+  member_id: number | null
+  kind: LedgerKind
+  amount_minor: number
+  currency: string
+  stripe_object_id: string
+  ledger_key: string
+  note: string
+  created_at: string
+}
+
+export type PaymentState = 'awaiting' | 'authorised' | 'captured' | 'refunded' | 'partly-refunded' | 'released' | 'balance-due'
+
+interface PaidBooking extends BookingRow {
+  estimate_minor: number | null
+  authorised_minor: number | null
+  currency: string | null
+  checkout_session_id: string | null
+  payment_intent_id: string | null
+}
+
+class PaymentServiceError extends DomainError {
+  constructor(message: string) {
+    super(message, 502)
+  }
+}
+
+/** Records one money event once: a second report of the same event (same key) changes nothing. */
+async function record(db: Knex, booking: PaidBooking, entry: { kind: LedgerKind; amountMinor: number; currency: string; objectId: string; key: string; note?: string }): Promise<boolean> {
+  const inserted = await db('payment_ledger')
+    .insert({ booking_id: booking.id, job_id: booking.job_id, member_id: booking.member_id, kind: entry.kind, amount_minor: entry.amountMinor, currency: entry.currency, stripe_object_id: entry.objectId, ledger_key: entry.key, note: entry.note ?? '' })
+    .onConflict('ledger_key')
+    .ignore()
+  return (inserted as number[]).length > 0 && (inserted as number[])[0] !== 0
+}
+
+/** The booking's payment state, derived from its ledger only. */
+export function paymentStateOf(rows: Pick<LedgerRow, 'kind' | 'amount_minor'>[]): { state: PaymentState; authorisedMinor: number; capturedMinor: number; refundedMinor: number } {
+  const sum = (...kinds: LedgerKind[]) => rows.filter((r) => kinds.includes(r.kind)).reduce((n, r) => n + r.amount_minor, 0)
+  const authorisedMinor = sum('authorised')
+  const capturedMinor = sum('captured', 'fee', 'charged')
+  const refundedMinor = sum('refunded')
+  let state: PaymentState = 'awaiting'
+  if (refundedMinor > 0) state = refundedMinor >= capturedMinor ? 'refunded' : 'partly-refunded'
+  else if (capturedMinor > 0) state = 'captured'
+  else if (rows.some((r) => r.kind === 'released')) state = 'released'
+  else if (authorisedMinor > 0) state = 'authorised'
+  return { state, authorisedMinor, capturedMinor, refundedMinor }
+}
+
+export async function ledgerFor(db: Knex, bookingId: number): Promise<LedgerRow[]> {
+  return db<LedgerRow>('payment_ledger').where({ booking_id: bookingId }).orderBy('id')
+}
+
+async function jobPrice(db: Knex, job: JobRow) {
+  const cutter = await getCutter(db, job.cutter_id)
+  const estimate = await jobEstimate(db, job, await currentFiles(db, job.id))
+  return { cutter, estimate }
+}
+
+/**
+ * Opens a Checkout Session that authorises the estimate plus the workshop's buffer, captured later.
+ * Runs after the held booking has committed; if Stripe can't be reached the hold is released again.
+ */
+export async function startCheckout(db: Knex, bookingId: number): Promise<{ url: string; authorisedMinor: number; estimateMinor: number }> {
+  const booking = await db<PaidBooking>('bookings').where({ id: bookingId }).first()
+  if (!booking?.job_id) throw new NotFound('No such booking.')
+  const job = (await db<JobRow>('jobs').where({ id: booking.job_id }).first())!
+  const member = await db('users').where({ id: booking.member_id }).first('email')
+  const settings = await workshopSettings(db)
+  const { cutter, estimate } = await jobPrice(db, job)
+  const estimateMinor = estimate.totalPriceMinor
+  const authorisedMinor = withBuffer(estimateMinor, settings.paymentBufferPercent)
+  const appUrl = serverConfig().appUrl
+  let session: Stripe.Checkout.Session
+  try {
+    session = await useStripe().checkout.sessions.create(
+      {
+        mode: 'payment',
+        line_items: [{ quantity: 1, price_data: { currency: cutter.currency.toLowerCase(), unit_amount: authorisedMinor, product_data: { name: `${cutter.name}: ${job.title} (estimate + ${settings.paymentBufferPercent} % buffer, held)` } } }],
+        payment_intent_data: { capture_method: 'manual', metadata: { bookingId: String(booking.id), jobId: String(job.id) } },
+        metadata: { bookingId: String(booking.id), purpose: 'booking' },
+        client_reference_id: `booking-${booking.id}`,
+        customer_email: member.email,
+        expires_at: Math.floor(Date.now() / 1000) + Math.max(30, settings.paymentHoldMinutes) * 60,
+        success_url: `${appUrl}/bookings?paid=${booking.id}&session={CHECKOUT_SESSION_ID}`,
+        cancel_url: `${appUrl}/bookings?unpaid=${booking.id}`,
+      },
+      { idempotencyKey: `checkout-booking-${booking.id}` },
+    )
+  } catch (error) {
+    await releaseUnpaidBooking(db, booking.id, 'Payment could not be started')
+    throw new PaymentServiceError(`The payment service did not answer, so the slot was released. Please try again in a minute. (${(error as Error).message})`)
+  }
+  await db('bookings').where({ id: booking.id }).update({ checkout_session_id: session.id, estimate_minor: estimateMinor, authorised_minor: authorisedMinor, currency: cutter.currency, updated_at: nowIso() })
+  return { url: session.url!, authorisedMinor, estimateMinor }
+}
+
+/** A held booking that was never paid goes away, and its job can be booked again. */
+export async function releaseUnpaidBooking(db: Knex, bookingId: number, reason: string): Promise<boolean> {
+  return db.transaction(async (trx) => {
+    const booking = await trx<PaidBooking>('bookings').where({ id: bookingId, status: 'held' }).first()
+    if (!booking) return false
+    const now = nowIso()
+    await trx('bookings').where({ id: bookingId }).update({ status: 'cancelled', cancelled_at: now, cancel_reason: reason, ical_sequence: booking.ical_sequence + 1, updated_at: now })
+    const job = booking.job_id ? await trx('jobs').where({ id: booking.job_id }).first('state') : null
+    if (job?.state === 'booked') await transitionJob(trx, booking.job_id!, 'unbook', 'system', { comment: reason })
+    return true
+  })
+}
+
+/** Held bookings whose time to pay ran out: expire their sessions and free the slots. */
+export async function releaseExpiredHolds(db: Knex): Promise<number> {
+  const expired = await db<PaidBooking>('bookings').where({ status: 'held' }).where('hold_expires_at', '<=', nowIso())
+  let released = 0
+  for (const booking of expired) {
+    if (booking.checkout_session_id) await useStripe().checkout.sessions.expire(booking.checkout_session_id).catch(() => undefined)
+    if (await releaseUnpaidBooking(db, booking.id, 'Not paid in time')) released++
+  }
+  return released
+}
+
+/**
+ * Brings the ledger in line with a PaymentIntent as Stripe reports it now. Every webhook ends here with
+ * a freshly retrieved PaymentIntent, so duplicates and out-of-order events can't double-count.
+ */
+export async function syncPaymentIntent(db: Knex, intent: Stripe.PaymentIntent): Promise<{ booking: PaidBooking; newKinds: LedgerKind[] } | null> {
+  const bookingId = Number(intent.metadata?.bookingId)
+  const booking = Number.isInteger(bookingId) ? await db<PaidBooking>('bookings').where({ id: bookingId }).first() : undefined
+  if (!booking) return null
+  const currency = intent.currency.toUpperCase()
+  const purpose = intent.metadata?.purpose ?? 'booking'
+  const newKinds: LedgerKind[] = []
+  const note = async (kind: LedgerKind, amountMinor: number, key: string, text = '') => {
+    if (amountMinor > 0 && (await record(db, booking, { kind, amountMinor, currency, objectId: intent.id, key, note: text }))) newKinds.push(kind)
+  }
+  if (purpose === 'balance') {
+    if (intent.status === 'succeeded') await note('charged', intent.amount_received, `charge:${intent.id}`, 'Balance over the held amount')
+    return { booking, newKinds }
+  }
+  const authorisedOrLater = ['requires_capture', 'succeeded', 'canceled'].includes(intent.status) && (intent.amount_capturable > 0 || intent.amount_received > 0 || intent.status !== 'canceled')
+  if (authorisedOrLater && intent.status !== 'requires_payment_method') await note('authorised', intent.amount, `auth:${intent.id}`)
+  if (intent.status === 'succeeded') await note(booking.status === 'cancelled' ? 'fee' : 'captured', intent.amount_received, `capture:${intent.id}`)
+  if (intent.status === 'canceled') await note('released', intent.amount - intent.amount_received, `release:${intent.id}`)
+  if (intent.status === 'requires_capture' && booking.status === 'held') {
+    await db('bookings').where({ id: booking.id, status: 'held' }).update({ status: 'confirmed', hold_expires_at: null, payment_intent_id: intent.id, updated_at: nowIso() })
+  } else if (!booking.payment_intent_id) {
+    await db('bookings').where({ id: booking.id }).update({ payment_intent_id: intent.id })
+  }
+  return { booking: (await db<PaidBooking>('bookings').where({ id: booking.id }).first())!, newKinds }
+}
+
+async function paidBooking(db: Knex, bookingId: number): Promise<PaidBooking & { payment_intent_id: string }> {
+  const booking = await db<PaidBooking>('bookings').where({ id: bookingId }).first()
+  if (!booking) throw new NotFound('No such booking.')
+  if (!booking.payment_intent_id) throw new Conflict('This booking has no card payment to settle.')
+  return booking as PaidBooking & { payment_intent_id: string }
+}
+
+export interface Settlement {
+  newKinds: LedgerKind[]
+  chargeMinor: number
+  capturedMinor: number
+  balanceMinor: number
+  balanceUrl: string | null
+  actualMinutes: number
+  estimateMinutes: number
+}
+
+/**
+ * After the cut: charge the minutes actually used (billed in increments) plus setup and sheets.
+ * Never more than was authorised; a higher amount captures the hold and asks the member for the rest.
+ */
+export async function settleCut(db: Knex, bookingId: number, actualMinutes: number): Promise<Settlement> {
+  const booking = await paidBooking(db, bookingId)
+  const job = (await db<JobRow>('jobs').where({ id: booking.job_id! }).first())!
+  const { cutter, estimate } = await jobPrice(db, job)
+  const chargeMinor = cutCharge({ machineMinutes: actualMinutes, incrementMinutes: cutter.billingIncrementMinutes, setupMinutes: cutter.setupMinutes, ratePerMinuteMinor: cutter.pricePerMinuteMinor, materialMinor: estimate.materialPriceMinor })
+  const authorisedMinor = booking.authorised_minor ?? 0
+  const capturedMinor = Math.min(chargeMinor, authorisedMinor)
+  const intent = await useStripe().paymentIntents.capture(booking.payment_intent_id, { amount_to_capture: capturedMinor }, { idempotencyKey: `capture-${booking.payment_intent_id}` })
+  const synced = await syncPaymentIntent(db, intent)
+  const balanceMinor = chargeMinor - capturedMinor
+  let balanceUrl: string | null = null
+  if (balanceMinor > 0) {
+    const member = await db('users').where({ id: booking.member_id }).first('email')
+    const session = await useStripe().checkout.sessions.create(
+      {
+        mode: 'payment',
+        line_items: [{ quantity: 1, price_data: { currency: cutter.currency.toLowerCase(), unit_amount: balanceMinor, product_data: { name: `${job.title}: minutes over the held amount` } } }],
+        payment_intent_data: { metadata: { bookingId: String(booking.id), purpose: 'balance' } },
+        metadata: { bookingId: String(booking.id), purpose: 'balance' },
+        customer_email: member.email,
+        success_url: `${serverConfig().appUrl}/payments?balance=${booking.id}`,
+        cancel_url: `${serverConfig().appUrl}/payments`,
+      },
+      { idempotencyKey: `balance-${booking.id}` },
+    )
+    balanceUrl = session.url
+  }
+  return { newKinds: synced?.newKinds ?? [], chargeMinor, capturedMinor, balanceMinor, balanceUrl, actualMinutes, estimateMinutes: estimate.billableMinutes }
+}
+
+/** Cancellation money: free releases the hold; late captures the policy's fee of the estimate. */
+export async function settleCancellation(db: Knex, bookingId: number, feePercent: number): Promise<{ feeMinor: number; newKinds: LedgerKind[] }> {
+  const booking = await db<PaidBooking>('bookings').where({ id: bookingId }).first()
+  if (!booking?.payment_intent_id) {
+    if (booking?.checkout_session_id) await useStripe().checkout.sessions.expire(booking.checkout_session_id).catch(() => undefined)
+    return { feeMinor: 0, newKinds: [] }
+  }
+  const stripe = useStripe()
+  const feeMinor = feePercent > 0 ? Math.min(percentOf(booking.estimate_minor ?? 0, feePercent), booking.authorised_minor ?? 0) : 0
+  const intent =
+    feeMinor > 0
+      ? await stripe.paymentIntents.capture(booking.payment_intent_id, { amount_to_capture: feeMinor }, { idempotencyKey: `fee-${booking.payment_intent_id}` })
+      : await stripe.paymentIntents.cancel(booking.payment_intent_id, {}, { idempotencyKey: `cancel-${booking.payment_intent_id}` })
+  const synced = await syncPaymentIntent(db, intent)
+  return { feeMinor, newKinds: synced?.newKinds ?? [] }
+}
+
+/** Staff refunds after capture, in full or in part, with a reason on the ledger. */
+export async function refundBooking(db: Knex, staff: SessionUser, bookingId: number, input: { amountMinor?: number; reason: string }): Promise<LedgerRow> {
+  const booking = await paidBooking(db, bookingId)
+  const { capturedMinor, refundedMinor } = paymentStateOf(await ledgerFor(db, bookingId))
+  const refundable = capturedMinor - refundedMinor
+  const amountMinor = input.amountMinor ?? refundable
+  if (refundable <= 0) throw new Conflict('Nothing captured is left to refund on this booking.')
+  if (amountMinor > refundable) throw new InvalidInput(`At most ${refundable} (minor units) can still be refunded.`, { fields: { amountMinor: `At most ${refundable}.` } })
+  const refund = await useStripe().refunds.create(
+    { payment_intent: booking.payment_intent_id, amount: amountMinor, metadata: { bookingId: String(bookingId), by: String(staff.id) } },
+    { idempotencyKey: `refund-${bookingId}-${refundedMinor}-${amountMinor}` },
+  )
+  await record(db, booking, { kind: 'refunded', amountMinor: refund.amount, currency: refund.currency.toUpperCase(), objectId: refund.id, key: `refund:${refund.id}`, note: input.reason })
+  return (await db<LedgerRow>('payment_ledger').where({ ledger_key: `refund:${refund.id}` }).first())!
+}
+
+/** A webhook event, verified by the route. Returns what changed, for receipts. */
+export async function handleStripeEvent(db: Knex, event: Stripe.Event): Promise<{ booking: PaidBooking; newKinds: LedgerKind[] } | null> {
+  const fresh = await db('stripe_events').insert({ id: event.id, type: event.type }).onConflict('id').ignore()
+  const firstTime = (fresh as number[]).length > 0 && (fresh as number[])[0] !== 0
+  const object = event.data.object as { object: string; id: string; payment_intent?: string | Stripe.PaymentIntent | null }
+  let intentId: string | null = null
+  if (object.object === 'payment_intent') intentId = object.id
+  else if (object.object === 'checkout.session' || object.object === 'charge') intentId = typeof object.payment_intent === 'string' ? object.payment_intent : (object.payment_intent?.id ?? null)
+  if (!intentId) {
+    // An expired or abandoned checkout: free the held slot.
+    if (event.type === 'checkout.session.expired') {
+      const booking = await db('bookings').where({ checkout_session_id: object.id }).first('id')
+      if (booking) await releaseUnpaidBooking(db, booking.id, 'Not paid in time')
+    }
+    return null
+  }
+  const result = await syncPaymentIntent(db, await useStripe().paymentIntents.retrieve(intentId))
+  return result && (firstTime || result.newKinds.length > 0) ? result : null
+}
+
+export interface PaymentView {
+  bookingId: number
+  jobTitle: string | null
+  memberName: string | null
+  start: string
+  state: PaymentState
+  authorisedMinor: number
+  capturedMinor: number
+  refundedMinor: number
+  currency: string
+  events: { kind: LedgerKind; amountMinor: number; at: string; note: string }[]
+}
+
+export async function listPayments(db: Knex, filter: { memberId?: number; from?: string; to?: string; state?: PaymentState }): Promise<PaymentView[]> {
+  const query = db('bookings as b').leftJoin('jobs as j', 'j.id', 'b.job_id').leftJoin('users as u', 'u.id', 'b.member_id').whereNotNull('b.checkout_session_id').orderBy('b.starts_at', 'desc').select('b.id', 'b.starts_at', 'b.currency', 'j.title', 'u.name')
+  if (filter.memberId) query.where('b.member_id', filter.memberId)
+  if (filter.from) query.where('b.starts_at', '>=', filter.from)
+  if (filter.to) query.where('b.starts_at', '<', filter.to)
+  const bookings = await query
+  const ledger = await db<LedgerRow>('payment_ledger').whereIn('booking_id', bookings.map((b) => b.id)).orderBy('id')
+  return bookings
+    .map((b) => {
+      const rows = ledger.filter((r) => r.booking_id === b.id)
+      return {
+        bookingId: b.id,
+        jobTitle: b.title,
+        memberName: b.name,
+        start: b.starts_at,
+        ...paymentStateOf(rows),
+        currency: b.currency ?? 'EUR',
+        events: rows.map((r) => ({ kind: r.kind, amountMinor: r.amount_minor, at: r.created_at, note: r.note })),
+      }
+    })
+    .filter((p) => !filter.state || p.state === filter.state)
+}

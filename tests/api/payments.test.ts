@@ -1,0 +1,171 @@
+import Database from 'better-sqlite3'
+import Stripe from 'stripe'
+import { beforeAll, describe, expect, inject, it } from 'vitest'
+import { stripeSignatureHeader } from '../../scripts/lib/stripe-fake/index'
+import { plainPart } from '../fixtures/svg'
+import { CARD_ASKS_TO_CONFIRM, CARD_DECLINED, payCheckout, waitForPaymentState } from './payment-helpers'
+import { waitForMail } from './helpers'
+import { bookingBench, type BookingBench } from './workshop-setup'
+
+let bench: BookingBench
+let day = 13
+
+beforeAll(async () => {
+  bench = await bookingBench()
+})
+
+function ledger(bookingId: number): { kind: string; amount_minor: number }[] {
+  const db = new Database(inject('databasePath'), { readonly: true })
+  const rows = db.prepare('select kind, amount_minor from payment_ledger where booking_id = ? order by id').all(bookingId) as { kind: string; amount_minor: number }[]
+  db.close()
+  return rows
+}
+
+async function bookedJob(title: string, start = bench.at(day++, '09:00')) {
+  const jobId = await bench.approvedJob(title)
+  const booking = await bench.member.post('/api/bookings', { jobId, cutterId: bench.cutterId, start })
+  expect(booking.status).toBe(201)
+  return { jobId, booking: booking.body }
+}
+
+/** A job of many copies, approved, so its estimate is long enough to log fewer minutes against. */
+async function bigApprovedJob(title: string, copies: number) {
+  const job = await bench.member.post('/api/jobs', { title, cutterId: bench.cutterId, materialId: bench.materialId })
+  const form = new FormData()
+  form.set('file', new Blob([plainPart(40, 30)], { type: 'image/svg+xml' }), 'tile.svg')
+  form.set('quantity', String(copies))
+  await bench.member.form(`/api/jobs/${job.body.id}/files`, form)
+  await bench.member.post(`/api/jobs/${job.body.id}/submit`, {})
+  await bench.staff.post(`/api/jobs/${job.body.id}/approve`, {})
+  return job.body.id as number
+}
+
+// Round half up once, at the end (server/services/money.ts).
+const percentOf = (amount: number, percent: number) => Math.floor((amount * percent + 50) / 100)
+
+describe('holding the estimate and charging the minutes used', () => {
+  it('book → pay with 4242 → webhook → paid; 37 minutes logged are charged exactly', async () => {
+    const jobId = await bigApprovedJob('Shingles, many', 240)
+    const job = (await bench.member.get(`/api/jobs/${jobId}`)).body
+    const estimate = job.estimate
+    expect(estimate.billableMinutes).toBeGreaterThan(42)
+    const created = await bench.member.post('/api/bookings', { jobId, cutterId: bench.cutterId, start: bench.at(day++, '08:00') })
+    expect(created.status).toBe(201)
+    const booking = created.body
+    expect(booking.status).toBe('held')
+    expect(booking.estimateMinor).toBe(estimate.totalPriceMinor)
+    expect(booking.authorisedMinor).toBe(percentOf(estimate.totalPriceMinor, 120))
+
+    // The redirect alone proves nothing; the webhook marks the booking paid.
+    const redirect = await payCheckout(booking.checkoutUrl)
+    expect(redirect.status).toBe(303)
+    const paid = await waitForPaymentState(bench.member, booking.id, 'authorised')
+    expect(paid.authorisedMinor).toBe(booking.authorisedMinor)
+    await waitForMail('member@example.test', /Payment received/)
+
+    expect((await bench.staff.post(`/api/jobs/${jobId}/start`)).status).toBe(200)
+    const finished = await bench.staff.post(`/api/jobs/${jobId}/finish`, { actualMinutes: 37 })
+    expect(finished.status).toBe(200)
+    // Bench cutter: 100 per minute, 5 setup minutes, billed per minute; material is the job's sheets.
+    const expected = (37 + 5) * 100 + estimate.materialPriceMinor
+    expect(finished.body.chargeMinor).toBe(expected)
+    expect(finished.body.capturedMinor).toBe(expected)
+    expect(finished.body.balanceMinor).toBe(0)
+    const settled = await waitForPaymentState(bench.member, booking.id, 'captured')
+    expect(settled.capturedMinor).toBe(expected)
+    expect(ledger(booking.id).map((r) => r.kind)).toEqual(['authorised', 'captured'])
+    expect((await waitForMail('member@example.test', /Receipt for your cut/)).text).toContain('37 machine minutes used')
+
+    // A staff refund after capture, with a reason; never more than is left.
+    const tooMuch = await bench.staff.post(`/api/payments/${booking.id}/refund`, { amountMinor: expected + 1, reason: 'Typo' })
+    expect(tooMuch.status).toBe(400)
+    const refund = await bench.staff.post(`/api/payments/${booking.id}/refund`, { amountMinor: 500, reason: 'Two panels re-cut for a machine fault' })
+    expect(refund.status).toBe(200)
+    expect((await waitForPaymentState(bench.member, booking.id, 'partly-refunded')).refundedMinor).toBe(500)
+    expect((await waitForMail('member@example.test', /Refund on its way/)).text).toContain('machine fault')
+    expect((await bench.member.post(`/api/payments/${booking.id}/refund`, { reason: 'me too' })).status).toBe(403)
+  })
+
+  it('captures the hold and asks for the rest when the cut takes longer than the hold covers', async () => {
+    const { jobId, booking } = await bookedJob('Over the hold')
+    await payCheckout(booking.checkoutUrl)
+    await waitForPaymentState(bench.member, booking.id, 'authorised')
+    await bench.staff.post(`/api/jobs/${jobId}/start`)
+    const finished = (await bench.staff.post(`/api/jobs/${jobId}/finish`, { actualMinutes: 90 })).body
+    expect(finished.capturedMinor).toBe(booking.authorisedMinor)
+    expect(finished.balanceMinor).toBe(finished.chargeMinor - booking.authorisedMinor)
+    expect(finished.balanceUrl).toMatch(/\/checkout\//)
+  })
+
+  it('free cancellation releases the hold and charges nothing', async () => {
+    const { booking } = await bookedJob('Cancel early')
+    await payCheckout(booking.checkoutUrl)
+    await waitForPaymentState(bench.member, booking.id, 'authorised')
+    const cancelled = await bench.member.post(`/api/bookings/${booking.id}/cancel`, {})
+    expect(cancelled.body.feeMinor).toBe(0)
+    const released = await waitForPaymentState(bench.member, booking.id, 'released')
+    expect(released.capturedMinor).toBe(0)
+  })
+
+  it('late cancellation captures only the fee', async () => {
+    // Tomorrow morning: inside any free-cancellation window of two weeks.
+    const { booking } = await bookedJob('Cancel late', bench.at(1, '11:00'))
+    await payCheckout(booking.checkoutUrl, CARD_ASKS_TO_CONFIRM)
+    await waitForPaymentState(bench.member, booking.id, 'authorised')
+    await bench.admin.patch('/api/admin/settings', { freeCancellationHours: 336 })
+    try {
+      const cancelled = await bench.member.post(`/api/bookings/${booking.id}/cancel`, {})
+      expect(cancelled.body.feeMinor).toBe(percentOf(booking.estimateMinor, 50))
+      const state = await waitForPaymentState(bench.member, booking.id, 'captured')
+      expect(state.capturedMinor).toBe(percentOf(booking.estimateMinor, 50))
+      expect(ledger(booking.id).map((r) => r.kind)).toEqual(['authorised', 'fee'])
+    } finally {
+      await bench.admin.patch('/api/admin/settings', { freeCancellationHours: 24 })
+    }
+  })
+
+  it('a declined card leaves the booking unpaid, and it is released after the hold', async () => {
+    const { jobId, booking } = await bookedJob('Declined')
+    const declined = await payCheckout(booking.checkoutUrl, CARD_DECLINED)
+    expect(declined.status).toBeLessThan(500)
+    await new Promise((r) => setTimeout(r, 300))
+    expect(ledger(booking.id)).toEqual([])
+    const db = new Database(inject('databasePath'))
+    db.prepare("update bookings set hold_expires_at = '2000-01-01T00:00:00.000Z' where id = ?").run(booking.id)
+    db.close()
+    expect((await bench.admin.post('/api/admin/tasks/release-holds')).body.released).toBeGreaterThanOrEqual(1)
+    expect((await bench.member.get(`/api/jobs/${jobId}`)).body.state).toBe('approved')
+  })
+})
+
+describe('webhooks', () => {
+  const stripe = () => {
+    const base = new URL(inject('stripeFakeUrl'))
+    return new Stripe('sk_test_kerfbook_tests', { host: base.hostname, port: Number(base.port), protocol: 'http' })
+  }
+  const post = (payload: string, signature: string) => fetch(`${inject('baseUrl')}/api/webhooks/stripe`, { method: 'POST', headers: { 'content-type': 'application/json', 'stripe-signature': signature }, body: payload })
+
+  it('refuses unsigned, badly signed and stale events and changes nothing', async () => {
+    const { booking } = await bookedJob('Forged')
+    const forged = JSON.stringify({ id: 'evt_forged', object: 'event', type: 'payment_intent.succeeded', data: { object: { object: 'payment_intent', id: 'pi_forged', metadata: { bookingId: String(booking.id) } } } })
+    expect((await post(forged, 't=1,v1=deadbeef')).status).toBe(400)
+    expect((await fetch(`${inject('baseUrl')}/api/webhooks/stripe`, { method: 'POST', body: forged })).status).toBe(400)
+    const stale = Math.floor(Date.now() / 1000) - 600
+    expect((await post(forged, stripeSignatureHeader(forged, inject('stripeWebhookSecret'), stale))).status).toBe(400)
+    expect(ledger(booking.id)).toEqual([])
+  })
+
+  it('counts an event delivered ten times once', async () => {
+    const { booking } = await bookedJob('Replayed')
+    await payCheckout(booking.checkoutUrl)
+    await waitForPaymentState(bench.member, booking.id, 'authorised')
+    const events = await stripe().events.list({ type: 'checkout.session.completed', limit: 20 })
+    const event = events.data.find((e) => (e.data.object as Stripe.Checkout.Session).metadata?.bookingId === String(booking.id))!
+    const payload = JSON.stringify(event)
+    for (let i = 0; i < 10; i++) {
+      const response = await post(payload, stripeSignatureHeader(payload, inject('stripeWebhookSecret'), Math.floor(Date.now() / 1000)))
+      expect(response.status).toBe(200)
+    }
+    expect(ledger(booking.id)).toHaveLength(1)
+  })
+})
