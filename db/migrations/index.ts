@@ -5,6 +5,7 @@ import * as jobs from './0003_jobs'
 import * as bookings from './0004_bookings'
 import * as payments from './0005_payments'
 import * as operations from './0006_operations'
+import * as cuttingDay from './0007_cutting_day'
 
 // Append-only: a schema change is a new file added at the end of this list, never an edit of a landed one.
 // Migrations are imported statically so the bundled server and the CLI run the same list.
@@ -15,6 +16,7 @@ const migrations: Record<string, Knex.Migration> = {
   '0004_bookings': bookings,
   '0005_payments': payments,
   '0006_operations': operations,
+  '0007_cutting_day': cuttingDay,
 }
 
 export const migrationSource: Knex.MigrationSource<string> = {
