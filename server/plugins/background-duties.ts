@@ -1,7 +1,8 @@
 import { sendDueReminders } from '../services/booking-mail'
 import { releaseExpiredHolds } from '../services/payments'
+import { sendPickupReminders } from '../services/pickup-reminders'
 
-// Background duties: unpaid holds released every minute, day-before reminders every ten. Their state
+// Background duties: unpaid holds released every minute, day-before and pickup reminders every ten. Their state
 // lives in the database, so a restart picks up where it left off and never sends twice.
 const HOLD_SWEEP_MS = 60_000
 const REMINDER_MS = 10 * 60_000
@@ -19,4 +20,5 @@ export default defineNitroPlugin((nitro) => {
   }
   every(HOLD_SWEEP_MS, 'holds', () => releaseExpiredHolds(useDb()))
   every(REMINDER_MS, 'reminders', () => sendDueReminders(useDb()))
+  every(REMINDER_MS, 'pickups', () => sendPickupReminders(useDb()))
 })

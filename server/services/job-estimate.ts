@@ -10,6 +10,8 @@ export interface EstimatedFile {
 }
 
 export interface JobEstimate {
+  /** The time model's parts over all copies (cut includes score and engrave), for calibration. */
+  components: { cutS: number; pierceS: number; travelS: number; setupS: number }
   cutLengthMm: number
   pierces: number
   /** Machine time for every copy of every file plus one setup. */
@@ -36,8 +38,13 @@ export function estimateJob(files: EstimatedFile[], cutter: Pick<Cutter, 'setupM
   let machineS = files.length > 0 ? setupS : 0
   let cutLengthMm = 0
   let pierces = 0
+  const components = { cutS: 0, pierceS: 0, travelS: 0, setupS: files.length > 0 ? setupS : 0 }
   for (const file of files) {
-    machineS += (file.analysis.time.totalS - file.analysis.time.setupS) * file.quantity
+    const time = file.analysis.time
+    machineS += (time.totalS - time.setupS) * file.quantity
+    components.cutS += (time.cutS + time.scoreS + time.engraveS) * file.quantity
+    components.pierceS += time.pierceS * file.quantity
+    components.travelS += time.travelS * file.quantity
     cutLengthMm += file.analysis.cut.lengthMm * file.quantity
     pierces += file.analysis.cut.pierces * file.quantity
   }
@@ -52,6 +59,7 @@ export function estimateJob(files: EstimatedFile[], cutter: Pick<Cutter, 'setupM
   const machinePriceMinor = billableMinutes * cutter.pricePerMinuteMinor
   const materialPriceMinor = layout.sheets.length * sheet.priceMinor
   return {
+    components,
     cutLengthMm,
     pierces,
     machineS,

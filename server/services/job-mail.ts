@@ -40,7 +40,6 @@ const PLANS: Partial<Record<TransitionRecord['action'], MailPlan>> = {
   },
   startCutting: { subject: (t) => `Cutting now: ${t}`, lines: (t) => [`"${t}" is on the machine.`] },
   finishCutting: { subject: (t) => `Cut: ${t}`, lines: (t) => [`"${t}" has been cut.`] },
-  markReady: { subject: (t) => `Ready to collect: ${t}`, lines: (t) => [`Your parts for "${t}" are ready to collect.`] },
   markCollected: { subject: (t) => `Collected: ${t}`, lines: (t) => [`Thanks for collecting "${t}".`] },
 }
 

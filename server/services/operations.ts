@@ -1,10 +1,15 @@
+import { randomInt } from 'node:crypto'
 import type { Knex } from 'knex'
 import type { SessionUser } from '#shared/roles'
-import { Conflict } from '../utils/errors'
+import { Conflict, InvalidInput, NotFound } from '../utils/errors'
+import { nowIso } from '../utils/rows'
 import { liveBookings, type BookingRow } from './bookings'
-import { transitionJob } from './job-states'
-import { jobForViewer } from './jobs'
+import { transitionJob, type TransitionRecord } from './job-states'
+import { currentFiles, jobEstimate, jobForViewer, type JobRow } from './jobs'
 import { settleCut, type Settlement } from './payments'
+
+export type TimerKind = 'start' | 'pause' | 'resume' | 'finish'
+export type ProblemKind = 'failed-cut' | 're-cut' | 'material-defect' | 'other'
 
 /** The job's live booking; cutting and payment hang off it. */
 export async function bookingOfJob(db: Knex, jobId: number): Promise<BookingRow> {
@@ -13,18 +18,124 @@ export async function bookingOfJob(db: Knex, jobId: number): Promise<BookingRow>
   return booking
 }
 
-export async function startCut(db: Knex, staff: SessionUser, jobId: number): Promise<void> {
+/** Minutes the timer ran: from each start or resume to the next pause or finish (or now, while running). */
+export function timerMinutes(events: { kind: TimerKind; at: string }[], now = nowIso()): { minutes: number; running: boolean } {
+  let runningSince: string | null = null
+  let ms = 0
+  for (const event of events) {
+    if (event.kind === 'start' || event.kind === 'resume') runningSince ??= event.at
+    else if (runningSince) {
+      ms += Date.parse(event.at) - Date.parse(runningSince)
+      runningSince = null
+    }
+  }
+  if (runningSince) ms += Date.parse(now) - Date.parse(runningSince)
+  return { minutes: ms / 60_000, running: runningSince !== null }
+}
+
+async function timerEvents(db: Knex, jobId: number) {
+  return db('cut_timer_events').where({ job_id: jobId }).orderBy('id').select('kind', 'at') as Promise<{ kind: TimerKind; at: string }[]>
+}
+
+export async function startCut(db: Knex, staff: SessionUser, jobId: number): Promise<TransitionRecord> {
   await jobForViewer(db, staff, jobId)
   const booking = await bookingOfJob(db, jobId)
   if (booking.status !== 'confirmed') throw new Conflict('The booking is not paid yet; the member has to finish the checkout first.')
-  await db.transaction((trx) => transitionJob(trx, jobId, 'startCutting', staff, { comment: 'Cutting started' }))
+  return db.transaction(async (trx) => {
+    const record = await transitionJob(trx, jobId, 'startCutting', staff, { comment: 'Cutting started' })
+    await trx('cut_timer_events').insert({ job_id: jobId, kind: 'start', at: nowIso(), actor_id: staff.id })
+    return record
+  })
 }
 
-/** Records the minutes actually cut and charges them (capture of the card hold). */
-export async function finishCut(db: Knex, staff: SessionUser, jobId: number, actualMinutes: number, note = ''): Promise<Settlement> {
+/** Pause or resume the running cut; the timer keeps server time, so a closed browser loses nothing. */
+export async function pauseOrResume(db: Knex, staff: SessionUser, jobId: number, kind: 'pause' | 'resume'): Promise<{ minutes: number; running: boolean }> {
+  const job = await jobForViewer(db, staff, jobId)
+  if (job.state !== 'cutting') throw new Conflict('Only a job on the machine can be paused or resumed.')
+  const timer = timerMinutes(await timerEvents(db, jobId))
+  if (kind === 'pause' && !timer.running) throw new Conflict('The timer is already paused.')
+  if (kind === 'resume' && timer.running) throw new Conflict('The timer is already running.')
+  await db('cut_timer_events').insert({ job_id: jobId, kind, at: nowIso(), actor_id: staff.id })
+  return timerMinutes(await timerEvents(db, jobId))
+}
+
+export async function reportProblem(db: Knex, staff: SessionUser, jobId: number, kind: ProblemKind, note: string): Promise<void> {
   await jobForViewer(db, staff, jobId)
+  await db.transaction(async (trx) => {
+    await trx('cut_problems').insert({ job_id: jobId, kind, note, actor_id: staff.id })
+    const job = await trx('jobs').where({ id: jobId }).first('state')
+    await trx('job_events').insert({ job_id: jobId, actor_id: staff.id, from_state: job.state, to_state: job.state, comment: `Problem (${kind}): ${note}` })
+  })
+}
+
+/**
+ * Finishes the cut with the minutes actually used — typed by staff, or the timer's own — records
+ * what the estimate said at that moment (for reports and calibration) and captures the payment.
+ */
+export async function finishCut(db: Knex, staff: SessionUser, jobId: number, typedMinutes: number | undefined, note = ''): Promise<Settlement> {
+  const job = await jobForViewer(db, staff, jobId)
   const booking = await bookingOfJob(db, jobId)
-  await db.transaction((trx) => transitionJob(trx, jobId, 'finishCutting', staff, { comment: `Cut in ${actualMinutes} min${note ? `: ${note}` : ''}` }))
-  await db('jobs').where({ id: jobId }).update({ actual_minutes: actualMinutes })
+  const timer = timerMinutes(await timerEvents(db, jobId))
+  const actualMinutes = Math.round((typedMinutes ?? timer.minutes) * 100) / 100
+  if (!(actualMinutes > 0)) throw new InvalidInput('Enter the minutes actually cut: the timer has not run.', { fields: { actualMinutes: 'Required when the timer was not used.' } })
+  const estimate = await jobEstimate(db, job, await currentFiles(db, jobId))
+  const now = nowIso()
+  await db.transaction(async (trx) => {
+    await transitionJob(trx, jobId, 'finishCutting', staff, { comment: `Cut in ${actualMinutes} min${typedMinutes === undefined ? ' (timer)' : ''}${note ? `: ${note}` : ''}` })
+    await trx('cut_timer_events').insert({ job_id: jobId, kind: 'finish', at: now, actor_id: staff.id })
+    await trx('jobs').where({ id: jobId }).update({
+      actual_minutes: actualMinutes,
+      estimated_minutes: estimate.machineS / 60,
+      estimated_cut_s: estimate.components.cutS,
+      estimated_pierce_s: estimate.components.pierceS,
+      estimated_travel_s: estimate.components.travelS,
+      estimated_setup_s: estimate.components.setupS,
+      sheets_used: estimate.sheetCount,
+      cut_finished_at: now,
+      updated_at: now,
+    })
+  })
   return settleCut(db, booking.id, actualMinutes)
+}
+
+// Codes are read aloud and typed: no 0/O or 1/I/L.
+const CODE_ALPHABET = 'ABCDEFGHJKMNPQRSTUVWXYZ23456789'
+
+function newPickupCode(): string {
+  return Array.from({ length: 6 }, () => CODE_ALPHABET[randomInt(CODE_ALPHABET.length)]).join('')
+}
+
+export async function markReady(db: Knex, staff: SessionUser, jobId: number, location: string): Promise<{ record: TransitionRecord; code: string }> {
+  await jobForViewer(db, staff, jobId)
+  return db.transaction(async (trx) => {
+    let code = newPickupCode()
+    while (await trx('jobs').where({ pickup_code: code, state: 'ready' }).first('id')) code = newPickupCode()
+    const record = await transitionJob(trx, jobId, 'markReady', staff, { comment: `On the pickup shelf: ${location}` })
+    await trx('jobs').where({ id: jobId }).update({ pickup_code: code, pickup_location: location, ready_at: nowIso() })
+    return { record, code }
+  })
+}
+
+/** Hands the parts over for a pickup code; each code works once, for its one job. */
+export async function collectWithCode(db: Knex, staff: SessionUser, code: string): Promise<{ record: TransitionRecord; job: JobRow }> {
+  const normalised = code.trim().toUpperCase().replace(/[\s-]/g, '')
+  return db.transaction(async (trx) => {
+    const job = await trx<JobRow>('jobs').where({ pickup_code: normalised }).orderBy('id', 'desc').first()
+    if (!job) throw new NotFound('No parts are waiting under that code. Check the letters with the member.')
+    if (job.state !== 'ready') throw new Conflict('This code was already used: the parts were collected.')
+    const record = await transitionJob(trx, job.id, 'markCollected', staff, { comment: 'Collected with the pickup code' })
+    await trx('jobs').where({ id: job.id }).update({ collected_at: nowIso() })
+    return { record, job }
+  })
+}
+
+/** Jobs ready for more than `days` whose owner has not been reminded; each claimed before its mail. */
+export async function claimUncollected(db: Knex, days: number, now = new Date()): Promise<number[]> {
+  const before = new Date(now.getTime() - days * 86_400_000).toISOString()
+  const due = await db('jobs').where({ state: 'ready' }).whereNull('pickup_reminded_at').where('ready_at', '<', before).select('id')
+  const claimed: number[] = []
+  for (const { id } of due) {
+    if ((await db('jobs').where({ id }).whereNull('pickup_reminded_at').update({ pickup_reminded_at: nowIso() })) === 1) claimed.push(id)
+  }
+  return claimed
 }

@@ -177,6 +177,8 @@ async function paidBooking(db: Knex, bookingId: number): Promise<PaidBooking & {
 }
 
 export interface Settlement {
+  bookingId: number
+  memberId: number | null
   newKinds: LedgerKind[]
   chargeMinor: number
   capturedMinor: number
@@ -217,7 +219,7 @@ export async function settleCut(db: Knex, bookingId: number, actualMinutes: numb
     )
     balanceUrl = session.url
   }
-  return { newKinds: synced?.newKinds ?? [], chargeMinor, capturedMinor, balanceMinor, balanceUrl, actualMinutes, estimateMinutes: estimate.billableMinutes }
+  return { bookingId: booking.id, memberId: booking.member_id, newKinds: synced?.newKinds ?? [], chargeMinor, capturedMinor, balanceMinor, balanceUrl, actualMinutes, estimateMinutes: estimate.billableMinutes }
 }
 
 /** Cancellation money: free releases the hold; late captures the policy's fee of the estimate. */

@@ -7,7 +7,7 @@ export interface MailMessage {
   /** Paragraphs of plain text; the HTML part is built from the same paragraphs. */
   paragraphs: string[]
   action?: { label: string; url: string }
-  attachments?: { filename: string; content: string; contentType: string }[]
+  attachments?: { filename: string; content: string; contentType: string; encoding?: 'base64' }[]
 }
 
 let transport: Transporter | undefined

@@ -20,6 +20,7 @@ export const workshopSettingsSchema = z.object({
   lateCancellationFeePercent: wholeNumber('Late cancellation fee (%)', 0, 100),
   paymentHoldMinutes: wholeNumber('Time to pay a booking (minutes)', 5, 240),
   paymentBufferPercent: wholeNumber('Buffer on the authorised amount (%)', 0, 100),
+  pickupReminderDays: wholeNumber('Remind about uncollected parts after (days)', 1, 90),
 })
 export type WorkshopSettings = z.output<typeof workshopSettingsSchema>
 export const workshopSettingsPatchSchema = workshopSettingsSchema.partial()
@@ -33,4 +34,5 @@ export const DEFAULT_WORKSHOP_SETTINGS: WorkshopSettings = {
   lateCancellationFeePercent: 50,
   paymentHoldMinutes: 30,
   paymentBufferPercent: 20,
+  pickupReminderDays: 7,
 }

@@ -1,0 +1,110 @@
+import type { Knex } from 'knex'
+import { cautionsFor, type Caution } from '#shared/safety'
+import { OPERATION_CODES } from '../analysis/polylines'
+import type { AnalysisResult } from '../analysis/index'
+import { NotFound } from '../utils/errors'
+import { liveBookings } from './bookings'
+import { listColours } from './catalog/colours'
+import { getCutter } from './catalog/cutters'
+import { getMaterial } from './catalog/materials'
+import { currentFiles, jobEstimate, type JobRow } from './jobs'
+import { timerMinutes, type TimerKind } from './operations'
+import { workshopSettings } from './settings'
+import { inZone, toUtcIso } from './workshop-time'
+
+export interface RunSheetEntry {
+  bookingId: number
+  start: string
+  end: string
+  paid: boolean
+  job: { id: number; title: string; state: string; notes: string; warningsAcknowledgement: string | null; overrideReason: string | null }
+  member: { name: string; email: string }
+  material: { name: string; thicknessMm: number; hazardNote: string }
+  sheets: { count: number; widthMm: number; heightMm: number }
+  files: { name: string; quantity: number; revision: number }[]
+  cautions: Caution[]
+  timer: { minutes: number; running: boolean }
+  actualMinutes: number | null
+  pickupLocation: string | null
+  problems: { kind: string; note: string; at: string }[]
+}
+
+/** The day's booked jobs on one cutter, in order, with everything the operator needs at the machine. */
+export async function runSheet(db: Knex, cutterId: number, localDate: string): Promise<{ cutterName: string; date: string; timeZone: string; entries: RunSheetEntry[] }> {
+  const settings = await workshopSettings(db)
+  const cutter = await getCutter(db, cutterId)
+  const day = inZone(`${localDate}T12:00:00Z`, settings.timeZone).startOf('day')
+  if (!day.isValid) throw new NotFound('No such day.')
+  const from = toUtcIso(day)
+  const to = toUtcIso(day.plus({ days: 1 }))
+  const bookings = await liveBookings(db('bookings').where({ cutter_id: cutterId, kind: 'job' }).where('starts_at', '>=', from).where('starts_at', '<', to)).orderBy('starts_at')
+  const entries: RunSheetEntry[] = []
+  for (const booking of bookings) {
+    const job = (await db<JobRow & Record<string, any>>('jobs').where({ id: booking.job_id }).first())!
+    // Handed over: nothing left to do at the machine or the shelf.
+    if (job.state === 'collected') continue
+    const [member, material, files, events, problems] = await Promise.all([
+      db('users').where({ id: job.member_id }).first('name', 'email'),
+      getMaterial(db, job.material_id),
+      currentFiles(db, job.id),
+      db('cut_timer_events').where({ job_id: job.id }).orderBy('id').select('kind', 'at') as Promise<{ kind: TimerKind; at: string }[]>,
+      db('cut_problems').where({ job_id: job.id }).orderBy('id').select('kind', 'note', 'created_at as at'),
+    ])
+    const estimate = await jobEstimate(db, job, files)
+    const sheet = material.sheets.find((s) => s.id === job.sheet_id) ?? material.sheets[0]!
+    entries.push({
+      bookingId: booking.id,
+      start: booking.starts_at,
+      end: booking.ends_at,
+      paid: booking.status === 'confirmed',
+      job: { id: job.id, title: job.title, state: job.state, notes: job.notes, warningsAcknowledgement: job.warnings_acknowledgement, overrideReason: job.override_reason },
+      member,
+      material: { name: material.name, thicknessMm: material.thicknessMm, hazardNote: material.hazardNote },
+      sheets: { count: estimate.sheetCount, widthMm: sheet.widthMm, heightMm: sheet.heightMm },
+      files: files.map((f) => ({ name: f.name, quantity: f.quantity, revision: f.current.revision })),
+      cautions: cautionsFor(cutter.kind, material),
+      timer: timerMinutes(events),
+      actualMinutes: job.actual_minutes ?? null,
+      pickupLocation: job.pickup_location ?? null,
+      problems,
+    })
+  }
+  return { cutterName: cutter.name, date: localDate, timeZone: settings.timeZone, entries }
+}
+
+/**
+ * One stock sheet of a job as an SVG to load on the cutter: every placed copy's checked geometry
+ * (the engine's normalised contours, never the uploaded markup), moved or turned to its place, in
+ * the workshop's own stroke colour for its operation, 1 user unit = 1 mm.
+ */
+export async function sheetSvg(db: Knex, job: JobRow, sheetIndex: number): Promise<string> {
+  const files = await currentFiles(db, job.id)
+  const estimate = await jobEstimate(db, job, files)
+  const sheet = estimate.layout.sheets[sheetIndex]
+  if (!sheet) throw new NotFound('No such sheet in this job.')
+  const revisions = new Map<number, AnalysisResult>()
+  for (const file of files) {
+    const row = await db('file_revisions').where({ job_file_id: file.id, revision: file.current.revision }).first('analysis_json')
+    revisions.set(file.id, JSON.parse(row.analysis_json))
+  }
+  const colours = await listColours(db)
+  const strokeFor = (operation: string) => colours.find((c) => c.operation === operation)?.hex ?? '#000000'
+  const paths: string[] = []
+  for (const placement of sheet.placements) {
+    const analysis = revisions.get(placement.fileId)!
+    const { x: bx, y: by, width: bw } = analysis.bbox
+    // Turned a quarter: the part's y runs along the sheet's x, its x back along the sheet's y.
+    const place = (x: number, y: number): [number, number] => (placement.rotated ? [placement.x + (y - by), placement.y + (bx + bw - x)] : [placement.x + (x - bx), placement.y + (y - by)])
+    for (const contour of analysis.contours ?? []) {
+      if (!(contour.operation in OPERATION_CODES)) continue
+      let d = ''
+      for (let i = 0; i < contour.points.length; i += 2) {
+        const [x, y] = place(contour.points[i]!, contour.points[i + 1]!)
+        d += `${i === 0 ? 'M' : 'L'}${x.toFixed(3)} ${y.toFixed(3)}`
+      }
+      paths.push(`<path d="${d}${contour.closed ? 'Z' : ''}" stroke="${strokeFor(contour.operation)}"/>`)
+    }
+  }
+  const { sheetWidthMm: w, sheetHeightMm: h } = estimate.layout
+  return `<?xml version="1.0" encoding="UTF-8"?>\n<svg xmlns="http://www.w3.org/2000/svg" width="${w}mm" height="${h}mm" viewBox="0 0 ${w} ${h}">\n<g fill="none" stroke-width="0.1">\n${paths.join('\n')}\n</g>\n</svg>\n`
+}
