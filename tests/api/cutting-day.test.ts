@@ -63,17 +63,17 @@ describe('a cutting day through the API', () => {
     expect(during.timer.running).toBe(true)
     expect(during.problems[0]).toMatchObject({ kind: 're-cut' })
 
-    const finished = await bench.staff.post(`/api/jobs/${jobId}/finish`, { actualMinutes: 12 })
+    const finished = await bench.staff.post(`/api/jobs/${jobId}/finish`, { actualMinutes: 3 })
     expect(finished.status).toBe(200)
     const job = (await bench.member.get(`/api/jobs/${jobId}`)).body
     // Bench cutter: 100 per minute, 5 setup minutes, per-minute billing, plus the job's sheets.
-    expect(finished.body.capturedMinor).toBe((12 + 5) * 100 + job.estimate.materialPriceMinor)
+    expect(finished.body.capturedMinor).toBe((3 + 5) * 100 + job.estimate.materialPriceMinor)
     expect((await waitForPaymentState(bench.member, booking.id, 'captured')).capturedMinor).toBe(finished.body.capturedMinor)
 
     const db = new Database(inject('databasePath'), { readonly: true })
     const recorded = db.prepare('select actual_minutes, estimated_minutes, sheets_used, estimated_cut_s from jobs where id = ?').get(jobId) as any
     db.close()
-    expect(recorded.actual_minutes).toBe(12)
+    expect(recorded.actual_minutes).toBe(3)
     expect(recorded.estimated_minutes).toBeCloseTo(job.estimate.machineS / 60, 6)
     expect(recorded.sheets_used).toBe(job.estimate.sheetCount)
     expect(recorded.estimated_cut_s).toBeGreaterThan(0)
