@@ -1,0 +1,3 @@
+import { defineReportRoute } from '../../services/reports/route'
+
+export default defineReportRoute('utilisation')
