@@ -107,7 +107,8 @@ export function fitTimeCorrection(samples: readonly TimeSample[], options: FitOp
   const clippedComponents: CorrectedComponent[] = []
   fittedComponents.forEach((component, index) => {
     const estimate = robust.coefficients[model === 'components' ? index : 0]!
-    const clipped = Math.min(range.max, Math.max(range.min, estimate))
+    // isUsableSample keeps the numbers small enough that this cannot happen; the promise is never NaN all the same.
+    const clipped = Number.isFinite(estimate) ? Math.min(range.max, Math.max(range.min, estimate)) : UNCORRECTED[component]
     if (clipped !== estimate) clippedComponents.push(component)
     coefficients[component] = clipped
   })

@@ -39,13 +39,17 @@ export function modelledMotionS(components: TimeComponents): number {
   return components.cutS + components.pierceS + components.travelS
 }
 
+// A job under a second of modelled motion says nothing about the coefficients; one over a week is an entry error.
+const MIN_MODELLED_MOTION_S = 1
+const MAX_PLAUSIBLE_S = 7 * 24 * 3600
+
 /**
- * A job can teach the fit only when every number is finite, no component is negative and the model
- * gave it some time beyond setup; anything else is a recording mistake, not evidence.
+ * A job can teach the fit only when every number is a plausible time (finite, 0 … a week), the actual
+ * time is positive and the model gave it at least a second beyond setup; anything else is a recording
+ * mistake, not evidence.
  */
 export function isUsableSample(sample: TimeSample): boolean {
-  const numbers = [sample.cutS, sample.pierceS, sample.travelS, sample.setupS, sample.actualS]
-  if (!numbers.every(Number.isFinite)) return false
-  if (sample.cutS < 0 || sample.pierceS < 0 || sample.travelS < 0 || sample.setupS < 0 || sample.actualS <= 0) return false
-  return modelledMotionS(sample) > 0
+  const times = [sample.cutS, sample.pierceS, sample.travelS, sample.setupS, sample.actualS]
+  if (!times.every((seconds) => Number.isFinite(seconds) && seconds >= 0 && seconds <= MAX_PLAUSIBLE_S)) return false
+  return sample.actualS > 0 && modelledMotionS(sample) >= MIN_MODELLED_MOTION_S
 }
