@@ -7,7 +7,7 @@ import { reportOf, type ReportRange } from './range'
 export async function jobStateReport(db: Knex, range: ReportRange): Promise<JobStateReport> {
   const query = db('jobs').where('created_at', '>=', range.fromIso).where('created_at', '<', range.toIso).groupBy('state').select('state').count({ jobs: '*' })
   if (range.cutterId) query.where({ cutter_id: range.cutterId })
-  const counted: { state: JobState; jobs: number | string }[] = await query
+  const counted = (await query) as unknown as { state: JobState; jobs: number | string }[]
   const counts = new Map(counted.map((r) => [r.state, Number(r.jobs)]))
   return reportOf(range, JOB_STATES.map((state) => ({ state, label: JOB_STATE_LABELS[state], jobs: counts.get(state) ?? 0 })))
 }
