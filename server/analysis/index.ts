@@ -1,5 +1,8 @@
 import { chainPolylines } from './chain'
 import { runDesignRuleChecks, sortBySeverity } from './checks/index'
+import { type CutFileFormat, detectCutFileFormat } from './dxf/format'
+import { parseDxf } from './dxf/parseDxf'
+import { readDxfDocument } from './dxf/readDxf'
 import { AnalysisInputError } from './errors'
 import { flattenPath } from './flatten'
 import { estimateMachineTime } from './machineTime'
@@ -8,16 +11,17 @@ import type { AnalysisParams } from './params'
 import { parseSvgXml } from './parseXml'
 import { OPERATION_BY_CODE, OPERATION_CODES, PolylineSet } from './polylines'
 import { billableMinutes, priceMinor } from './pricing'
-import { readSvgDocument } from './readSvg'
+import { type ReadDrawing, readSvgDocument } from './readSvg'
 import type { AnalysisResult, PreviewContour } from './result'
 import { fitOnSheet } from './sheetFit'
-import { type StageTimeListener, stageTimer } from './stageTimer'
+import { type AnalysisStage, type StageTimeListener, stageTimer } from './stageTimer'
 
 export { AnalysisInputError, type AnalysisInputErrorKind } from './errors'
-export { DEFAULT_ANALYSIS_PARAMS, withDefaults, type AnalysisParams, type ColourRule, type Operation } from './params'
+export { DEFAULT_ANALYSIS_PARAMS, withDefaults, type AnalysisParams, type ColourRule, type DxfLayerRule, type Operation } from './params'
 export type { AnalysisResult, Finding, PreviewContour, Severity } from './result'
 export type { DesignRuleSummary } from './checks/index'
 export type { AnalysisStage, StageTimeListener } from './stageTimer'
+export { detectCutFileFormat, type CutFileFormat } from './dxf/format'
 
 export interface AnalyzeOptions {
   /** Adds `contours` (polylines in mm with their operation) for a preview. */
@@ -51,6 +55,30 @@ export function analyzeSvgWithGeometry(svgText: string, params: AnalysisParams, 
   lap('parse')
   const drawing = readSvgDocument(root, params)
   lap('read')
+  return analyzeDrawing(drawing, params, options, lap)
+}
+
+/** The same analysis of a DXF drawing (README: DXF files), read into the geometry the SVG reader gives. */
+export function analyzeDxf(dxfText: string, params: AnalysisParams, options: AnalyzeOptions = {}): AnalysisResult {
+  return analyzeDxfWithGeometry(dxfText, params, options).result
+}
+
+export function analyzeDxfWithGeometry(dxfText: string, params: AnalysisParams, options: AnalyzeOptions = {}): { result: AnalysisResult; geometry: AnalysedGeometry } {
+  const lap = stageTimer(options.onStageTimed)
+  const dxf = parseDxf(dxfText)
+  lap('parse')
+  const drawing = readDxfDocument(dxf, params)
+  lap('read')
+  return analyzeDrawing(drawing, params, options, lap)
+}
+
+/** SVG or DXF, as `format` says or, without it, as the text's content shows. */
+export function analyzeCutFile(text: string, params: AnalysisParams, options: AnalyzeOptions & { format?: CutFileFormat } = {}): AnalysisResult {
+  const format = options.format ?? detectCutFileFormat(text)
+  return format === 'dxf' ? analyzeDxf(text, params, options) : analyzeSvg(text, params, options)
+}
+
+function analyzeDrawing(drawing: ReadDrawing, params: AnalysisParams, options: AnalyzeOptions, lap: (stage: AnalysisStage) => void): { result: AnalysisResult; geometry: AnalysedGeometry } {
   const pieces = new PolylineSet()
   drawing.elements.forEach((element, elementIndex) => {
     flattenPath(element.pathData, element.matrix, params.chordToleranceMm, pieces, OPERATION_CODES[element.operation], elementIndex, element.filled)

@@ -9,6 +9,12 @@ export interface ColourRule {
   operation: Operation
 }
 
+/** One entry of the workshop's DXF layer mapping: entities on this layer (names compared case-insensitively, as DXF does) get the operation. */
+export interface DxfLayerRule {
+  layer: string
+  operation: Operation
+}
+
 /** Everything the engine needs to know about the cutter, the material and the workshop's prices. */
 export interface AnalysisParams {
   cutSpeedMmPerMin: number
@@ -47,6 +53,8 @@ export interface AnalysisParams {
   /** Material charged on the part's bounding-box area. */
   materialPriceMinorPerM2: number
   colourMapping: ColourRule[]
+  /** DXF only: operation by layer name, checked before the colour mapping (absent: colours decide). */
+  dxfLayerMapping?: DxfLayerRule[]
   /** What strokes of a colour the mapping does not know become (they are also reported). */
   unmappedStrokeOperation: Operation
   /** Largest distance between a curve and its flattened chords. */

@@ -1,0 +1,200 @@
+import type { IDxf, IEntity, IInsertEntity, IPoint } from 'dxf-parser'
+import { AnalysisInputError } from '../errors'
+import { applyX, applyY, type Matrix, multiply, scaling, translation } from '../matrix'
+import type { AnalysisParams } from '../params'
+import type { DrawnElement, ReadDrawing } from '../readSvg'
+import type { Finding } from '../result'
+import { entityPathData } from './entityPaths'
+import { DxfLayers, effectiveLayer, entityColour } from './layers'
+import { colourHex, DxfOperationMapper } from './operationMapping'
+import type { RawGroupEntity } from './rawGroupEntities'
+import { drawingUnits } from './units'
+
+// As for SVG's <use>: bounds what nested INSERTs can multiply, and stops blocks that insert themselves.
+const MAX_INSERT_DEPTH = 32
+const MAX_VISITED_ENTITIES = 2_000_000
+// An extrusion direction this close to ±Z is the drawing plane (the arbitrary axis algorithm's own threshold is 1/64 on X and Y).
+const PLANAR_EXTRUSION_Z = 1 - 1e-9
+
+/** What DXF entities that draw no cut lines are reported as, like text and images in SVG. */
+const NOT_CUT: Readonly<Record<string, { code: string; message: string }>> = {
+  TEXT: { code: 'text-not-outlined', message: 'Text is not cut. Explode it into lines or polylines in your CAD program (or delete it if it is a note).' },
+  MTEXT: { code: 'text-not-outlined', message: 'Text is not cut. Explode it into lines or polylines in your CAD program (or delete it if it is a note).' },
+  DIMENSION: { code: 'dxf-dimension', message: 'Dimensions are not cut. Delete them, or put them on a layer that is turned off, before exporting.' },
+  HATCH: { code: 'dxf-hatch', message: 'Hatch fills are not cut or engraved. Draw the outline you want cut as lines, or delete the hatch.' },
+  IMAGE: { code: 'raster-image', message: 'A raster image is not cut or engraved. Trace it into lines, or remove it if it is only a reference.' },
+}
+
+interface Pending {
+  entity: IEntity
+  matrix: Matrix
+  /** The inserting entity's layer and colour, for layer-0 and BYBLOCK entities of a block. */
+  insertLayer?: string
+  byBlockColour?: number
+  /** Names of the blocks being inserted around this entity, innermost first. */
+  blockChain: BlockChain | undefined
+}
+
+interface BlockChain {
+  name: string
+  depth: number
+  outer: BlockChain | undefined
+}
+
+/**
+ * Lists a DXF drawing's visible line-drawing entities as the SVG reader lists
+ * shapes: path data in entity coordinates with a matrix into mm, and an
+ * operation from the layer or colour mapping. The matrix scales by
+ * $INSUNITS and mirrors Y (DXF's Y points up, the engine's — like SVG's —
+ * down), so a DXF point (x, y) lands at (x, −y) mm: the picture the member
+ * drew, not its mirror image, in the SVG frame. INSERTs are expanded with an
+ * explicit stack (no recursion), at most MAX_INSERT_DEPTH deep.
+ */
+export function readDxfDocument(dxf: IDxf, params: AnalysisParams): ReadDrawing {
+  const units = drawingUnits(dxf.header?.$INSUNITS)
+  const layers = new DxfLayers(dxf.tables)
+  const mapper = new DxfOperationMapper(params)
+  const elements: DrawnElement[] = []
+  const findings: Finding[] = units.finding ? [units.finding] : []
+  const notCut = new Map<string, { finding: Finding; count: number }>()
+  const reportedMappings = new Set<string>()
+  const stack: Pending[] = []
+  const pushEntities = (entities: IEntity[] | undefined, matrix: Matrix, context: Omit<Pending, 'entity' | 'matrix'>) => {
+    for (let index = (entities?.length ?? 0) - 1; index >= 0; index--) stack.push({ entity: entities![index], matrix, ...context })
+  }
+  pushEntities(dxf.entities, scaling(units.mmPerUnit, -units.mmPerUnit), { blockChain: undefined })
+  let visited = 0
+
+  while (stack.length > 0) {
+    const { entity, matrix: parentMatrix, insertLayer, byBlockColour, blockChain } = stack.pop()!
+    if (++visited > MAX_VISITED_ENTITIES) {
+      throw new AnalysisInputError('tooComplex', 'This drawing repeats blocks too often to analyse (its INSERTs multiply into millions of entities).')
+    }
+    if (entity.visible === false || entity.inPaperSpace) continue
+    const layerName = effectiveLayer(entity, insertLayer)
+    const layer = layers.state(layerName)
+    const colour = entityColour(entity, layer.colour, byBlockColour)
+    const matrix = withExtrusion(parentMatrix, entity)
+    const findingMatrix = matrix ?? parentMatrix
+    const at = (point: IPoint | undefined): [number, number] => [applyX(findingMatrix, point?.x ?? 0, point?.y ?? 0), applyY(findingMatrix, point?.x ?? 0, point?.y ?? 0)]
+    if (!matrix) {
+      if (!layer.frozen) reportNotCut('dxf-not-planar', 'Entities drawn outside the drawing plane (tilted in 3D) are not cut. Flatten the drawing onto the XY plane in your CAD program.', ...at(firstPointOf(entity)))
+      continue
+    }
+    if (entity.type === 'INSERT') {
+      // A frozen insert hides the whole block; an insert on a layer that is off hides only what inherits that layer.
+      if (!layer.frozen) expandInsert(entity as IInsertEntity, matrix, layerName, colour, blockChain)
+      continue
+    }
+    if (layer.frozen || layer.off) continue
+    const notCutKind = NOT_CUT[entity.type]
+    if (notCutKind) {
+      reportNotCut(notCutKind.code, notCutKind.message, ...at(firstPointOf(entity)))
+      continue
+    }
+    const drawn = entityPathData(entity, params.chordToleranceMm / linearScale(matrix))
+    if (drawn === undefined) {
+      reportNotCut('dxf-entity-not-read', `DXF ${entity.type.slice(0, 20)} entities are not read, so not cut. Explode them into lines, arcs or polylines in your CAD program.`, ...at(firstPointOf(entity)))
+      continue
+    }
+    if ('problem' in drawn) {
+      reportNotCut('dxf-entity-not-read', `The drawing has ${drawn.problem}, which is not cut. Redraw it as lines, arcs or polylines.`, ...at(firstPointOf(entity)))
+      continue
+    }
+    if (drawn.caveat) reportNotCut('dxf-spline-fit-points', drawn.caveat, ...at(firstPointOf(entity)))
+    const operation = mapper.operationFor(layerName, colour)
+    if (operation === undefined) reportUnmapped(layerName, colour, ...at(firstPointOf(entity)))
+    const effective = operation ?? params.unmappedStrokeOperation
+    if (effective !== 'ignore') elements.push({ pathData: drawn.pathData, matrix, operation: effective, filled: false, fillRule: 'nonzero' })
+  }
+  for (const { finding, count } of notCut.values()) findings.push(count > 1 ? { ...finding, message: `${finding.message} (${count} such entities.)` } : finding)
+  return { elements, findings }
+
+  function expandInsert(insert: IInsertEntity, matrix: Matrix, layerName: string, colour: number, outer: BlockChain | undefined): void {
+    const block = dxf.blocks?.[insert.name]
+    if (!block) return
+    for (let chain = outer; chain; chain = chain.outer) {
+      if (chain.name === insert.name) throw new AnalysisInputError('tooComplex', `The block "${insert.name.slice(0, 40)}" inserts itself, so the drawing never ends. Fix the block in your CAD program.`)
+    }
+    const depth = (outer?.depth ?? 0) + 1
+    if (depth > MAX_INSERT_DEPTH) throw new AnalysisInputError('tooComplex', `This drawing nests blocks more than ${MAX_INSERT_DEPTH} deep, which Kerfbook does not analyse. Explode the blocks in your CAD program.`)
+    const columns = Math.max(1, insert.columnCount ?? 1)
+    const rows = Math.max(1, insert.rowCount ?? 1)
+    if (columns * rows * Math.max(1, block.entities?.length ?? 0) + visited > MAX_VISITED_ENTITIES) {
+      throw new AnalysisInputError('tooComplex', 'This drawing repeats blocks too often to analyse (its INSERTs multiply into millions of entities).')
+    }
+    const blockChain = { name: insert.name, depth, outer }
+    for (let row = rows - 1; row >= 0; row--) {
+      for (let column = columns - 1; column >= 0; column--) {
+        pushEntities(block.entities, multiply(matrix, insertMatrix(insert, block.position, column, row)), { insertLayer: layerName, byBlockColour: colour, blockChain })
+      }
+    }
+  }
+
+  function reportNotCut(code: string, message: string, x: number, y: number): void {
+    const seen = notCut.get(message)
+    if (seen) seen.count++
+    else notCut.set(message, { finding: { code, severity: 'warning', message, x, y }, count: 1 })
+  }
+
+  function reportUnmapped(layerName: string, colour: number, x: number, y: number): void {
+    const label = `layer "${layerName.slice(0, 40)}" in colour ${colourHex(colour)}`
+    if (reportedMappings.has(label)) return
+    reportedMappings.add(label)
+    findings.push({
+      code: 'unmapped-colour',
+      severity: 'warning',
+      message: `Lines on ${label} are in neither the workshop's layer mapping nor its colour mapping; they are counted as "${params.unmappedStrokeOperation}". Use one of the workshop's layer names or colours to choose cut, score or engrave.`,
+      x,
+      y,
+    })
+  }
+}
+
+/**
+ * An INSERT places its block's geometry, taken relative to the block's base
+ * point, scaled, turned and moved to the insertion point; an array insert
+ * repeats it at column and row spacing along the turned axes (DXF
+ * reference, INSERT, from memory).
+ */
+function insertMatrix(insert: IInsertEntity, basePoint: IPoint | undefined, column: number, row: number): Matrix {
+  const rotationRad = ((insert.rotation ?? 0) * Math.PI) / 180
+  const cos = Math.cos(rotationRad)
+  const sin = Math.sin(rotationRad)
+  const position = insert.position ?? { x: 0, y: 0 }
+  const offsetX = column * (insert.columnSpacing ?? 0)
+  const offsetY = row * (insert.rowSpacing ?? 0)
+  const placed: Matrix = [cos, sin, -sin, cos, position.x + cos * offsetX - sin * offsetY, position.y + sin * offsetX + cos * offsetY]
+  return multiply(multiply(placed, scaling(insert.xScale ?? 1, insert.yScale ?? 1)), translation(-(basePoint?.x ?? 0), -(basePoint?.y ?? 0)))
+}
+
+/**
+ * Entities in object coordinates (ARC, LWPOLYLINE, POLYLINE, INSERT) with the
+ * extrusion direction (0, 0, −1) — what CAD programs write for mirrored
+ * geometry — have their X axis reversed by the arbitrary axis algorithm;
+ * other directions leave the plane and give undefined. dxf-parser 1.1.2
+ * does not read CIRCLE's and ELLIPSE's extrusion, which therefore count as +Z.
+ */
+function withExtrusion(matrix: Matrix, entity: IEntity): Matrix | undefined {
+  const fields = entity as IEntity & { extrusionDirectionZ?: number; extrusionDirection?: IPoint }
+  const z = fields.extrusionDirectionZ ?? fields.extrusionDirection?.z
+  if (z === undefined || z >= PLANAR_EXTRUSION_Z) return matrix
+  if (z <= -PLANAR_EXTRUSION_Z) return multiply(matrix, scaling(-1, 1))
+  return undefined
+}
+
+/** An upper bound of how much the matrix stretches lengths (its Frobenius norm), to turn mm tolerances into entity units. */
+function linearScale(matrix: Matrix): number {
+  return Math.hypot(matrix[0], matrix[1], matrix[2], matrix[3]) || 1
+}
+
+/** Where to point a finding at: the entity's first point that dxf-parser (or its raw groups) gives. */
+function firstPointOf(entity: IEntity): IPoint | undefined {
+  const fields = entity as IEntity & Partial<Record<'startPoint' | 'position' | 'center' | 'anchorPoint' | 'middleOfText', IPoint>> & { vertices?: IPoint[] }
+  const point = fields.startPoint ?? fields.position ?? fields.center ?? fields.middleOfText ?? fields.anchorPoint ?? fields.vertices?.[0]
+  if (point) return point
+  const groups = (entity as RawGroupEntity).groups
+  const x = groups?.find(([code]) => code === 10)?.[1]
+  const y = groups?.find(([code]) => code === 20)?.[1]
+  return typeof x === 'number' && typeof y === 'number' ? { x, y, z: 0 } : undefined
+}
