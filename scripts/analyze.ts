@@ -1,9 +1,9 @@
-// Command-line analysis of one SVG cut pattern: `npm run analyze -- FILE.svg [--json] [options]`.
+// Command-line analysis of one SVG or DXF cut pattern: `npm run analyze -- FILE.svg|FILE.dxf [--json] [options]`.
 import { readFileSync } from 'node:fs'
 import { parseArgs } from 'node:util'
 import { migrateLatest, openDatabase } from '../db/index'
 import { analysisParamsFor } from '../server/services/analysis-profile'
-import { AnalysisInputError, type AnalysisParams, type AnalysisResult, analyzeSvg, DEFAULT_ANALYSIS_PARAMS, withDefaults } from '../server/analysis/index'
+import { AnalysisInputError, type AnalysisParams, type AnalysisResult, analyzeCutFile, DEFAULT_ANALYSIS_PARAMS, withDefaults } from '../server/analysis/index'
 
 const NUMBER_OPTIONS = {
   speed: 'cutSpeedMmPerMin',
@@ -18,9 +18,9 @@ const NUMBER_OPTIONS = {
   dpi: 'dpi',
 } as const satisfies Record<string, keyof AnalysisParams>
 
-const HELP = `Usage: npm run analyze -- FILE.svg [--json] [options]
+const HELP = `Usage: npm run analyze -- FILE.svg|FILE.dxf [--json] [options]
 
-Measures an SVG cut pattern and estimates machine time, price and sheet fit.
+Measures an SVG or ASCII DXF cut pattern (the content, not the name, tells which) and estimates machine time, price and sheet fit.
 With --json, prints exactly the result JSON on stdout.
 
 Options (each overrides the default profile shown in brackets):
@@ -65,7 +65,7 @@ async function main(argv: string[]): Promise<number> {
   const base = values.cutter !== undefined ? await catalogProfile(Number(values.cutter), Number(values.material)) : withDefaults()
   const params = { ...base, ...overridesFrom(values as Record<string, string | undefined>) }
   try {
-    const result = analyzeSvg(readFileSync(positionals[0], 'utf8'), params)
+    const result = analyzeCutFile(readFileSync(positionals[0], 'utf8'), params)
     process.stdout.write(values.json ? `${JSON.stringify(result)}\n` : readableReport(result))
     return 0
   } catch (error) {

@@ -1,10 +1,14 @@
 import { getRequestHeader, readMultipartFormData, type H3Event } from 'h3'
 import { MAX_CUT_FILE_BYTES } from '#shared/schemas/analysis'
+import { type CutFileFormat, detectCutFileFormat } from '../analysis/dxf/format'
 import { DomainError, InvalidInput, PayloadTooLarge, UnsupportedMediaType } from './errors'
 
 export interface CutFileUpload {
   filename: string
+  /** The file's text, SVG or DXF as `format` says. */
   svgText: string
+  /** Decided by the content, not the file name. */
+  format: CutFileFormat
   sizeBytes: number
   /** The text fields sent beside the file. */
   fields: Record<string, string>
@@ -32,11 +36,13 @@ export async function readCutFileUpload(event: H3Event): Promise<CutFileUpload> 
   try {
     svgText = new TextDecoder('utf-8', { fatal: true }).decode(file.data)
   } catch {
-    throw new UnsupportedMediaType('This file is not an SVG drawing (it is not text). Export your pattern as SVG and upload that.')
+    throw new UnsupportedMediaType('This file is not an SVG or DXF drawing (it is not text; binary DXF is not read). Export your pattern as SVG or ASCII DXF and upload that.')
   }
-  assertNoActiveContent(svgText)
+  const format = detectCutFileFormat(svgText)
+  // A DXF never needs scripts either; it is checked too, as its text may be shown or served later like an SVG's.
+  assertNoActiveContent(svgText, format)
   const fields = Object.fromEntries(parts.filter((p) => p.filename === undefined && p.name).map((p) => [p.name!, p.data.toString('utf8')]))
-  return { filename: file.filename ?? 'upload.svg', svgText, sizeBytes: file.data.length, fields }
+  return { filename: file.filename ?? `upload.${format}`, svgText, format, sizeBytes: file.data.length, fields }
 }
 
 // Scripts, event handlers, javascript: links and embedded HTML have no place in a cut file; refusing
@@ -48,9 +54,9 @@ const ACTIVE_CONTENT: [RegExp, string][] = [
   [/(?:href|src)\s*=\s*["']?\s*(?:javascript|data:text\/html)/i, 'a script link'],
 ]
 
-export function assertNoActiveContent(svgText: string): void {
+export function assertNoActiveContent(svgText: string, format: CutFileFormat): void {
   const found = ACTIVE_CONTENT.filter(([pattern]) => pattern.test(svgText)).map(([, what]) => what)
   if (found.length > 0) {
-    throw new DomainError(`This file contains ${found.join(' and ')}, which a cut file never needs. Export the pattern again as a plain SVG.`, 422, { kind: 'activeContent' })
+    throw new DomainError(`This file contains ${found.join(' and ')}, which a cut file never needs. Export the pattern again as a plain ${format === 'dxf' ? 'DXF' : 'SVG'}.`, 422, { kind: 'activeContent' })
   }
 }
