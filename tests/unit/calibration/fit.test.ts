@@ -25,13 +25,13 @@ function normalEquationsFit(samples: readonly TimeSample[], weightOf: (sample: T
   for (const sample of samples) {
     const row: Vector3 = [sample.cutS, sample.pierceS, sample.travelS]
     const weight = weightOf(sample)
-    for (let i = 0; i < 3; i++) {
-      right[i] += weight * row[i] * (sample.actualS - sample.setupS)
-      for (let j = 0; j < 3; j++) normal[i][j] += weight * row[i] * row[j]
-    }
+    row.forEach((rowValue, i) => {
+      right[i]! += weight * rowValue * (sample.actualS - sample.setupS)
+      row.forEach((columnValue, j) => (normal[i]![j]! += weight * rowValue * columnValue))
+    })
   }
   const whole = determinant3(normal)
-  const solved = [0, 1, 2].map((column) => determinant3(normal.map((row, i) => row.map((value, j) => (j === column ? right[i] : value))) as [Vector3, Vector3, Vector3]) / whole)
+  const solved = [0, 1, 2].map((column) => determinant3(normal.map((row, i) => row.map((value, j) => (j === column ? right[i]! : value))) as [Vector3, Vector3, Vector3]) / whole)
   return { cut: solved[0]!, pierce: solved[1]!, travel: solved[2]! }
 }
 
@@ -84,7 +84,7 @@ describe('fitTimeCorrection', () => {
       const relativeResidual = (job.actualS - applyCorrection(job, fit.coefficients)) / motionS
       const psi = Math.max(-huberTuning, Math.min(huberTuning, relativeResidual / fit.relativeResidualScale))
       const shares = [job.cutS / motionS, job.pierceS / motionS, job.travelS / motionS]
-      shares.forEach((share, index) => (sums[index] += psi * share))
+      shares.forEach((share, index) => (sums[index]! += psi * share))
     }
     for (const sum of sums) expect(Math.abs(sum)).toBeLessThan(1e-6)
   })
