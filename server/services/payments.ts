@@ -111,7 +111,7 @@ export async function startCheckout(db: Knex, bookingId: number): Promise<{ url:
     await releaseUnpaidBooking(db, booking.id, 'Payment could not be started')
     throw new PaymentServiceError(`The payment service did not answer, so the slot was released. Please try again in a minute. (${(error as Error).message})`)
   }
-  await db('bookings').where({ id: booking.id }).update({ checkout_session_id: session.id, estimate_minor: estimateMinor, authorised_minor: authorisedMinor, currency: cutter.currency, updated_at: nowIso() })
+  await db('bookings').where({ id: booking.id }).update({ checkout_session_id: session.id, checkout_url: session.url, estimate_minor: estimateMinor, authorised_minor: authorisedMinor, currency: cutter.currency, updated_at: nowIso() })
   return { url: session.url!, authorisedMinor, estimateMinor }
 }
 
@@ -277,6 +277,8 @@ export async function handleStripeEvent(db: Knex, event: Stripe.Event): Promise<
 
 export interface PaymentView {
   bookingId: number
+  /** While the booking waits for payment: where to pay. */
+  payUrl: string | null
   jobTitle: string | null
   memberName: string | null
   start: string
@@ -289,7 +291,7 @@ export interface PaymentView {
 }
 
 export async function listPayments(db: Knex, filter: { memberId?: number; from?: string; to?: string; state?: PaymentState }): Promise<PaymentView[]> {
-  const query = db('bookings as b').leftJoin('jobs as j', 'j.id', 'b.job_id').leftJoin('users as u', 'u.id', 'b.member_id').whereNotNull('b.checkout_session_id').orderBy('b.starts_at', 'desc').select('b.id', 'b.starts_at', 'b.currency', 'j.title', 'u.name')
+  const query = db('bookings as b').leftJoin('jobs as j', 'j.id', 'b.job_id').leftJoin('users as u', 'u.id', 'b.member_id').whereNotNull('b.checkout_session_id').orderBy('b.starts_at', 'desc').select('b.id', 'b.starts_at', 'b.currency', 'b.status', 'b.checkout_url', 'b.hold_expires_at', 'j.title', 'u.name')
   if (filter.memberId) query.where('b.member_id', filter.memberId)
   if (filter.from) query.where('b.starts_at', '>=', filter.from)
   if (filter.to) query.where('b.starts_at', '<', filter.to)
@@ -298,8 +300,10 @@ export async function listPayments(db: Knex, filter: { memberId?: number; from?:
   return bookings
     .map((b) => {
       const rows = ledger.filter((r) => r.booking_id === b.id)
+      const waiting = b.status === 'held' && b.hold_expires_at > nowIso()
       return {
         bookingId: b.id,
+        payUrl: waiting ? b.checkout_url : null,
         jobTitle: b.title,
         memberName: b.name,
         start: b.starts_at,
