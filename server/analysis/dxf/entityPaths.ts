@@ -11,10 +11,11 @@ export type EntityPath = { pathData: string; caveat?: string } | { problem: stri
 /**
  * Path data for the entity types that draw lines, in the entity's
  * coordinates (drawing units, Y up); undefined for other types.
- * `toleranceUnits` is the chord tolerance in those units, for splines.
+ * `toleranceUnits` is the chord tolerance in those units, for splines;
+ * `mirrorX` writes x as −x (see PathDataWriter).
  */
-export function entityPathData(entity: IEntity, toleranceUnits: number): EntityPath {
-  const path = new PathDataWriter()
+export function entityPathData(entity: IEntity, toleranceUnits: number, mirrorX: boolean): EntityPath {
+  const path = new PathDataWriter(mirrorX)
   switch (entity.type) {
     case 'LINE': {
       const [start, end] = (entity as ILineEntity).vertices

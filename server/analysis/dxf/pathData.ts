@@ -12,24 +12,29 @@ const LARGEST_ARC_PIECE_RAD = Math.PI / 2
 const SMALLEST_BULGE = 2e-9
 
 /**
- * Writes SVG path data for DXF geometry in the entity's coordinates. The Y
- * flip into the engine's frame is left to the element's matrix, so angles
- * here are DXF's: counter-clockwise is positive, which is SVG's sweep flag 1
- * in this Y-up frame (svgpath swaps the flag when the matrix mirrors).
+ * Writes SVG path data for DXF geometry in the entity's coordinates, where
+ * angles are DXF's: counter-clockwise is positive, which is SVG's sweep flag
+ * 1 in this Y-up frame. With `mirrorX` it writes x as −x (and arcs to match),
+ * for a matrix that mirrors back: the reader keeps every element's matrix
+ * orientation-preserving, because after a mirroring matrix svgpath 2.6 writes
+ * arc flags as the strings "0"/"1", which its own a2c (and so the flattener)
+ * compares as numbers.
  */
 export class PathDataWriter {
   private readonly parts: string[] = []
   private x = 0
   private y = 0
 
+  constructor(private readonly mirrorX: boolean) {}
+
   moveTo(x: number, y: number): void {
-    this.parts.push(`M${x} ${y}`)
+    this.parts.push(`M${this.written(x)} ${y}`)
     this.x = x
     this.y = y
   }
 
   lineTo(x: number, y: number): void {
-    this.parts.push(`L${x} ${y}`)
+    this.parts.push(`L${this.written(x)} ${y}`)
     this.x = x
     this.y = y
   }
@@ -57,12 +62,13 @@ export class PathDataWriter {
     if (!continuing) this.moveTo(start.x, start.y)
     const radiusX = Math.hypot(major.x, major.y)
     const radiusY = radiusX * axisRatio
-    const rotationDeg = (Math.atan2(major.y, major.x) * 180) / Math.PI
+    const rotationDeg = (Math.atan2(major.y, this.written(major.x)) * 180) / Math.PI
     const pieces = Math.max(1, Math.ceil(Math.abs(sweepRad) / LARGEST_ARC_PIECE_RAD - 1e-9))
-    const sweepFlag = sweepRad > 0 ? 1 : 0
+    // A mirror turns counter-clockwise into clockwise.
+    const sweepFlag = sweepRad > 0 !== this.mirrorX ? 1 : 0
     for (let piece = 1; piece <= pieces; piece++) {
       const end = piece === pieces && exactEnd ? exactEnd : pointAt(startRad + (sweepRad * piece) / pieces)
-      this.parts.push(`A${radiusX} ${radiusY} ${rotationDeg} 0 ${sweepFlag} ${end.x} ${end.y}`)
+      this.parts.push(`A${radiusX} ${radiusY} ${rotationDeg} 0 ${sweepFlag} ${this.written(end.x)} ${end.y}`)
       this.x = end.x
       this.y = end.y
     }
@@ -87,6 +93,10 @@ export class PathDataWriter {
     const radius = Math.hypot(this.x - centre.x, this.y - centre.y)
     const startRad = Math.atan2(this.y - centre.y, this.x - centre.x)
     this.ellipticalArc(centre, { x: radius, y: 0 }, 1, startRad, 4 * Math.atan(bulge), true, to)
+  }
+
+  private written(x: number): number {
+    return this.mirrorX ? -x : x
   }
 
   get isEmpty(): boolean {

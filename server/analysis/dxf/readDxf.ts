@@ -92,7 +92,9 @@ export function readDxfDocument(dxf: IDxf, params: AnalysisParams): ReadDrawing 
       reportNotCut(notCutKind.code, notCutKind.message, ...at(firstPointOf(entity)))
       continue
     }
-    const drawn = entityPathData(entity, params.chordToleranceMm / linearScale(matrix))
+    // A mirroring matrix (DXF's Y flip, a mirrored block or extrusion) is undone in the path data: see PathDataWriter.
+    const mirrored = matrix[0] * matrix[3] - matrix[1] * matrix[2] < 0
+    const drawn = entityPathData(entity, params.chordToleranceMm / linearScale(matrix), mirrored)
     if (drawn === undefined) {
       reportNotCut('dxf-entity-not-read', `DXF ${entity.type.slice(0, 20)} entities are not read, so not cut. Explode them into lines, arcs or polylines in your CAD program.`, ...at(firstPointOf(entity)))
       continue
@@ -105,7 +107,7 @@ export function readDxfDocument(dxf: IDxf, params: AnalysisParams): ReadDrawing 
     const operation = mapper.operationFor(layerName, colour)
     if (operation === undefined) reportUnmapped(layerName, colour, ...at(firstPointOf(entity)))
     const effective = operation ?? params.unmappedStrokeOperation
-    if (effective !== 'ignore') elements.push({ pathData: drawn.pathData, matrix, operation: effective, filled: false, fillRule: 'nonzero' })
+    if (effective !== 'ignore') elements.push({ pathData: drawn.pathData, matrix: mirrored ? multiply(matrix, scaling(-1, 1)) : matrix, operation: effective, filled: false, fillRule: 'nonzero' })
   }
   for (const { finding, count } of notCut.values()) findings.push(count > 1 ? { ...finding, message: `${finding.message} (${count} such entities.)` } : finding)
   return { elements, findings }
