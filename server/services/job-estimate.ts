@@ -1,6 +1,8 @@
 import type { AnalysisResult } from '../analysis/index'
 import type { Cutter } from './catalog/cutters'
+import { applyCorrection } from './calibration/index'
 import { billedMinutes } from './money'
+import type { JobTimeCorrection } from './time-calibration'
 import { layoutSheets, type JobSheets } from './sheet-layout'
 
 export interface EstimatedFile {
@@ -23,6 +25,10 @@ export interface JobEstimate {
   totalPriceMinor: number
   currency: string
   layout: JobSheets
+  /** The learnt correction applied to the machine time, or null while too few jobs are finished. */
+  calibration: Pick<JobTimeCorrection, 'calibratedOn' | 'scope' | 'holdOut' | 'coefficients'> | null
+  /** The time model's own figure, before any correction. */
+  modelMachineS: number
 }
 
 // Spacing between parts on a sheet on top of the kerf (common practice, no source).
@@ -33,7 +39,13 @@ export const SHEET_MARGIN_MM = 5
  * The job's totals: machine time summed over copies plus one setup per job; cutting time rounded up to the
  * cutter's billing increment, plus whole stock sheets from the layout. Money in integer minor units.
  */
-export function estimateJob(files: EstimatedFile[], cutter: Pick<Cutter, 'setupMinutes' | 'billingIncrementMinutes' | 'pricePerMinuteMinor' | 'currency'>, sheet: { widthMm: number; heightMm: number; priceMinor: number }, kerfMm: number): JobEstimate {
+export function estimateJob(
+  files: EstimatedFile[],
+  cutter: Pick<Cutter, 'setupMinutes' | 'billingIncrementMinutes' | 'pricePerMinuteMinor' | 'currency'>,
+  sheet: { widthMm: number; heightMm: number; priceMinor: number },
+  kerfMm: number,
+  correction: JobTimeCorrection | null = null,
+): JobEstimate {
   const setupS = cutter.setupMinutes * 60
   let machineS = files.length > 0 ? setupS : 0
   let cutLengthMm = 0
@@ -48,6 +60,8 @@ export function estimateJob(files: EstimatedFile[], cutter: Pick<Cutter, 'setupM
     cutLengthMm += file.analysis.cut.lengthMm * file.quantity
     pierces += file.analysis.cut.pierces * file.quantity
   }
+  const modelMachineS = machineS
+  if (correction && files.length > 0) machineS = applyCorrection(components, correction.coefficients)
   // Cutting time is billed in the cutter's increments; the setup is charged once, as it is.
   const billableMinutes = files.length > 0 ? billedMinutes((machineS - setupS) / 60, cutter.billingIncrementMinutes) + cutter.setupMinutes : 0
   const layout = layoutSheets(
@@ -60,6 +74,8 @@ export function estimateJob(files: EstimatedFile[], cutter: Pick<Cutter, 'setupM
   const materialPriceMinor = layout.sheets.length * sheet.priceMinor
   return {
     components,
+    modelMachineS,
+    calibration: correction ? { calibratedOn: correction.calibratedOn, scope: correction.scope, holdOut: correction.holdOut, coefficients: correction.coefficients } : null,
     cutLengthMm,
     pierces,
     machineS,

@@ -10,6 +10,7 @@ import { getCutter } from './catalog/cutters'
 import { getMaterial } from './catalog/materials'
 import { findProcessSetting } from './catalog/process-settings'
 import { estimateJob, type JobEstimate } from './job-estimate'
+import { timeCorrectionFor } from './time-calibration'
 import { availableActions, transitionJob, type JobAction, type TransitionRecord } from './job-states'
 
 export interface JobRow {
@@ -182,6 +183,7 @@ export async function jobEstimate(db: Knex, job: JobRow, files: JobFileView[]): 
     cutter,
     sheet,
     setting?.kerfMm ?? 0,
+    await timeCorrectionFor(db, job.cutter_id, material.family),
   )
 }
 
