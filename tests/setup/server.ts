@@ -19,6 +19,8 @@ declare module 'vitest' {
     databasePath: string
     /** The app server's process id, for tests that read its memory from /proc. */
     serverPid: number
+    /** The app server's process id, for tests that read its memory from /proc. */
+    serverPid: number
     stripeFakeUrl: string
     stripeWebhookSecret: string
   }
@@ -93,6 +95,7 @@ export default async function setup(project: TestProject) {
   project.provide('baseUrl', baseUrl)
   project.provide('outboxUrl', `http://127.0.0.1:${sink.httpPort}`)
   project.provide('databasePath', databasePath)
+  project.provide('serverPid', server.pid!)
   project.provide('serverPid', server.pid!)
   project.provide('stripeFakeUrl', stripeFake.url)
   project.provide('stripeWebhookSecret', webhookSecret)
