@@ -5,16 +5,29 @@ import type { CheckGeometry } from './index'
 import { oncePerGeometry } from './memo'
 
 /**
- * The straight segments of all cut contours in one flatbush index, with what
- * the checks need to tell a bridge from a corner: the contour of each
- * segment, distance along the contour and which side of a closed contour
- * the material is on. Segment k runs from point `firstPoint[k]` to the next.
+ * The straight segments of all cut contours, with what the checks need to
+ * tell a bridge from a corner: the contour of each segment, distance along
+ * the contour and which side of a closed contour the material is on.
+ * Segment k runs from point `firstPoint[k]` to the next.
+ *
+ * Consecutive segments of one contour are grouped into chunks (at most
+ * `SEGMENTS_PER_CHUNK`, box side at most `CHUNK_SIDE_MM`) and the chunk boxes
+ * go into one flatbush index: a search per chunk instead of per segment, and
+ * the segments of matched chunks are then compared in a plain loop over their
+ * boxes, in segment order.
  */
 export class CutSegments {
   readonly contours: PolylineSet
   readonly count: number
   readonly firstPoint: Uint32Array
   readonly contourOf: Uint32Array
+  /** Per segment: [minX, minY, maxX, maxY]. */
+  readonly box: Float64Array
+  /** Chunk c holds segments chunkStart[c] … chunkStart[c + 1] − 1. */
+  readonly chunkStart: Uint32Array
+  readonly chunkCount: number
+  /** Per chunk: [minX, minY, maxX, maxY] of its segments. */
+  readonly chunkBox: Float64Array
   /** Per point: distance from its contour's first point along the flattened chords. */
   readonly alongMm: Float64Array
   /**
@@ -22,7 +35,7 @@ export class CutSegments {
    * −1 when it lies on the other side, 0 for open cuts (material on both sides).
    */
   readonly materialSide: Int8Array
-  private readonly index: Flatbush | null
+  private readonly chunkIndex: Flatbush | null
 
   constructor(geometry: CheckGeometry) {
     const { contours } = geometry
@@ -31,46 +44,100 @@ export class CutSegments {
     this.count = cutIds.reduce((sum, id) => sum + contours.pointsOf(id) - 1, 0)
     this.firstPoint = new Uint32Array(this.count)
     this.contourOf = new Uint32Array(this.count)
+    this.box = new Float64Array(4 * this.count)
     this.alongMm = new Float64Array(contours.pointCount)
-    const { xy } = contours
+    const chunkStart = new Uint32Array(this.count + 1)
+    const chunkBoxes: number[] = []
+    let chunkCount = 0
+    const { xy, start } = contours
     let segment = 0
     for (const id of cutIds) {
-      for (let point = contours.start[id]; point < contours.start[id + 1] - 1; point++, segment++) {
+      let chunkMinX = Infinity
+      let chunkMinY = Infinity
+      let chunkMaxX = -Infinity
+      let chunkMaxY = -Infinity
+      for (let point = start[id]; point < start[id + 1] - 1; point++, segment++) {
         this.firstPoint[segment] = point
         this.contourOf[segment] = id
+        const minX = Math.min(xy[2 * point], xy[2 * point + 2])
+        const minY = Math.min(xy[2 * point + 1], xy[2 * point + 3])
+        const maxX = Math.max(xy[2 * point], xy[2 * point + 2])
+        const maxY = Math.max(xy[2 * point + 1], xy[2 * point + 3])
+        this.box[4 * segment] = minX
+        this.box[4 * segment + 1] = minY
+        this.box[4 * segment + 2] = maxX
+        this.box[4 * segment + 3] = maxY
         this.alongMm[point + 1] = this.alongMm[point] + Math.hypot(xy[2 * point + 2] - xy[2 * point], xy[2 * point + 3] - xy[2 * point + 1])
+        const startsChunk =
+          point === start[id] ||
+          segment - chunkStart[chunkCount - 1] >= SEGMENTS_PER_CHUNK ||
+          Math.max(Math.max(chunkMaxX, maxX) - Math.min(chunkMinX, minX), Math.max(chunkMaxY, maxY) - Math.min(chunkMinY, minY)) > CHUNK_SIDE_MM
+        if (startsChunk) {
+          if (point !== start[id]) chunkBoxes.push(chunkMinX, chunkMinY, chunkMaxX, chunkMaxY)
+          chunkStart[chunkCount++] = segment
+          chunkMinX = minX
+          chunkMinY = minY
+          chunkMaxX = maxX
+          chunkMaxY = maxY
+        } else {
+          chunkMinX = Math.min(chunkMinX, minX)
+          chunkMinY = Math.min(chunkMinY, minY)
+          chunkMaxX = Math.max(chunkMaxX, maxX)
+          chunkMaxY = Math.max(chunkMaxY, maxY)
+        }
       }
+      if (start[id + 1] - start[id] > 1) chunkBoxes.push(chunkMinX, chunkMinY, chunkMaxX, chunkMaxY)
     }
+    chunkStart[chunkCount] = this.count
+    this.chunkStart = chunkStart.subarray(0, chunkCount + 1)
+    this.chunkCount = chunkCount
+    this.chunkBox = Float64Array.from(chunkBoxes)
     this.materialSide = materialSides(geometry, cutIds)
-    this.index = this.count > 0 ? new Flatbush(this.count) : null
-    if (this.index === null) return
-    for (let k = 0; k < this.count; k++) {
-      const point = this.firstPoint[k]
-      this.index.add(Math.min(xy[2 * point], xy[2 * point + 2]), Math.min(xy[2 * point + 1], xy[2 * point + 3]), Math.max(xy[2 * point], xy[2 * point + 2]), Math.max(xy[2 * point + 1], xy[2 * point + 3]))
-    }
-    this.index.finish()
+    this.chunkIndex = chunkCount > 0 ? new Flatbush(chunkCount) : null
+    if (this.chunkIndex === null) return
+    const boxes = this.chunkBox
+    for (let chunk = 0; chunk < chunkCount; chunk++) this.chunkIndex.add(boxes[4 * chunk], boxes[4 * chunk + 1], boxes[4 * chunk + 2], boxes[4 * chunk + 3])
+    this.chunkIndex.finish()
   }
 
-  /** Calls `visit(a, b)` once for every pair a < b of segments whose boxes come within `reachMm` of each other. */
-  forEachPairWithin(reachMm: number, visit: (a: number, b: number) => void): void {
-    if (this.index === null) return
-    const { xy } = this.contours
-    let a = 0
-    // One filter callback for all searches: it visits matches without building result arrays.
-    const visitLater = (b: number) => {
-      if (b > a) visit(a, b)
+  /**
+   * For every chunk, the chunks at or after it whose boxes come within
+   * `reachMm` of its box, in ascending order: chunk c's are
+   * `chunks[from[c]] … chunks[from[c + 1] − 1]`. Every pair of segments whose
+   * boxes come within the reach lies in such a pair of chunks.
+   */
+  laterChunksWithin(reachMm: number): { from: Uint32Array; chunks: Uint32Array } {
+    const from = new Uint32Array(this.chunkCount + 1)
+    let chunks = new Uint32Array(Math.max(16, 8 * this.chunkCount))
+    let filled = 0
+    let chunk = 0
+    const keepLater = (other: number) => {
+      if (other < chunk) return false
+      if (filled === chunks.length) {
+        const grown = new Uint32Array(2 * chunks.length)
+        grown.set(chunks)
+        chunks = grown
+      }
+      chunks[filled++] = other
       return false
     }
-    for (; a < this.count; a++) {
-      const point = 2 * this.firstPoint[a]
-      this.index.search(Math.min(xy[point], xy[point + 2]) - reachMm, Math.min(xy[point + 1], xy[point + 3]) - reachMm, Math.max(xy[point], xy[point + 2]) + reachMm, Math.max(xy[point + 1], xy[point + 3]) + reachMm, visitLater)
+    const boxes = this.chunkBox
+    for (; chunk < this.chunkCount; chunk++) {
+      from[chunk] = filled
+      this.chunkIndex!.search(boxes[4 * chunk] - reachMm, boxes[4 * chunk + 1] - reachMm, boxes[4 * chunk + 2] + reachMm, boxes[4 * chunk + 3] + reachMm, keepLater)
+      chunks.subarray(from[chunk], filled).sort()
     }
+    from[this.chunkCount] = filled
+    return { from, chunks: chunks.subarray(0, filled) }
   }
 
   /** Calls `visit` for every segment whose box meets [minX, minY, maxX, maxY]. */
   forEachNear(minX: number, minY: number, maxX: number, maxY: number, visit: (segment: number) => void): void {
-    this.index?.search(minX, minY, maxX, maxY, (segment) => {
-      visit(segment)
+    const { box, chunkStart } = this
+    this.chunkIndex?.search(minX, minY, maxX, maxY, (chunk) => {
+      for (let segment = chunkStart[chunk]; segment < chunkStart[chunk + 1]; segment++) {
+        if (box[4 * segment] <= maxX && box[4 * segment + 1] <= maxY && box[4 * segment + 2] >= minX && box[4 * segment + 3] >= minY) visit(segment)
+      }
       return false
     })
   }
@@ -160,12 +227,18 @@ export class CutSegments {
     const { xy } = this.contours
     const alongX = xy[point + 2] - xy[point]
     const alongY = xy[point + 3] - xy[point + 1]
-    return side * (alongX * dy - alongY * dx) >= -ALONG_THE_CUT_RELATIVE * Math.hypot(alongX, alongY) * Math.hypot(dx, dy)
+    const sideCross = side * (alongX * dy - alongY * dx)
+    // The slack is never positive, so a non-negative cross product passes without the two lengths.
+    return sideCross >= 0 || sideCross >= -ALONG_THE_CUT_RELATIVE * Math.hypot(alongX, alongY) * Math.hypot(dx, dy)
   }
 }
 
 // An offset within this angle (in radians, as a sine) of the cut's own direction counts as along it, not away from it.
 const ALONG_THE_CUT_RELATIVE = 1e-9
+
+// Chunks small enough that comparing all their segments with a neighbouring chunk's wastes little, large enough that most contours of a pattern are one chunk.
+const SEGMENTS_PER_CHUNK = 16
+const CHUNK_SIDE_MM = 4
 
 /**
  * Which side of each closed cut contour is material. Closed cuts nest: the

@@ -3,8 +3,8 @@ import type { Finding } from '../result'
 import { cutSegmentsOf } from './cutSegments'
 import { formatMm } from './format'
 import type { CheckGeometry } from './index'
-import { type NearCut, nearCutsOf } from './nearCuts'
-import { contourPairKey } from './pairScan'
+import { nearCutsOf } from './nearCuts'
+import { contourPairKey, NEAR_KIND } from './pairScan'
 
 /**
  * Separate cuts that cross or meet, or that come within the kerf of each
@@ -15,24 +15,27 @@ import { contourPairKey } from './pairScan'
  */
 export function checkMergedCuts(geometry: CheckGeometry, params: AnalysisParams): Finding[] {
   const segments = cutSegmentsOf(geometry)
-  const closestOfPair = new Map<number, NearCut>()
-  for (const near of nearCutsOf(geometry, params)) {
-    if (near.sameContour || !(near.kind === 'touch' || (near.kind === 'scrap' && near.distanceMm <= params.kerfMm))) continue
-    const key = contourPairKey(segments.contours, segments.contourOf[near.first], segments.contourOf[near.second])
+  const nearCuts = nearCutsOf(geometry, params)
+  const { kind, distanceMm } = nearCuts
+  const { touch, scrap } = NEAR_KIND
+  const closestOfPair = new Map<number, number>()
+  for (let slot = 0; slot < nearCuts.count; slot++) {
+    if (nearCuts.sameContour[slot] === 1 || !(kind[slot] === touch || (kind[slot] === scrap && distanceMm[slot] <= params.kerfMm))) continue
+    const key = contourPairKey(segments.contours, segments.contourOf[nearCuts.first[slot]], segments.contourOf[nearCuts.second[slot]])
     const best = closestOfPair.get(key)
-    if (best === undefined || near.distanceMm < best.distanceMm) closestOfPair.set(key, near)
+    if (best === undefined || distanceMm[slot] < distanceMm[best]) closestOfPair.set(key, slot)
   }
-  return [...closestOfPair.values()].map((near) => ({
+  return [...closestOfPair.values()].map((slot) => ({
     code: 'merged-cuts',
     severity: 'error',
     message:
-      near.kind === 'touch'
+      kind[slot] === NEAR_KIND.touch
         ? 'Two separate cuts cross or meet here, so the piece between them may drop out. Join them into one outline or move them apart.'
-        : `Two separate cuts come ${formatMm(near.distanceMm)} apart, within the kerf (${formatMm(params.kerfMm)}): after cutting they run into each other.`,
-    x: (near.px + near.qx) / 2,
-    y: (near.py + near.qy) / 2,
-    valueMm: near.distanceMm - params.kerfMm,
+        : `Two separate cuts come ${formatMm(distanceMm[slot])} apart, within the kerf (${formatMm(params.kerfMm)}): after cutting they run into each other.`,
+    x: nearCuts.middleX(slot),
+    y: nearCuts.middleY(slot),
+    valueMm: distanceMm[slot] - params.kerfMm,
     limitMm: 0,
-    contours: [segments.contourOf[near.first], segments.contourOf[near.second]],
+    contours: [segments.contourOf[nearCuts.first[slot]], segments.contourOf[nearCuts.second[slot]]],
   }))
 }

@@ -3,7 +3,8 @@ import type { Finding } from '../result'
 import { type CutSegments, cutSegmentsOf } from './cutSegments'
 import { formatMm } from './format'
 import type { CheckGeometry } from './index'
-import { isScreened, type NearCut, nearCutsOf } from './nearCuts'
+import { isScreened, nearCutsOf } from './nearCuts'
+import { NEAR_KIND, type NearCutList } from './pairScan'
 
 /**
  * Webs of material narrower than the minimum bridge: the centre-line
@@ -14,71 +15,89 @@ import { isScreened, type NearCut, nearCutsOf } from './nearCuts'
  */
 export function checkNarrowBridges(geometry: CheckGeometry, params: AnalysisParams): Finding[] {
   const segments = cutSegmentsOf(geometry)
-  const narrow = nearCutsOf(geometry, params).filter((near) => near.kind === 'web' && webMm(near, params) < params.minBridgeMm)
+  const nearCuts = nearCutsOf(geometry, params)
+  const web = NEAR_KIND.web
+  const narrow = nearCuts.filter((slot) => nearCuts.kind[slot] === web && nearCuts.distanceMm[slot] - params.kerfMm < params.minBridgeMm)
+  const { distanceMm } = narrow
   const siteOf = bridgeSites(segments, narrow)
-  const narrowestOfSite = new Map<number, number>()
-  narrow.forEach((near, slot) => {
-    const site = siteOf(slot)
-    const best = narrowestOfSite.get(site)
-    if (best === undefined || near.distanceMm < narrow[best].distanceMm) narrowestOfSite.set(site, slot)
-  })
+  // Sites in the order their first pair comes, each with its narrowest pair (the first of equally narrow ones).
+  const sites: number[] = []
+  const narrowestOfSite = new Int32Array(narrow.count).fill(-1)
+  for (let slot = 0; slot < narrow.count; slot++) {
+    const site = siteOf[slot]
+    const best = narrowestOfSite[site]
+    if (best < 0) sites.push(site)
+    if (best < 0 || distanceMm[slot] < distanceMm[best]) narrowestOfSite[site] = slot
+  }
   // Usually the narrowest pair of a site is unscreened; only sites where it is not need their other pairs, widest last.
-  const screenedSites = new Set([...narrowestOfSite].filter(([, slot]) => isScreened(segments, narrow[slot], params.chainToleranceMm)).map(([site]) => site))
+  const screenedSites = new Set(sites.filter((site) => isScreened(segments, narrow, narrowestOfSite[site], params.chainToleranceMm)))
   const othersOfScreened = new Map<number, number[]>()
-  narrow.forEach((_, slot) => {
-    const site = siteOf(slot)
-    if (!screenedSites.has(site)) return
+  for (let slot = 0; slot < narrow.count && screenedSites.size > 0; slot++) {
+    const site = siteOf[slot]
+    if (!screenedSites.has(site)) continue
     const others = othersOfScreened.get(site)
     if (others === undefined) othersOfScreened.set(site, [slot])
     else others.push(slot)
-  })
+  }
   const reported: number[] = []
-  for (const [site, slot] of narrowestOfSite) {
+  for (const site of sites) {
     if (!screenedSites.has(site)) {
-      reported.push(slot)
+      reported.push(narrowestOfSite[site])
       continue
     }
-    const unscreened = othersOfScreened.get(site)!.sort((a, b) => narrow[a].distanceMm - narrow[b].distanceMm).find((other) => !isScreened(segments, narrow[other], params.chainToleranceMm))
+    const unscreened = othersOfScreened.get(site)!.sort((a, b) => distanceMm[a] - distanceMm[b]).find((other) => !isScreened(segments, narrow, other, params.chainToleranceMm))
     if (unscreened !== undefined) reported.push(unscreened)
   }
-  return reported.sort((a, b) => narrow[a].distanceMm - narrow[b].distanceMm).map((slot) => bridgeFinding(narrow[slot], segments.contourOf, params))
+  return reported.sort((a, b) => distanceMm[a] - distanceMm[b]).map((slot) => bridgeFinding(narrow, slot, segments.contourOf, params))
 }
 
 /**
- * Union–find over the narrow pairs: returns the site (a representative slot)
- * of each slot. The pairs arrive sorted by their first segment (the pair scan
+ * Union–find over the narrow pairs: the site (a representative slot) of each
+ * slot. The pairs arrive sorted by first segment, then second (the pair scan
  * goes through segments in order), so the pairs of one first segment form a
- * short row found by offset, and a neighbouring pair is looked up in its row.
+ * short row found by offset, and a neighbouring pair is found in its row by
+ * bisection. Joining is symmetric, so each slot looks only for pairs that
+ * come after it; the earlier ones found it already.
  */
-function bridgeSites(segments: CutSegments, narrow: NearCut[]): (slot: number) => number {
+function bridgeSites(segments: CutSegments, narrow: NearCutList): Int32Array {
+  const { first: firstOf, second: secondOf } = narrow
   const rowStart = new Int32Array(segments.count + 1)
-  for (const near of narrow) rowStart[near.first + 1]++
+  for (let slot = 0; slot < narrow.count; slot++) rowStart[firstOf[slot] + 1]++
   for (let segment = 0; segment < segments.count; segment++) rowStart[segment + 1] += rowStart[segment]
-  const slotOfPair = (a: number, b: number) => {
+  const laterSlotOfPair = (slot: number, a: number, b: number) => {
     const first = Math.min(a, b)
     const second = Math.max(a, b)
-    for (let slot = rowStart[first]; slot < rowStart[first + 1]; slot++) if (narrow[slot].second === second) return slot
-    return -1
+    if (first < firstOf[slot] || (first === firstOf[slot] && second <= secondOf[slot])) return -1
+    let low = rowStart[first]
+    let high = rowStart[first + 1]
+    while (low < high) {
+      const middle = (low + high) >>> 1
+      if (secondOf[middle] < second) low = middle + 1
+      else high = middle
+    }
+    return low < rowStart[first + 1] && secondOf[low] === second ? low : -1
   }
-  const parent = Int32Array.from(narrow.keys())
+  const parent = new Int32Array(narrow.count)
+  for (let slot = 0; slot < narrow.count; slot++) parent[slot] = slot
   const find = (slot: number): number => {
     while (parent[slot] !== slot) slot = parent[slot] = parent[parent[slot]]
     return slot
   }
   const firstSides = new Int32Array(3)
   const secondSides = new Int32Array(3)
-  narrow.forEach((near, slot) => {
-    withNeighbours(segments, near.first, firstSides)
-    withNeighbours(segments, near.second, secondSides)
-    for (const first of firstSides) {
-      for (const second of secondSides) {
-        if (first < 0 || second < 0) continue
-        const other = slotOfPair(first, second)
+  for (let slot = 0; slot < narrow.count; slot++) {
+    withNeighbours(segments, firstOf[slot], firstSides)
+    withNeighbours(segments, secondOf[slot], secondSides)
+    for (let i = 0; i < 3; i++) {
+      for (let j = 0; j < 3; j++) {
+        if (firstSides[i] < 0 || secondSides[j] < 0) continue
+        const other = laterSlotOfPair(slot, firstSides[i], secondSides[j])
         if (other >= 0) parent[find(other)] = find(slot)
       }
     }
-  })
-  return find
+  }
+  for (let slot = 0; slot < narrow.count; slot++) parent[slot] = find(slot)
+  return parent
 }
 
 /** The segment and its neighbours along the contour into `out` (−1 where there is none). */
@@ -88,25 +107,23 @@ function withNeighbours(segments: CutSegments, segment: number, out: Int32Array)
   out[2] = segments.next(segment)
 }
 
-function webMm(near: NearCut, params: AnalysisParams): number {
-  return near.distanceMm - params.kerfMm
-}
-
-function bridgeFinding(near: NearCut, contourOf: Uint32Array, params: AnalysisParams): Finding {
-  const widthMm = webMm(near, params)
+function bridgeFinding(narrow: NearCutList, slot: number, contourOf: Uint32Array, params: AnalysisParams): Finding {
+  const distanceMm = narrow.distanceMm[slot]
+  const widthMm = distanceMm - params.kerfMm
   const burnsAway = widthMm <= 0
   const message = burnsAway
-    ? `The cuts here are ${formatMm(near.distanceMm)} apart, no more than the kerf (${formatMm(params.kerfMm)}): the bridge between them burns away and the piece comes loose.`
+    ? `The cuts here are ${formatMm(distanceMm)} apart, no more than the kerf (${formatMm(params.kerfMm)}): the bridge between them burns away and the piece comes loose.`
     : `The bridge between these cuts is ${formatMm(widthMm)} wide after the kerf; the minimum for this material and cutter is ${formatMm(params.minBridgeMm)}. It may tear or burn through.`
-  const contours = near.sameContour ? [contourOf[near.first]] : [contourOf[near.first], contourOf[near.second]]
+  const first = contourOf[narrow.first[slot]]
+  const second = contourOf[narrow.second[slot]]
   return {
     code: 'narrow-bridge',
     severity: burnsAway ? 'error' : 'warning',
     message,
-    x: (near.px + near.qx) / 2,
-    y: (near.py + near.qy) / 2,
+    x: narrow.middleX(slot),
+    y: narrow.middleY(slot),
     valueMm: widthMm,
     limitMm: params.minBridgeMm,
-    contours,
+    contours: narrow.sameContour[slot] === 1 ? [first] : [first, second],
   }
 }

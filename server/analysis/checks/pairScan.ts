@@ -1,6 +1,6 @@
 import type { AnalysisParams } from '../params'
 import type { PolylineSet } from '../polylines'
-import { type CutSegments, cutSegmentsOf } from './cutSegments'
+import { cutSegmentsOf } from './cutSegments'
 import type { CheckGeometry } from './index'
 import { oncePerGeometry } from './memo'
 import { closestPointsOfSegments, emptyClosestPoints, stretchWithin } from './segmentGeometry'
@@ -11,19 +11,83 @@ import { closestPointsOfSegments, emptyClosestPoints, stretchWithin } from './se
  * - `web`: the straight line between their closest points leaves both cuts into material, so it may measure a bridge (unless another cut screens it);
  * - `scrap`: that line runs through the piece that drops out (a slot's inside, the gap between two parts).
  */
-export type NearKind = 'touch' | 'web' | 'scrap'
+export const NEAR_KIND = { touch: 0, web: 1, scrap: 2 } as const
 
-export interface NearCut {
-  kind: NearKind
-  /** Segment ids (see CutSegments), first < second. */
-  first: number
-  second: number
-  sameContour: boolean
-  distanceMm: number
-  px: number
-  py: number
-  qx: number
-  qy: number
+/**
+ * Near pairs of cut segments in flat columns (one slot per pair, no object
+ * per pair): segment ids `first` < `second` (see CutSegments), their
+ * centre-line distance and closest points P (on first) and Q (on second).
+ * Slots are in order of first, then second.
+ */
+export class NearCutList {
+  count = 0
+  kind: Uint8Array
+  sameContour: Uint8Array
+  first: Uint32Array
+  second: Uint32Array
+  distanceMm: Float64Array
+  /** px, py, qx, qy per slot. */
+  ends: Float64Array
+
+  constructor(capacity = 1024) {
+    this.kind = new Uint8Array(capacity)
+    this.sameContour = new Uint8Array(capacity)
+    this.first = new Uint32Array(capacity)
+    this.second = new Uint32Array(capacity)
+    this.distanceMm = new Float64Array(capacity)
+    this.ends = new Float64Array(4 * capacity)
+  }
+
+  push(kind: number, first: number, second: number, sameContour: boolean, distanceMm: number, px: number, py: number, qx: number, qy: number): void {
+    if (this.count === this.kind.length) this.grow(2 * this.count)
+    const slot = this.count++
+    this.kind[slot] = kind
+    this.sameContour[slot] = sameContour ? 1 : 0
+    this.first[slot] = first
+    this.second[slot] = second
+    this.distanceMm[slot] = distanceMm
+    this.ends[4 * slot] = px
+    this.ends[4 * slot + 1] = py
+    this.ends[4 * slot + 2] = qx
+    this.ends[4 * slot + 3] = qy
+  }
+
+  /** The slots for which `keep` holds, in order, as a new list. */
+  filter(keep: (slot: number) => boolean): NearCutList {
+    const keptSlots = new Uint32Array(this.count)
+    let keptCount = 0
+    for (let slot = 0; slot < this.count; slot++) if (keep(slot)) keptSlots[keptCount++] = slot
+    const kept = new NearCutList(Math.max(1, keptCount))
+    for (let index = 0; index < keptCount; index++) {
+      const slot = keptSlots[index]
+      const ends = 4 * slot
+      kept.push(this.kind[slot], this.first[slot], this.second[slot], this.sameContour[slot] === 1, this.distanceMm[slot], this.ends[ends], this.ends[ends + 1], this.ends[ends + 2], this.ends[ends + 3])
+    }
+    return kept
+  }
+
+  /** Middle of the line between the closest points. */
+  middleX(slot: number): number {
+    return (this.ends[4 * slot] + this.ends[4 * slot + 2]) / 2
+  }
+
+  middleY(slot: number): number {
+    return (this.ends[4 * slot + 1] + this.ends[4 * slot + 3]) / 2
+  }
+
+  private grow(capacity: number): void {
+    this.kind = grownTo(this.kind, new Uint8Array(capacity))
+    this.sameContour = grownTo(this.sameContour, new Uint8Array(capacity))
+    this.first = grownTo(this.first, new Uint32Array(capacity))
+    this.second = grownTo(this.second, new Uint32Array(capacity))
+    this.distanceMm = grownTo(this.distanceMm, new Float64Array(capacity))
+    this.ends = grownTo(this.ends, new Float64Array(4 * capacity))
+  }
+}
+
+function grownTo<T extends Uint8Array | Uint32Array | Float64Array>(old: T, grown: T): T {
+  grown.set(old)
+  return grown
 }
 
 /** A stretch [from, to] (parameters) of a segment that runs along an earlier segment. */
@@ -35,7 +99,7 @@ export interface RepeatedStretch {
 
 export interface PairScan {
   /** Pairs within the bridge reach that do not repeat each other. */
-  nearCuts: NearCut[]
+  nearCuts: NearCutList
   /** Per segment: its stretches that repeat earlier segments. */
   repeatsOf: Map<number, RepeatedStretch[]>
 }
@@ -79,42 +143,94 @@ function scanPairs(geometry: CheckGeometry, params: AnalysisParams): PairScan {
   const scanMm = Math.max(reachMm, repeatMm)
   const touchMm = params.chainToleranceMm
   const { xy } = segments.contours
+  const { box, chunkStart, contourOf, firstPoint } = segments
   const closest = emptyClosestPoints()
-  const scan: PairScan = { nearCuts: [], repeatsOf: new Map() }
-  segments.forEachPairWithin(scanMm, (first, second) => {
-    const a = 2 * segments.firstPoint[first]
-    const c = 2 * segments.firstPoint[second]
-    // The index matched boxes within the reach on each axis; boxes farther apart than that diagonally cannot hold points within it.
-    const gapX = Math.max(0, Math.min(xy[c], xy[c + 2]) - Math.max(xy[a], xy[a + 2]), Math.min(xy[a], xy[a + 2]) - Math.max(xy[c], xy[c + 2]))
-    const gapY = Math.max(0, Math.min(xy[c + 1], xy[c + 3]) - Math.max(xy[a + 1], xy[a + 3]), Math.min(xy[a + 1], xy[a + 3]) - Math.max(xy[c + 1], xy[c + 3]))
+  // Patterns usually have one or two near pairs per segment; the list grows if there are more.
+  const scan: PairScan = { nearCuts: new NearCutList(Math.max(1024, 2 * segments.count)), repeatsOf: new Map() }
+  const nearCuts = scan.nearCuts
+
+  const visit = (first: number, second: number) => {
+    const a = 4 * first
+    const c = 4 * second
+    // Boxes within the reach on each axis can still be farther apart than that diagonally, and then hold no points within it.
+    const gapX = Math.max(0, box[c] - box[a + 2], box[a] - box[c + 2])
+    const gapY = Math.max(0, box[c + 1] - box[a + 3], box[a + 1] - box[c + 3])
     if (gapX * gapX + gapY * gapY >= scanMm * scanMm) return
-    const mayRepeat = Math.max(gapX, gapY) <= repeatMm
-    if (mayRepeat && addRepeat(segments, first, second, repeatMm, scan.repeatsOf)) return
-    if (segments.adjacent(first, second)) return
-    const sameContour = segments.contourOf[first] === segments.contourOf[second]
-    // Two stretches of one contour that are never far apart along it can only be a corner, or a crossing if their boxes touch.
-    if (sameContour && Math.max(gapX, gapY) > touchMm && segments.farthestAlongMm(first, second) <= 2 * reachMm) return
-    closestPointsOfSegments(xy[a], xy[a + 1], xy[a + 2], xy[a + 3], xy[c], xy[c + 1], xy[c + 2], xy[c + 3], closest)
+    const largerGap = Math.max(gapX, gapY)
+    if (largerGap <= repeatMm && addRepeat(xy, firstPoint, first, second, repeatMm, scan.repeatsOf)) return
+    const sameContour = contourOf[first] === contourOf[second]
+    if (sameContour) {
+      if (segments.adjacent(first, second)) return
+      // Two stretches of one contour that are never far apart along it can only be a corner, or a crossing if their boxes touch.
+      if (largerGap > touchMm && segments.farthestAlongMm(first, second) <= 2 * reachMm) return
+    }
+    const p = 2 * firstPoint[first]
+    const q = 2 * firstPoint[second]
+    closestPointsOfSegments(xy[p], xy[p + 1], xy[p + 2], xy[p + 3], xy[q], xy[q + 1], xy[q + 2], xy[q + 3], closest)
     const { distanceMm, px, py, qx, qy } = closest
     if (distanceMm >= reachMm) return
     const alongMm = sameContour ? segments.alongBetweenMm(first, closest.u, second, closest.v) : Infinity
-    let kind: NearKind
+    let kind: number
     if (distanceMm <= touchMm) {
       if (alongMm <= 2 * touchMm) return
-      kind = 'touch'
+      kind = NEAR_KIND.touch
     } else {
       if (alongMm <= distanceMm + 2 * reachMm) return
-      kind = segments.pointsIntoMaterial(first, closest.u, qx - px, qy - py) && segments.pointsIntoMaterial(second, closest.v, px - qx, py - qy) ? 'web' : 'scrap'
+      kind = segments.pointsIntoMaterial(first, closest.u, qx - px, qy - py) && segments.pointsIntoMaterial(second, closest.v, px - qx, py - qy) ? NEAR_KIND.web : NEAR_KIND.scrap
     }
-    scan.nearCuts.push({ kind, first, second, sameContour, distanceMm, px, py, qx, qy })
-  })
+    nearCuts.push(kind, first, second, sameContour, distanceMm, px, py, qx, qy)
+  }
+
+  /**
+   * Most nearby pairs are segments of one contour around a corner or along a
+   * curve; `visit` would drop them (no repeat possible, neighbours, or never
+   * far apart along the contour), so they are dropped here with the same tests
+   * before any call or distance.
+   */
+  const isCornerOfOneContour = (first: number, second: number) => {
+    const a = 4 * first
+    const c = 4 * second
+    const gapX = Math.max(0, box[c] - box[a + 2], box[a] - box[c + 2])
+    const gapY = Math.max(0, box[c + 1] - box[a + 3], box[a + 1] - box[c + 3])
+    // The repeat tolerance is at least the touch tolerance, so boxes farther apart than it can neither repeat nor touch.
+    return Math.max(gapX, gapY) > repeatMm && (segments.adjacent(first, second) || segments.farthestAlongMm(first, second) <= 2 * reachMm)
+  }
+
+  // Every later segment whose box comes within the reach of this one's, in segment order (the same boxes a search of each segment's box grown by the reach would match).
+  const { from, chunks } = segments.laterChunksWithin(scanMm)
+  for (let chunk = 0; chunk < segments.chunkCount; chunk++) {
+    for (let first = chunkStart[chunk]; first < chunkStart[chunk + 1]; first++) {
+      const minX = box[4 * first] - scanMm
+      const minY = box[4 * first + 1] - scanMm
+      const maxX = box[4 * first + 2] + scanMm
+      const maxY = box[4 * first + 3] + scanMm
+      const contour = contourOf[first]
+      for (let slot = from[chunk]; slot < from[chunk + 1]; slot++) {
+        const other = chunks[slot]
+        for (let second = Math.max(first + 1, chunkStart[other]); second < chunkStart[other + 1]; second++) {
+          const c = 4 * second
+          if (box[c] > maxX || box[c + 1] > maxY || box[c + 2] < minX || box[c + 3] < minY) continue
+          if (contourOf[second] === contour && isCornerOfOneContour(first, second)) continue
+          visit(first, second)
+        }
+      }
+    }
+  }
   return scan
 }
 
 /** Records the stretch of `later` that runs along `earlier` within the tolerance, if there is one. */
-function addRepeat(segments: CutSegments, earlier: number, later: number, toleranceMm: number, repeatsOf: Map<number, RepeatedStretch[]>): boolean {
-  const [ax, ay, bx, by] = segments.ends(earlier)
-  const [cx, cy, dx, dy] = segments.ends(later)
+function addRepeat(xy: Float64Array, firstPoint: Uint32Array, earlier: number, later: number, toleranceMm: number, repeatsOf: Map<number, RepeatedStretch[]>): boolean {
+  const p = 2 * firstPoint[earlier]
+  const q = 2 * firstPoint[later]
+  const ax = xy[p]
+  const ay = xy[p + 1]
+  const bx = xy[p + 2]
+  const by = xy[p + 3]
+  const cx = xy[q]
+  const cy = xy[q + 1]
+  const dx = xy[q + 2]
+  const dy = xy[q + 3]
   const earlierLength = Math.hypot(bx - ax, by - ay)
   const laterLength = Math.hypot(dx - cx, dy - cy)
   if (earlierLength === 0 || laterLength === 0) return false

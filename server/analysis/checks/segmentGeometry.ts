@@ -22,12 +22,11 @@ export function emptyClosestPoints(): ClosestPoints {
  * the four end-to-segment distances is exact.
  */
 export function closestPointsOfSegments(ax: number, ay: number, bx: number, by: number, cx: number, cy: number, dx: number, dy: number, out: ClosestPoints): ClosestPoints {
-  const crossing = crossingParameters(ax, ay, bx, by, cx, cy, dx, dy)
-  if (crossing !== null) {
-    const [u, v] = crossing
+  if (findCrossing(ax, ay, bx, by, cx, cy, dx, dy)) {
+    const u = crossing[0]
     const x = ax + u * (bx - ax)
     const y = ay + u * (by - ay)
-    return setClosest(out, 0, x, y, u, x, y, v)
+    return setClosest(out, 0, x, y, u, x, y, crossing[1])
   }
   out.distanceMm = Infinity
   considerEnd(ax, ay, cx, cy, dx, dy, false, 0, out)
@@ -48,11 +47,16 @@ function setClosest(out: ClosestPoints, distanceMm: number, px: number, py: numb
   return out
 }
 
+const CLEARLY_FARTHER = 1 + 1e-12
+
 /** The end (x, y) of one segment against the whole of the other segment (sx, sy)–(ex, ey), kept if nearer than the best so far. */
 function considerEnd(x: number, y: number, sx: number, sy: number, ex: number, ey: number, endIsOnSecond: boolean, endParameter: number, out: ClosestPoints): void {
   const t = projectionParameter(x, y, sx, sy, ex, ey)
   const footX = sx + t * (ex - sx)
   const footY = sy + t * (ey - sy)
+  // A square clearly above the best so far cannot give a shorter hypot (the two differ by a few ulps): skip the root.
+  const squared = (x - footX) ** 2 + (y - footY) ** 2
+  if (squared > out.distanceMm * out.distanceMm * CLEARLY_FARTHER) return
   const distance = Math.hypot(x - footX, y - footY)
   if (distance >= out.distanceMm) return
   if (endIsOnSecond) setClosest(out, distance, footX, footY, t, x, y, endParameter)
@@ -72,18 +76,28 @@ function projectionParameter(x: number, y: number, sx: number, sy: number, ex: n
  * are then found as distance 0 through their ends).
  */
 export function crossingParameters(ax: number, ay: number, bx: number, by: number, cx: number, cy: number, dx: number, dy: number): [number, number] | null {
+  return findCrossing(ax, ay, bx, by, cx, cy, dx, dy) ? [crossing[0], crossing[1]] : null
+}
+
+/** [u, v] of the last crossing `findCrossing` found: one scratch pair, so the hot loops allocate nothing. */
+export const crossing = new Float64Array(2)
+
+/** Whether segments AB and CD cross or touch (see `crossingParameters`); if so, writes the parameters into `crossing`. */
+export function findCrossing(ax: number, ay: number, bx: number, by: number, cx: number, cy: number, dx: number, dy: number): boolean {
   const rx = bx - ax
   const ry = by - ay
   const sx = dx - cx
   const sy = dy - cy
   const denominator = rx * sy - ry * sx
-  if (denominator === 0) return null
+  if (denominator === 0) return false
   const acx = cx - ax
   const acy = cy - ay
   const u = (acx * sy - acy * sx) / denominator
   const v = (acx * ry - acy * rx) / denominator
-  if (u < 0 || u > 1 || v < 0 || v > 1) return null
-  return [u, v]
+  if (u < 0 || u > 1 || v < 0 || v > 1) return false
+  crossing[0] = u
+  crossing[1] = v
+  return true
 }
 
 /**
