@@ -25,6 +25,8 @@ export class CutSegments {
   readonly box: Float64Array
   /** Chunk c holds segments chunkStart[c] … chunkStart[c + 1] − 1. */
   readonly chunkStart: Uint32Array
+  /** Per segment: its chunk. */
+  readonly chunkOf: Uint32Array
   readonly chunkCount: number
   /** Per chunk: [minX, minY, maxX, maxY] of its segments. */
   readonly chunkBox: Float64Array
@@ -45,6 +47,7 @@ export class CutSegments {
     this.firstPoint = new Uint32Array(this.count)
     this.contourOf = new Uint32Array(this.count)
     this.box = new Float64Array(4 * this.count)
+    this.chunkOf = new Uint32Array(this.count)
     this.alongMm = new Float64Array(contours.pointCount)
     const chunkStart = new Uint32Array(this.count + 1)
     const chunkBoxes: number[] = []
@@ -85,6 +88,7 @@ export class CutSegments {
           chunkMaxX = Math.max(chunkMaxX, maxX)
           chunkMaxY = Math.max(chunkMaxY, maxY)
         }
+        this.chunkOf[segment] = chunkCount - 1
       }
       if (start[id + 1] - start[id] > 1) chunkBoxes.push(chunkMinX, chunkMinY, chunkMaxX, chunkMaxY)
     }
@@ -101,18 +105,16 @@ export class CutSegments {
   }
 
   /**
-   * For every chunk, the chunks at or after it whose boxes come within
-   * `reachMm` of its box, in ascending order: chunk c's are
+   * For every chunk, the chunks whose boxes come within `reachMm` of its box
+   * (itself included), in ascending order: chunk c's are
    * `chunks[from[c]] … chunks[from[c + 1] − 1]`. Every pair of segments whose
    * boxes come within the reach lies in such a pair of chunks.
    */
-  laterChunksWithin(reachMm: number): { from: Uint32Array; chunks: Uint32Array } {
+  chunksWithin(reachMm: number): ChunkNeighbours {
     const from = new Uint32Array(this.chunkCount + 1)
     let chunks = new Uint32Array(Math.max(16, 8 * this.chunkCount))
     let filled = 0
-    let chunk = 0
-    const keepLater = (other: number) => {
-      if (other < chunk) return false
+    const keep = (other: number) => {
       if (filled === chunks.length) {
         const grown = new Uint32Array(2 * chunks.length)
         grown.set(chunks)
@@ -122,13 +124,14 @@ export class CutSegments {
       return false
     }
     const boxes = this.chunkBox
-    for (; chunk < this.chunkCount; chunk++) {
+    for (let chunk = 0; chunk < this.chunkCount; chunk++) {
       from[chunk] = filled
-      this.chunkIndex!.search(boxes[4 * chunk] - reachMm, boxes[4 * chunk + 1] - reachMm, boxes[4 * chunk + 2] + reachMm, boxes[4 * chunk + 3] + reachMm, keepLater)
+      const [minX, minY, maxX, maxY] = grownBox(boxes, chunk, reachMm)
+      this.chunkIndex!.search(minX, minY, maxX, maxY, keep)
       chunks.subarray(from[chunk], filled).sort()
     }
     from[this.chunkCount] = filled
-    return { from, chunks: chunks.subarray(0, filled) }
+    return { reachMm, from, chunks: chunks.subarray(0, filled) }
   }
 
   /** Calls `visit` for every segment whose box meets [minX, minY, maxX, maxY]. */
@@ -231,6 +234,24 @@ export class CutSegments {
     // The slack is never positive, so a non-negative cross product passes without the two lengths.
     return sideCross >= 0 || sideCross >= -ALONG_THE_CUT_RELATIVE * Math.hypot(alongX, alongY) * Math.hypot(dx, dy)
   }
+}
+
+/** See `CutSegments.chunksWithin`. */
+export interface ChunkNeighbours {
+  reachMm: number
+  from: Uint32Array
+  chunks: Uint32Array
+}
+
+const grownBoxScratch = new Float64Array(4)
+
+/** Box `index` of a flat box array grown by `marginMm` on every side (one scratch array, read it before the next call). */
+export function grownBox(boxes: Float64Array, index: number, marginMm: number): Float64Array {
+  grownBoxScratch[0] = boxes[4 * index] - marginMm
+  grownBoxScratch[1] = boxes[4 * index + 1] - marginMm
+  grownBoxScratch[2] = boxes[4 * index + 2] + marginMm
+  grownBoxScratch[3] = boxes[4 * index + 3] + marginMm
+  return grownBoxScratch
 }
 
 // An offset within this angle (in radians, as a sine) of the cut's own direction counts as along it, not away from it.

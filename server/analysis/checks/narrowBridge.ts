@@ -4,7 +4,7 @@ import { type CutSegments, cutSegmentsOf } from './cutSegments'
 import { formatMm } from './format'
 import type { CheckGeometry } from './index'
 import { isScreened, nearCutsOf } from './nearCuts'
-import { NEAR_KIND, type NearCutList } from './pairScan'
+import { NEAR_KIND, type NearCutList, pairScanOf } from './pairScan'
 
 /**
  * Webs of material narrower than the minimum bridge: the centre-line
@@ -16,6 +16,7 @@ import { NEAR_KIND, type NearCutList } from './pairScan'
 export function checkNarrowBridges(geometry: CheckGeometry, params: AnalysisParams): Finding[] {
   const segments = cutSegmentsOf(geometry)
   const nearCuts = nearCutsOf(geometry, params)
+  const { neighbours } = pairScanOf(geometry, params)
   const web = NEAR_KIND.web
   const narrow = nearCuts.filter((slot) => nearCuts.kind[slot] === web && nearCuts.distanceMm[slot] - params.kerfMm < params.minBridgeMm)
   const { distanceMm } = narrow
@@ -30,7 +31,7 @@ export function checkNarrowBridges(geometry: CheckGeometry, params: AnalysisPara
     if (best < 0 || distanceMm[slot] < distanceMm[best]) narrowestOfSite[site] = slot
   }
   // Usually the narrowest pair of a site is unscreened; only sites where it is not need their other pairs, widest last.
-  const screenedSites = new Set(sites.filter((site) => isScreened(segments, narrow, narrowestOfSite[site], params.chainToleranceMm)))
+  const screenedSites = new Set(sites.filter((site) => isScreened(segments, neighbours, narrow, narrowestOfSite[site], params.chainToleranceMm)))
   const othersOfScreened = new Map<number, number[]>()
   for (let slot = 0; slot < narrow.count && screenedSites.size > 0; slot++) {
     const site = siteOf[slot]
@@ -45,7 +46,7 @@ export function checkNarrowBridges(geometry: CheckGeometry, params: AnalysisPara
       reported.push(narrowestOfSite[site])
       continue
     }
-    const unscreened = othersOfScreened.get(site)!.sort((a, b) => distanceMm[a] - distanceMm[b]).find((other) => !isScreened(segments, narrow, other, params.chainToleranceMm))
+    const unscreened = othersOfScreened.get(site)!.sort((a, b) => distanceMm[a] - distanceMm[b]).find((other) => !isScreened(segments, neighbours, narrow, other, params.chainToleranceMm))
     if (unscreened !== undefined) reported.push(unscreened)
   }
   return reported.sort((a, b) => distanceMm[a] - distanceMm[b]).map((slot) => bridgeFinding(narrow, slot, segments.contourOf, params))

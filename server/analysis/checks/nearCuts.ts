@@ -1,10 +1,10 @@
 import type { AnalysisParams } from '../params'
-import { type CutSegments, cutSegmentsOf } from './cutSegments'
+import { type ChunkNeighbours, type CutSegments, cutSegmentsOf, grownBox } from './cutSegments'
 import type { CheckGeometry } from './index'
 import { oncePerGeometry } from './memo'
 import { contourPairKey, type NearCutList, pairScanOf, pairScanSignature } from './pairScan'
 import { repeatedCutsOf } from './repeatedCuts'
-import { crossing, findCrossing } from './segmentGeometry'
+import { crossingOnFirst } from './segmentGeometry'
 
 /** Near cuts of the pair scan less those between contours that repeat each other (the duplicate-cut check reports those). */
 function findNearCuts(geometry: CheckGeometry, params: AnalysisParams): NearCutList {
@@ -19,9 +19,11 @@ function findNearCuts(geometry: CheckGeometry, params: AnalysisParams): NearCutL
  * Whether another cut crosses the line between a web's closest points, so
  * the two cuts leave no web of their own (the outer two of three parallel
  * slits). Crossings within the touch tolerance of either end are where the
- * line leaves its own cuts' neighbours.
+ * line leaves its own cuts' neighbours. The candidates are the segments of
+ * the chunks near the first segment's chunk (the pair scan found them); a
+ * line reaching beyond that neighbourhood searches the index instead.
  */
-export function isScreened(segments: CutSegments, nearCuts: NearCutList, slot: number, touchMm: number): boolean {
+export function isScreened(segments: CutSegments, neighbours: ChunkNeighbours, nearCuts: NearCutList, slot: number, touchMm: number): boolean {
   const ends = 4 * slot
   const px = nearCuts.ends[ends]
   const py = nearCuts.ends[ends + 1]
@@ -31,13 +33,34 @@ export function isScreened(segments: CutSegments, nearCuts: NearCutList, slot: n
   const second = nearCuts.second[slot]
   const endMargin = touchMm / nearCuts.distanceMm[slot]
   const { xy } = segments.contours
-  let screened = false
-  segments.forEachNear(Math.min(px, qx), Math.min(py, qy), Math.max(px, qx), Math.max(py, qy), (other) => {
-    if (screened || other === first || other === second) return
+  const crossesInside = (other: number) => {
+    if (other === first || other === second) return false
     const point = 2 * segments.firstPoint[other]
-    if (findCrossing(px, py, qx, qy, xy[point], xy[point + 1], xy[point + 2], xy[point + 3]) && crossing[0] > endMargin && crossing[0] < 1 - endMargin) screened = true
-  })
-  return screened
+    const along = crossingOnFirst(px, py, qx, qy, xy[point], xy[point + 1], xy[point + 2], xy[point + 3])
+    return along > endMargin && along < 1 - endMargin
+  }
+  const minX = Math.min(px, qx)
+  const minY = Math.min(py, qy)
+  const maxX = Math.max(px, qx)
+  const maxY = Math.max(py, qy)
+  const chunk = segments.chunkOf[first]
+  const near = grownBox(segments.chunkBox, chunk, neighbours.reachMm)
+  if (minX < near[0] || minY < near[1] || maxX > near[2] || maxY > near[3]) {
+    let screened = false
+    segments.forEachNear(minX, minY, maxX, maxY, (other) => {
+      if (!screened && crossesInside(other)) screened = true
+    })
+    return screened
+  }
+  const { box, chunkStart } = segments
+  for (let slotOfChunk = neighbours.from[chunk]; slotOfChunk < neighbours.from[chunk + 1]; slotOfChunk++) {
+    const other = neighbours.chunks[slotOfChunk]
+    for (let segment = chunkStart[other]; segment < chunkStart[other + 1]; segment++) {
+      const c = 4 * segment
+      if (box[c] <= maxX && box[c + 1] <= maxY && box[c + 2] >= minX && box[c + 3] >= minY && crossesInside(segment)) return true
+    }
+  }
+  return false
 }
 
 /** The near pairs of a geometry, found once for the checks that need them. */

@@ -1,6 +1,6 @@
 import type { AnalysisParams } from '../params'
 import type { PolylineSet } from '../polylines'
-import { cutSegmentsOf } from './cutSegments'
+import { type ChunkNeighbours, cutSegmentsOf, grownBox } from './cutSegments'
 import type { CheckGeometry } from './index'
 import { oncePerGeometry } from './memo'
 import { closestPointsOfSegments, emptyClosestPoints, stretchWithin } from './segmentGeometry'
@@ -100,6 +100,8 @@ export interface RepeatedStretch {
 export interface PairScan {
   /** Pairs within the bridge reach that do not repeat each other. */
   nearCuts: NearCutList
+  /** The chunks near each chunk, within the scan reach (the screening test reuses them). */
+  neighbours: ChunkNeighbours
   /** Per segment: its stretches that repeat earlier segments. */
   repeatsOf: Map<number, RepeatedStretch[]>
 }
@@ -146,7 +148,8 @@ function scanPairs(geometry: CheckGeometry, params: AnalysisParams): PairScan {
   const { box, chunkStart, contourOf, firstPoint } = segments
   const closest = emptyClosestPoints()
   // Patterns usually have one or two near pairs per segment; the list grows if there are more.
-  const scan: PairScan = { nearCuts: new NearCutList(Math.max(1024, 2 * segments.count)), repeatsOf: new Map() }
+  const neighbours = segments.chunksWithin(scanMm)
+  const scan: PairScan = { nearCuts: new NearCutList(Math.max(1024, 2 * segments.count)), neighbours, repeatsOf: new Map() }
   const nearCuts = scan.nearCuts
 
   const visit = (first: number, second: number) => {
@@ -197,16 +200,14 @@ function scanPairs(geometry: CheckGeometry, params: AnalysisParams): PairScan {
   }
 
   // Every later segment whose box comes within the reach of this one's, in segment order (the same boxes a search of each segment's box grown by the reach would match).
-  const { from, chunks } = segments.laterChunksWithin(scanMm)
+  const { from, chunks } = neighbours
   for (let chunk = 0; chunk < segments.chunkCount; chunk++) {
     for (let first = chunkStart[chunk]; first < chunkStart[chunk + 1]; first++) {
-      const minX = box[4 * first] - scanMm
-      const minY = box[4 * first + 1] - scanMm
-      const maxX = box[4 * first + 2] + scanMm
-      const maxY = box[4 * first + 3] + scanMm
+      const [minX, minY, maxX, maxY] = grownBox(box, first, scanMm)
       const contour = contourOf[first]
       for (let slot = from[chunk]; slot < from[chunk + 1]; slot++) {
         const other = chunks[slot]
+        if (other < chunk) continue
         for (let second = Math.max(first + 1, chunkStart[other]); second < chunkStart[other + 1]; second++) {
           const c = 4 * second
           if (box[c] > maxX || box[c + 1] > maxY || box[c + 2] < minX || box[c + 3] < minY) continue

@@ -80,10 +80,10 @@ export function crossingParameters(ax: number, ay: number, bx: number, by: numbe
 }
 
 /** [u, v] of the last crossing `findCrossing` found: one scratch pair, so the hot loops allocate nothing. */
-export const crossing = new Float64Array(2)
+const crossing = new Float64Array(2)
 
 /** Whether segments AB and CD cross or touch (see `crossingParameters`); if so, writes the parameters into `crossing`. */
-export function findCrossing(ax: number, ay: number, bx: number, by: number, cx: number, cy: number, dx: number, dy: number): boolean {
+function findCrossing(ax: number, ay: number, bx: number, by: number, cx: number, cy: number, dx: number, dy: number): boolean {
   const rx = bx - ax
   const ry = by - ay
   const sx = dx - cx
@@ -98,6 +98,11 @@ export function findCrossing(ax: number, ay: number, bx: number, by: number, cx:
   crossing[0] = u
   crossing[1] = v
   return true
+}
+
+/** The parameter u on AB where segments AB and CD cross or touch, −1 when they do not (as `crossingParameters`, without allocating). */
+export function crossingOnFirst(ax: number, ay: number, bx: number, by: number, cx: number, cy: number, dx: number, dy: number): number {
+  return findCrossing(ax, ay, bx, by, cx, cy, dx, dy) ? crossing[0] : -1
 }
 
 /**
