@@ -108,7 +108,8 @@ function flattenCurve(segment: CurveSegment, chordToleranceMm: number, subpaths:
     subpaths.lineTo(toX, toY)
     return
   }
-  for (const cubic of arcToCubics(x, y, toX, toY, largeArc, sweep, rx, ry, rotationDeg)) {
+  // svgpath writes the flags of an arc it has mirrored as the strings "0"/"1"; a2c compares numbers.
+  for (const cubic of arcToCubics(x, y, toX, toY, Number(largeArc), Number(sweep), rx, ry, rotationDeg)) {
     addCubic(target, cubic[0], cubic[1], cubic[2], cubic[3], cubic[4], cubic[5], cubic[6], cubic[7], chordToleranceMm)
   }
   // The cubics end on the arc's endpoint up to rounding; land exactly on it.

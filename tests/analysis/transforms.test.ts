@@ -61,4 +61,13 @@ describe('transforms', () => {
     expect(result.bbox.x).toBeCloseTo(100, 9)
     expect(result.bbox.y).toBeCloseTo(120, 9)
   })
+
+  // SVG 1.1 F.6.5: sweep-flag 1 runs in the positive-angle direction, so a half circle from (0,0) to (20,0)
+  // passes through (10,−10). §7.4: scale(1 −1) maps it to (10,10); after translate(0 100) y runs from 100 to 110.
+  it('keeps an arc on its side under a mirroring transform', () => {
+    const result = analyze(mmDocument(`<g transform="translate(0 100) scale(1 -1)">${cutPath('M0 0 A10 10 0 0 1 20 0')}</g>`))
+    expect(result.bbox.y).toBeCloseTo(100, 6)
+    expect(result.bbox.height).toBeCloseTo(10, 6)
+    expect(result.cut.lengthMm).toBeCloseTo(Math.PI * 10, 4)
+  })
 })
