@@ -6,6 +6,7 @@ import * as bookings from './0004_bookings'
 import * as payments from './0005_payments'
 import * as operations from './0006_operations'
 import * as cuttingDay from './0007_cutting_day'
+import * as revisionPreview from './0008_revision_preview'
 
 // Append-only: a schema change is a new file added at the end of this list, never an edit of a landed one.
 // Migrations are imported statically so the bundled server and the CLI run the same list.
@@ -17,6 +18,7 @@ const migrations: Record<string, Knex.Migration> = {
   '0005_payments': payments,
   '0006_operations': operations,
   '0007_cutting_day': cuttingDay,
+  '0008_revision_preview': revisionPreview,
 }
 
 export const migrationSource: Knex.MigrationSource<string> = {

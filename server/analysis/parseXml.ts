@@ -7,6 +7,10 @@ const DOCTYPE_PATTERN = /<!DOCTYPE/i
 // external-entity tricks out whatever the parser does in a later version.
 const ENTITY_DECLARATION_PATTERN = /<!ENTITY/i
 const SVG_ROOT_PATTERN = /<svg[\s>/]/
+const COMMENT_PATTERN = /<!--[\s\S]*?-->/g
+// Far more attributes in one tag than any drawing program writes: a parser stress test, not a drawing.
+const MAX_ATTRIBUTES_PER_TAG = 2000
+const TAG_PATTERN = /<[^!?/][^>]*>/g
 
 /**
  * Parses SVG text into an svgson tree. The XML reader svgson uses is
@@ -19,7 +23,9 @@ export function parseSvgXml(svgText: string): INode {
   if (ENTITY_DECLARATION_PATTERN.test(svgText)) {
     throw new AnalysisInputError('unsafeXml', 'This SVG declares XML entities, which Kerfbook does not accept for safety. Save it again from your drawing program without a DOCTYPE.')
   }
-  const text = stripDoctype(svgText)
+  // Comments carry nothing to cut; dropping them first keeps a comment-stuffed file from costing the parser seconds.
+  const text = stripDoctype(svgText).replace(COMMENT_PATTERN, '')
+  assertReasonableTags(text)
   let root: INode
   try {
     root = parseSync(text)
@@ -39,4 +45,12 @@ function stripDoctype(svgText: string): string {
   const end = svgText.indexOf('>', match.index)
   if (end < 0) return svgText
   return svgText.slice(0, match.index) + svgText.slice(end + 1)
+}
+
+function assertReasonableTags(text: string): void {
+  for (const tag of text.matchAll(TAG_PATTERN)) {
+    if (tag[0].length > MAX_ATTRIBUTES_PER_TAG * 4 && (tag[0].match(/=/g)?.length ?? 0) > MAX_ATTRIBUTES_PER_TAG) {
+      throw new AnalysisInputError('tooComplex', `One element of this SVG has more than ${MAX_ATTRIBUTES_PER_TAG} attributes, which no drawing needs. Save it again from your drawing program.`)
+    }
+  }
 }

@@ -196,7 +196,8 @@ export async function getBookingRow(db: Knex, id: number): Promise<BookingRow> {
   return row
 }
 
-async function bookingForActor(db: Knex, actor: SessionUser, id: number): Promise<BookingRow> {
+/** The booking if the actor may handle it; another member's booking is "not found". */
+export async function bookingForActor(db: Knex, actor: SessionUser, id: number): Promise<BookingRow> {
   const row = await db<BookingRow>('bookings').where({ id }).first()
   if (!row || (!isStaff(actor) && row.member_id !== actor.id)) throw new NotFound('No such booking.')
   if (row.status === 'cancelled') throw new Conflict('This booking was cancelled.')

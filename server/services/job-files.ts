@@ -24,14 +24,16 @@ async function analyseAndStore(db: Knex, job: JobRow, upload: CutFileUpload) {
 }
 
 function revisionRow(fileId: number, revision: number, upload: CutFileUpload, uploaderId: number, stored: { analysis: AnalysisResult; sha256: string }) {
+  const { contours, ...figures } = stored.analysis
   return {
     job_file_id: fileId,
     revision,
     sha256: stored.sha256,
     original_name: upload.filename,
     size_bytes: upload.sizeBytes,
-    content_type: 'image/svg+xml',
-    analysis_json: JSON.stringify(stored.analysis),
+    content_type: upload.format === 'dxf' ? 'image/vnd.dxf' : 'image/svg+xml',
+    analysis_json: JSON.stringify(figures),
+    preview_json: JSON.stringify(contours ?? []),
     worst_severity: worstSeverity(stored.analysis),
     uploaded_by: uploaderId,
   }
@@ -44,7 +46,7 @@ export async function addJobFile(db: Knex, viewer: SessionUser, jobId: number, u
   if (Number(count?.n ?? 0) >= MAX_FILES_PER_JOB) throw new Conflict(`A job holds at most ${MAX_FILES_PER_JOB} files; start another job for the rest.`)
   const stored = await analyseAndStore(db, job, upload)
   return db.transaction(async (trx) => {
-    const [fileId] = await trx('job_files').insert({ job_id: jobId, name: upload.filename.replace(/\.svg$/i, ''), quantity })
+    const [fileId] = await trx('job_files').insert({ job_id: jobId, name: upload.filename.replace(/\.(svg|dxf)$/i, ''), quantity })
     await trx('file_revisions').insert(revisionRow(fileId!, 1, upload, viewer.id, stored))
     await trx('jobs').where({ id: jobId }).update({ updated_at: nowIso() })
     return fileId!

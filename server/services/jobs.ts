@@ -85,6 +85,7 @@ interface RevisionRow {
   original_name: string
   size_bytes: number
   analysis_json: string
+  preview_json: string | null
   worst_severity: string | null
   created_at: string
 }
@@ -133,9 +134,11 @@ export async function currentFiles(db: Knex, jobId: number): Promise<JobFileView
   const revisions = await db<RevisionRow>('file_revisions')
     .whereIn('job_file_id', files.map((f) => f.id))
     .orderBy(['job_file_id', { column: 'revision', order: 'desc' }])
+    .select('id', 'job_file_id', 'revision', 'sha256', 'original_name', 'size_bytes', 'analysis_json', 'worst_severity', 'created_at')
   return files.map((file) => {
     const own = revisions.filter((r) => r.job_file_id === file.id)
     const [latest, previous] = own.map((row) => ({ row, analysis: parseAnalysis(row) }))
+    // Rows from before the preview column still carry their contours inside the analysis.
     const { contours: _contours, ...analysis } = latest!.analysis
     return {
       id: file.id,
@@ -161,7 +164,12 @@ export async function revisionAnalysis(db: Knex, viewer: SessionUser, jobId: num
     .where({ 'f.job_id': jobId, 'f.id': fileId, 'r.revision': revision })
     .first('r.*')
   if (!row) throw new NotFound('No such file revision.')
-  return { ...parseAnalysis(row), revision: row.revision, originalName: row.original_name }
+  return { ...parseAnalysis(row), contours: previewContours(row), revision: row.revision, originalName: row.original_name }
+}
+
+/** A revision's preview geometry (older rows kept it inside the analysis). */
+export function previewContours(row: { analysis_json: string; preview_json?: string | null }): NonNullable<AnalysisResult['contours']> {
+  return row.preview_json ? JSON.parse(row.preview_json) : (JSON.parse(row.analysis_json).contours ?? [])
 }
 
 export function countFindings(files: Pick<JobFileView, 'current'>[]): { errors: number; warnings: number; notes: number } {
@@ -173,7 +181,8 @@ export function countFindings(files: Pick<JobFileView, 'current'>[]): { errors: 
   }
 }
 
-export async function jobEstimate(db: Knex, job: JobRow, files: JobFileView[]): Promise<JobEstimate> {
+/** `corrections` lets a caller estimating many jobs look each cutter's correction up once. */
+export async function jobEstimate(db: Knex, job: JobRow, files: JobFileView[], corrections = new Map<string, ReturnType<typeof timeCorrectionFor>>()): Promise<JobEstimate> {
   const cutter = await getCutter(db, job.cutter_id)
   const material = await getMaterial(db, job.material_id)
   const sheet = material.sheets.find((s) => s.id === job.sheet_id) ?? material.sheets[0]!
@@ -183,8 +192,14 @@ export async function jobEstimate(db: Knex, job: JobRow, files: JobFileView[]): 
     cutter,
     sheet,
     setting?.kerfMm ?? 0,
-    await timeCorrectionFor(db, job.cutter_id, material.family),
+    await correctionOnce(db, corrections, job.cutter_id, material.family),
   )
+}
+
+function correctionOnce(db: Knex, corrections: Map<string, ReturnType<typeof timeCorrectionFor>>, cutterId: number, family: string) {
+  const key = `${cutterId}:${family}`
+  if (!corrections.has(key)) corrections.set(key, timeCorrectionFor(db, cutterId, family))
+  return corrections.get(key)!
 }
 
 export async function jobDetail(db: Knex, viewer: SessionUser, jobId: number) {
@@ -236,9 +251,10 @@ export async function listJobs(db: Knex, viewer: SessionUser, filter: { state?: 
   query.orderByRaw('coalesce(j.submitted_at, j.created_at) asc')
   const rows = await query
   const summaries = []
+  const corrections = new Map<string, ReturnType<typeof timeCorrectionFor>>()
   for (const row of rows) {
     const files = await currentFiles(db, row.id)
-    const estimate = await jobEstimate(db, row as JobRow, files)
+    const estimate = await jobEstimate(db, row as JobRow, files, corrections)
     const counts = countFindings(files)
     summaries.push({
       id: row.id,

@@ -7,7 +7,7 @@ import { liveBookings } from './bookings'
 import { listColours } from './catalog/colours'
 import { getCutter } from './catalog/cutters'
 import { getMaterial } from './catalog/materials'
-import { currentFiles, jobEstimate, type JobRow } from './jobs'
+import { currentFiles, jobEstimate, previewContours, type JobRow } from './jobs'
 import { timerMinutes, type TimerKind } from './operations'
 import { workshopSettings } from './settings'
 import { inZone, toUtcIso } from './workshop-time'
@@ -82,10 +82,10 @@ export async function sheetSvg(db: Knex, job: JobRow, sheetIndex: number): Promi
   const estimate = await jobEstimate(db, job, files)
   const sheet = estimate.layout.sheets[sheetIndex]
   if (!sheet) throw new NotFound('No such sheet in this job.')
-  const revisions = new Map<number, AnalysisResult>()
+  const revisions = new Map<number, { bbox: AnalysisResult['bbox']; contours: ReturnType<typeof previewContours> }>()
   for (const file of files) {
-    const row = await db('file_revisions').where({ job_file_id: file.id, revision: file.current.revision }).first('analysis_json')
-    revisions.set(file.id, JSON.parse(row.analysis_json))
+    const row = await db('file_revisions').where({ job_file_id: file.id, revision: file.current.revision }).first('analysis_json', 'preview_json')
+    revisions.set(file.id, { bbox: file.current.analysis.bbox, contours: previewContours(row) })
   }
   const colours = await listColours(db)
   const strokeFor = (operation: string) => colours.find((c) => c.operation === operation)?.hex ?? '#000000'
@@ -95,7 +95,7 @@ export async function sheetSvg(db: Knex, job: JobRow, sheetIndex: number): Promi
     const { x: bx, y: by, width: bw } = analysis.bbox
     // Turned a quarter: the part's y runs along the sheet's x, its x back along the sheet's y.
     const place = (x: number, y: number): [number, number] => (placement.rotated ? [placement.x + (y - by), placement.y + (bx + bw - x)] : [placement.x + (x - bx), placement.y + (y - by)])
-    for (const contour of analysis.contours ?? []) {
+    for (const contour of analysis.contours) {
       if (!(contour.operation in OPERATION_CODES)) continue
       let d = ''
       for (let i = 0; i < contour.points.length; i += 2) {

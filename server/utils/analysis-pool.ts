@@ -24,7 +24,8 @@ function analysisPool(): Piscina {
   pool ??= new Piscina({
     filename: workerFile(),
     maxThreads: Math.max(1, availableParallelism() - 1),
-    idleTimeout: 60_000,
+    // Idle workers leave soon, handing a big analysis's memory back to the system.
+    idleTimeout: 5_000,
     resourceLimits: { maxOldGenerationSizeMb: WORKER_HEAP_MB },
   })
   return pool

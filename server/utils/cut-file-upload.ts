@@ -47,11 +47,14 @@ export async function readCutFileUpload(event: H3Event): Promise<CutFileUpload> 
 
 // Scripts, event handlers, javascript: links and embedded HTML have no place in a cut file; refusing
 // them outright means no upload can ever run code, wherever its content is shown later.
+// Element names may carry any namespace prefix (<v:script> in the SVG namespace is still a script).
 const ACTIVE_CONTENT: [RegExp, string][] = [
-  [/<script[\s>/]/i, 'a script'],
-  [/<foreignObject[\s>/]/i, 'embedded HTML (foreignObject)'],
+  [/<(?:[\w.-]+:)?script[\s>/]/i, 'a script'],
+  [/<(?:[\w.-]+:)?foreignObject[\s>/]/i, 'embedded HTML (foreignObject)'],
   [/\son[a-z]+\s*=/i, 'an event handler (on… attribute)'],
-  [/(?:href|src)\s*=\s*["']?\s*(?:javascript|data:text\/html)/i, 'a script link'],
+  [/javascript\s*:|data:\s*text\/html|vbscript\s*:/i, 'a script link'],
+  // Animation that rewrites a link can turn a harmless href into a script link after loading.
+  [/<(?:[\w.-]+:)?(?:set|animate)\b[^>]*attributeName\s*=\s*["']?(?:[\w.-]+:)?href/i, 'an animated link'],
 ]
 
 export function assertNoActiveContent(svgText: string, format: CutFileFormat): void {

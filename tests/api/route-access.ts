@@ -262,4 +262,31 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
     pathIsCredential: true,
     params: async (w) => ({ token: new URL((await w.bench.member.post('/api/me/calendar-feed')).body.url).pathname.split('/').pop()! }),
   },
+  // Money, the cutting day and pickups.
+  'GET /api/admin/payments': { policy: adminOnly('ok') },
+  'GET /api/me/payments': { policy: signedInOnly('ok') },
+  'POST /api/payments/:bookingId/refund': { policy: staffOnly(), params: (w) => ({ bookingId: w.bookingId }) },
+  // Anyone may knock; only a valid Stripe-Signature gets in (an unsigned call is a 400).
+  'POST /api/webhooks/stripe': { policy: PUBLIC },
+  'POST /api/admin/tasks/release-holds': { policy: adminOnly('ok') },
+  'POST /api/admin/tasks/pickup-reminders': { policy: adminOnly('ok') },
+  'POST /api/jobs/:id/start': { policy: staffOnly(), params: job },
+  'POST /api/jobs/:id/timer': { policy: staffOnly(), params: job },
+  'POST /api/jobs/:id/finish': { policy: staffOnly(), params: job },
+  'POST /api/jobs/:id/problems': { policy: staffOnly(), params: job },
+  'POST /api/jobs/:id/ready': { policy: staffOnly(), params: job },
+  'GET /api/jobs/:id/sheets/:sheet': { policy: staffOnly('ok'), params: (w) => ({ ...job(w), sheet: 1 }) },
+  // The code exists only while the parts wait, and only the owner ever reads it; staff ask the member.
+  'GET /api/jobs/:id/pickup': { policy: { anonymous: 401, member: 404, otherMember: 404, staff: 404, admin: 404 }, params: job },
+  'POST /api/pickups/collect': { policy: staffOnly() },
+  'GET /api/run-sheet': { policy: staffOnly('ok'), query: (w) => `cutter=${w.bench.cutterId}&date=2027-01-04` },
+  // Reports.
+  'GET /api/reports/utilisation': { policy: staffOnly('ok') },
+  'GET /api/reports/revenue': { policy: staffOnly('ok') },
+  'GET /api/reports/minutes-by-member': { policy: staffOnly('ok') },
+  'GET /api/reports/materials': { policy: staffOnly('ok') },
+  'GET /api/reports/jobs-by-state': { policy: staffOnly('ok') },
+  'GET /api/reports/turnaround': { policy: staffOnly('ok') },
+  'GET /api/reports/estimate-accuracy': { policy: staffOnly('ok') },
+  'GET /api/reports/estimate-points': { policy: staffOnly('ok') },
 }
