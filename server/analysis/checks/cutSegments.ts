@@ -126,8 +126,8 @@ export class CutSegments {
     const boxes = this.chunkBox
     for (let chunk = 0; chunk < this.chunkCount; chunk++) {
       from[chunk] = filled
-      const [minX, minY, maxX, maxY] = grownBox(boxes, chunk, reachMm)
-      this.chunkIndex!.search(minX, minY, maxX, maxY, keep)
+      const near = grownBox(boxes, chunk, reachMm)
+      this.chunkIndex!.search(near[0], near[1], near[2], near[3], keep)
       chunks.subarray(from[chunk], filled).sort()
     }
     from[this.chunkCount] = filled

@@ -25,17 +25,20 @@ export function checkMergedCuts(geometry: CheckGeometry, params: AnalysisParams)
     const best = closestOfPair.get(key)
     if (best === undefined || distanceMm[slot] < distanceMm[best]) closestOfPair.set(key, slot)
   }
-  return [...closestOfPair.values()].map((slot) => ({
+  return [...closestOfPair.values()].map((slot) => {
+    const { px, py, qx, qy } = nearCuts.closest(slot)
+    return {
     code: 'merged-cuts',
     severity: 'error',
     message:
       kind[slot] === NEAR_KIND.touch
         ? 'Two separate cuts cross or meet here, so the piece between them may drop out. Join them into one outline or move them apart.'
         : `Two separate cuts come ${formatMm(distanceMm[slot])} apart, within the kerf (${formatMm(params.kerfMm)}): after cutting they run into each other.`,
-    x: nearCuts.middleX(slot),
-    y: nearCuts.middleY(slot),
+    x: (px + qx) / 2,
+    y: (py + qy) / 2,
     valueMm: distanceMm[slot] - params.kerfMm,
     limitMm: 0,
     contours: [segments.contourOf[nearCuts.first[slot]], segments.contourOf[nearCuts.second[slot]]],
-  }))
+  }
+  })
 }

@@ -115,14 +115,15 @@ function bridgeFinding(narrow: NearCutList, slot: number, contourOf: Uint32Array
   const message = burnsAway
     ? `The cuts here are ${formatMm(distanceMm)} apart, no more than the kerf (${formatMm(params.kerfMm)}): the bridge between them burns away and the piece comes loose.`
     : `The bridge between these cuts is ${formatMm(widthMm)} wide after the kerf; the minimum for this material and cutter is ${formatMm(params.minBridgeMm)}. It may tear or burn through.`
+  const { px, py, qx, qy } = narrow.closest(slot)
   const first = contourOf[narrow.first[slot]]
   const second = contourOf[narrow.second[slot]]
   return {
     code: 'narrow-bridge',
     severity: burnsAway ? 'error' : 'warning',
     message,
-    x: narrow.middleX(slot),
-    y: narrow.middleY(slot),
+    x: (px + qx) / 2,
+    y: (py + qy) / 2,
     valueMm: widthMm,
     limitMm: params.minBridgeMm,
     contours: narrow.sameContour[slot] === 1 ? [first] : [first, second],

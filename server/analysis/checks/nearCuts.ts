@@ -4,7 +4,7 @@ import type { CheckGeometry } from './index'
 import { oncePerGeometry } from './memo'
 import { contourPairKey, type NearCutList, pairScanOf, pairScanSignature } from './pairScan'
 import { repeatedCutsOf } from './repeatedCuts'
-import { crossingOnFirst } from './segmentGeometry'
+import { crossingOnFirstAt } from './segmentGeometry'
 
 /** Near cuts of the pair scan less those between contours that repeat each other (the duplicate-cut check reports those). */
 function findNearCuts(geometry: CheckGeometry, params: AnalysisParams): NearCutList {
@@ -24,19 +24,18 @@ function findNearCuts(geometry: CheckGeometry, params: AnalysisParams): NearCutL
  * line reaching beyond that neighbourhood searches the index instead.
  */
 export function isScreened(segments: CutSegments, neighbours: ChunkNeighbours, nearCuts: NearCutList, slot: number, touchMm: number): boolean {
-  const ends = 4 * slot
-  const px = nearCuts.ends[ends]
-  const py = nearCuts.ends[ends + 1]
-  const qx = nearCuts.ends[ends + 2]
-  const qy = nearCuts.ends[ends + 3]
+  const { px, py, qx, qy } = nearCuts.closest(slot)
   const first = nearCuts.first[slot]
   const second = nearCuts.second[slot]
   const endMargin = touchMm / nearCuts.distanceMm[slot]
   const { xy } = segments.contours
+  line[0] = px
+  line[1] = py
+  line[2] = qx
+  line[3] = qy
   const crossesInside = (other: number) => {
     if (other === first || other === second) return false
-    const point = 2 * segments.firstPoint[other]
-    const along = crossingOnFirst(px, py, qx, qy, xy[point], xy[point + 1], xy[point + 2], xy[point + 3])
+    const along = crossingOnFirstAt(line, xy, 2 * segments.firstPoint[other])
     return along > endMargin && along < 1 - endMargin
   }
   const minX = Math.min(px, qx)
@@ -62,6 +61,9 @@ export function isScreened(segments: CutSegments, neighbours: ChunkNeighbours, n
   }
   return false
 }
+
+// The line between a web's closest points, for the crossing test.
+const line = new Float64Array(4)
 
 /** The near pairs of a geometry, found once for the checks that need them. */
 export const nearCutsOf = oncePerGeometry(pairScanSignature, findNearCuts)

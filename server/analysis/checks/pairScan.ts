@@ -1,9 +1,9 @@
 import type { AnalysisParams } from '../params'
 import type { PolylineSet } from '../polylines'
-import { type ChunkNeighbours, cutSegmentsOf, grownBox } from './cutSegments'
+import { type ChunkNeighbours, type CutSegments, cutSegmentsOf, grownBox } from './cutSegments'
 import type { CheckGeometry } from './index'
 import { oncePerGeometry } from './memo'
-import { closestPointsOfSegments, emptyClosestPoints, stretchWithin } from './segmentGeometry'
+import { type ClosestPoints, closestPointsAt, emptyClosestPoints, stretchWithin } from './segmentGeometry'
 
 /**
  * How two nearby cut segments relate:
@@ -15,9 +15,10 @@ export const NEAR_KIND = { touch: 0, web: 1, scrap: 2 } as const
 
 /**
  * Near pairs of cut segments in flat columns (one slot per pair, no object
- * per pair): segment ids `first` < `second` (see CutSegments), their
- * centre-line distance and closest points P (on first) and Q (on second).
- * Slots are in order of first, then second.
+ * per pair): segment ids `first` < `second` (see CutSegments) and their
+ * centre-line distance. Slots are in order of first, then second. The
+ * closest points are not stored: `closest` computes them again, exactly as
+ * the scan did, for the few pairs that are reported or screened.
  */
 export class NearCutList {
   count = 0
@@ -26,19 +27,19 @@ export class NearCutList {
   first: Uint32Array
   second: Uint32Array
   distanceMm: Float64Array
-  /** px, py, qx, qy per slot. */
-  ends: Float64Array
+  private readonly segments: CutSegments
+  private readonly scratch = emptyClosestPoints()
 
-  constructor(capacity = 1024) {
+  constructor(segments: CutSegments, capacity = 1024) {
+    this.segments = segments
     this.kind = new Uint8Array(capacity)
     this.sameContour = new Uint8Array(capacity)
     this.first = new Uint32Array(capacity)
     this.second = new Uint32Array(capacity)
     this.distanceMm = new Float64Array(capacity)
-    this.ends = new Float64Array(4 * capacity)
   }
 
-  push(kind: number, first: number, second: number, sameContour: boolean, distanceMm: number, px: number, py: number, qx: number, qy: number): void {
+  push(kind: number, first: number, second: number, sameContour: boolean, distanceMm: number): void {
     if (this.count === this.kind.length) this.grow(2 * this.count)
     const slot = this.count++
     this.kind[slot] = kind
@@ -46,10 +47,6 @@ export class NearCutList {
     this.first[slot] = first
     this.second[slot] = second
     this.distanceMm[slot] = distanceMm
-    this.ends[4 * slot] = px
-    this.ends[4 * slot + 1] = py
-    this.ends[4 * slot + 2] = qx
-    this.ends[4 * slot + 3] = qy
   }
 
   /** The slots for which `keep` holds, in order, as a new list. */
@@ -57,22 +54,17 @@ export class NearCutList {
     const keptSlots = new Uint32Array(this.count)
     let keptCount = 0
     for (let slot = 0; slot < this.count; slot++) if (keep(slot)) keptSlots[keptCount++] = slot
-    const kept = new NearCutList(Math.max(1, keptCount))
+    const kept = new NearCutList(this.segments, Math.max(1, keptCount))
     for (let index = 0; index < keptCount; index++) {
       const slot = keptSlots[index]
-      const ends = 4 * slot
-      kept.push(this.kind[slot], this.first[slot], this.second[slot], this.sameContour[slot] === 1, this.distanceMm[slot], this.ends[ends], this.ends[ends + 1], this.ends[ends + 2], this.ends[ends + 3])
+      kept.push(this.kind[slot], this.first[slot], this.second[slot], this.sameContour[slot] === 1, this.distanceMm[slot])
     }
     return kept
   }
 
-  /** Middle of the line between the closest points. */
-  middleX(slot: number): number {
-    return (this.ends[4 * slot] + this.ends[4 * slot + 2]) / 2
-  }
-
-  middleY(slot: number): number {
-    return (this.ends[4 * slot + 1] + this.ends[4 * slot + 3]) / 2
+  /** Closest points P (on first) and Q (on second) of a slot's pair, in one scratch object: read it before the next call. */
+  closest(slot: number): ClosestPoints {
+    return closestPointsOf(this.segments, this.first[slot], this.second[slot], this.scratch)
   }
 
   private grow(capacity: number): void {
@@ -81,8 +73,11 @@ export class NearCutList {
     this.first = grownTo(this.first, new Uint32Array(capacity))
     this.second = grownTo(this.second, new Uint32Array(capacity))
     this.distanceMm = grownTo(this.distanceMm, new Float64Array(capacity))
-    this.ends = grownTo(this.ends, new Float64Array(4 * capacity))
   }
+}
+
+function closestPointsOf(segments: CutSegments, first: number, second: number, out: ClosestPoints): ClosestPoints {
+  return closestPointsAt(segments.contours.xy, 2 * segments.firstPoint[first], 2 * segments.firstPoint[second], out)
 }
 
 function grownTo<T extends Uint8Array | Uint32Array | Float64Array>(old: T, grown: T): T {
@@ -149,7 +144,7 @@ function scanPairs(geometry: CheckGeometry, params: AnalysisParams): PairScan {
   const closest = emptyClosestPoints()
   // Patterns usually have one or two near pairs per segment; the list grows if there are more.
   const neighbours = segments.chunksWithin(scanMm)
-  const scan: PairScan = { nearCuts: new NearCutList(Math.max(1024, 2 * segments.count)), neighbours, repeatsOf: new Map() }
+  const scan: PairScan = { nearCuts: new NearCutList(segments, Math.max(1024, 2 * segments.count)), neighbours, repeatsOf: new Map() }
   const nearCuts = scan.nearCuts
 
   const visit = (first: number, second: number) => {
@@ -167,9 +162,7 @@ function scanPairs(geometry: CheckGeometry, params: AnalysisParams): PairScan {
       // Two stretches of one contour that are never far apart along it can only be a corner, or a crossing if their boxes touch.
       if (largerGap > touchMm && segments.farthestAlongMm(first, second) <= 2 * reachMm) return
     }
-    const p = 2 * firstPoint[first]
-    const q = 2 * firstPoint[second]
-    closestPointsOfSegments(xy[p], xy[p + 1], xy[p + 2], xy[p + 3], xy[q], xy[q + 1], xy[q + 2], xy[q + 3], closest)
+    closestPointsOf(segments, first, second, closest)
     const { distanceMm, px, py, qx, qy } = closest
     if (distanceMm >= reachMm) return
     const alongMm = sameContour ? segments.alongBetweenMm(first, closest.u, second, closest.v) : Infinity
@@ -181,7 +174,7 @@ function scanPairs(geometry: CheckGeometry, params: AnalysisParams): PairScan {
       if (alongMm <= distanceMm + 2 * reachMm) return
       kind = segments.pointsIntoMaterial(first, closest.u, qx - px, qy - py) && segments.pointsIntoMaterial(second, closest.v, px - qx, py - qy) ? NEAR_KIND.web : NEAR_KIND.scrap
     }
-    nearCuts.push(kind, first, second, sameContour, distanceMm, px, py, qx, qy)
+    nearCuts.push(kind, first, second, sameContour, distanceMm)
   }
 
   /**
@@ -203,7 +196,11 @@ function scanPairs(geometry: CheckGeometry, params: AnalysisParams): PairScan {
   const { from, chunks } = neighbours
   for (let chunk = 0; chunk < segments.chunkCount; chunk++) {
     for (let first = chunkStart[chunk]; first < chunkStart[chunk + 1]; first++) {
-      const [minX, minY, maxX, maxY] = grownBox(box, first, scanMm)
+      const near = grownBox(box, first, scanMm)
+      const minX = near[0]
+      const minY = near[1]
+      const maxX = near[2]
+      const maxY = near[3]
       const contour = contourOf[first]
       for (let slot = from[chunk]; slot < from[chunk + 1]; slot++) {
         const other = chunks[slot]

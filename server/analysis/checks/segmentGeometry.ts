@@ -22,17 +22,26 @@ export function emptyClosestPoints(): ClosestPoints {
  * the four end-to-segment distances is exact.
  */
 export function closestPointsOfSegments(ax: number, ay: number, bx: number, by: number, cx: number, cy: number, dx: number, dy: number, out: ClosestPoints): ClosestPoints {
-  if (findCrossing(ax, ay, bx, by, cx, cy, dx, dy)) {
+  return closestPointsAt(segmentScratch(ax, ay, bx, by, cx, cy, dx, dy), 0, 4, out)
+}
+
+/**
+ * `closestPointsOfSegments` of the segments whose ends are at
+ * xy[first … first + 3] and xy[second … second + 3] of a flat x, y array.
+ * Only indexes cross the calls, so the hot loop boxes no coordinates.
+ */
+export function closestPointsAt(xy: Float64Array, first: number, second: number, out: ClosestPoints): ClosestPoints {
+  if (crossesAt(xy, first, xy, second)) {
     const u = crossing[0]
-    const x = ax + u * (bx - ax)
-    const y = ay + u * (by - ay)
+    const x = xy[first] + u * (xy[first + 2] - xy[first])
+    const y = xy[first + 1] + u * (xy[first + 3] - xy[first + 1])
     return setClosest(out, 0, x, y, u, x, y, crossing[1])
   }
   out.distanceMm = Infinity
-  considerEnd(ax, ay, cx, cy, dx, dy, false, 0, out)
-  considerEnd(bx, by, cx, cy, dx, dy, false, 1, out)
-  considerEnd(cx, cy, ax, ay, bx, by, true, 0, out)
-  considerEnd(dx, dy, ax, ay, bx, by, true, 1, out)
+  considerEnd(xy, first, second, false, 0, out)
+  considerEnd(xy, first + 2, second, false, 1, out)
+  considerEnd(xy, second, first, true, 0, out)
+  considerEnd(xy, second + 2, first, true, 1, out)
   return out
 }
 
@@ -49,9 +58,17 @@ function setClosest(out: ClosestPoints, distanceMm: number, px: number, py: numb
 
 const CLEARLY_FARTHER = 1 + 1e-12
 
-/** The end (x, y) of one segment against the whole of the other segment (sx, sy)–(ex, ey), kept if nearer than the best so far. */
-function considerEnd(x: number, y: number, sx: number, sy: number, ex: number, ey: number, endIsOnSecond: boolean, endParameter: number, out: ClosestPoints): void {
-  const t = projectionParameter(x, y, sx, sy, ex, ey)
+/** The end at xy[end] of one segment against the whole of the other segment at xy[segment], kept if nearer than the best so far. */
+function considerEnd(xy: Float64Array, end: number, segment: number, endIsOnSecond: boolean, endParameter: number, out: ClosestPoints): void {
+  const x = xy[end]
+  const y = xy[end + 1]
+  const sx = xy[segment]
+  const sy = xy[segment + 1]
+  const ex = xy[segment + 2]
+  const ey = xy[segment + 3]
+  // Parameter of the point of the segment nearest to the end, clamped to the segment.
+  const lengthSquared = (ex - sx) ** 2 + (ey - sy) ** 2
+  const t = lengthSquared === 0 ? 0 : Math.min(1, Math.max(0, ((x - sx) * (ex - sx) + (y - sy) * (ey - sy)) / lengthSquared))
   const footX = sx + t * (ex - sx)
   const footY = sy + t * (ey - sy)
   // A square clearly above the best so far cannot give a shorter hypot (the two differ by a few ulps): skip the root.
@@ -63,11 +80,19 @@ function considerEnd(x: number, y: number, sx: number, sy: number, ex: number, e
   else setClosest(out, distance, x, y, endParameter, footX, footY, t)
 }
 
-/** Parameter of the point of segment S–E nearest to (x, y), clamped to the segment. */
-function projectionParameter(x: number, y: number, sx: number, sy: number, ex: number, ey: number): number {
-  const lengthSquared = (ex - sx) ** 2 + (ey - sy) ** 2
-  if (lengthSquared === 0) return 0
-  return Math.min(1, Math.max(0, ((x - sx) * (ex - sx) + (y - sy) * (ey - sy)) / lengthSquared))
+const scratchEnds = new Float64Array(8)
+
+/** AB at [0, 4) and CD at [4, 8) of one scratch array, for the coordinate forms of the indexed functions. */
+function segmentScratch(ax: number, ay: number, bx: number, by: number, cx: number, cy: number, dx: number, dy: number): Float64Array {
+  scratchEnds[0] = ax
+  scratchEnds[1] = ay
+  scratchEnds[2] = bx
+  scratchEnds[3] = by
+  scratchEnds[4] = cx
+  scratchEnds[5] = cy
+  scratchEnds[6] = dx
+  scratchEnds[7] = dy
+  return scratchEnds
 }
 
 /**
@@ -76,18 +101,22 @@ function projectionParameter(x: number, y: number, sx: number, sy: number, ex: n
  * are then found as distance 0 through their ends).
  */
 export function crossingParameters(ax: number, ay: number, bx: number, by: number, cx: number, cy: number, dx: number, dy: number): [number, number] | null {
-  return findCrossing(ax, ay, bx, by, cx, cy, dx, dy) ? [crossing[0], crossing[1]] : null
+  return crossesAt(segmentScratch(ax, ay, bx, by, cx, cy, dx, dy), 0, scratchEnds, 4) ? [crossing[0], crossing[1]] : null
 }
 
-/** [u, v] of the last crossing `findCrossing` found: one scratch pair, so the hot loops allocate nothing. */
+/** [u, v] of the last crossing `crossesAt` found: one scratch pair, so the hot loops allocate nothing. */
 const crossing = new Float64Array(2)
 
-/** Whether segments AB and CD cross or touch (see `crossingParameters`); if so, writes the parameters into `crossing`. */
-function findCrossing(ax: number, ay: number, bx: number, by: number, cx: number, cy: number, dx: number, dy: number): boolean {
-  const rx = bx - ax
-  const ry = by - ay
-  const sx = dx - cx
-  const sy = dy - cy
+/** Whether the segments at first[a … a + 3] and second[c … c + 3] cross or touch (see `crossingParameters`); if so, writes the parameters into `crossing`. */
+function crossesAt(first: Float64Array, a: number, second: Float64Array, c: number): boolean {
+  const ax = first[a]
+  const ay = first[a + 1]
+  const cx = second[c]
+  const cy = second[c + 1]
+  const rx = first[a + 2] - ax
+  const ry = first[a + 3] - ay
+  const sx = second[c + 2] - cx
+  const sy = second[c + 3] - cy
   const denominator = rx * sy - ry * sx
   if (denominator === 0) return false
   const acx = cx - ax
@@ -100,9 +129,9 @@ function findCrossing(ax: number, ay: number, bx: number, by: number, cx: number
   return true
 }
 
-/** The parameter u on AB where segments AB and CD cross or touch, −1 when they do not (as `crossingParameters`, without allocating). */
-export function crossingOnFirst(ax: number, ay: number, bx: number, by: number, cx: number, cy: number, dx: number, dy: number): number {
-  return findCrossing(ax, ay, bx, by, cx, cy, dx, dy) ? crossing[0] : -1
+/** The parameter on the first segment (at line[0 … 3]) where it crosses or touches the one at xy[c … c + 3], −1 when they do not. */
+export function crossingOnFirstAt(line: Float64Array, xy: Float64Array, c: number): number {
+  return crossesAt(line, 0, xy, c) ? crossing[0] : -1
 }
 
 /**

@@ -16,12 +16,13 @@ export function checkSelfIntersections(geometry: CheckGeometry, params: Analysis
     const contour = segments.contourOf[nearCuts.first[slot]]
     if (nearCuts.sameContour[slot] !== 1 || nearCuts.kind[slot] !== touch || reported.has(contour)) continue
     reported.add(contour)
+    const { px, py } = nearCuts.closest(slot)
     findings.push({
       code: 'self-intersection',
       severity: 'warning',
       message: 'This cut crosses or touches itself. The machine follows it as drawn, but which piece drops out is unclear; redraw it as one outline that does not cross.',
-      x: nearCuts.ends[4 * slot],
-      y: nearCuts.ends[4 * slot + 1],
+      x: px,
+      y: py,
       contours: [contour],
     })
   }
