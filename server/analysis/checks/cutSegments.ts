@@ -3,6 +3,7 @@ import { findContainers, nestingDepths } from '../containment'
 import { OPERATION_CODES, type PolylineSet } from '../polylines'
 import type { CheckGeometry } from './index'
 import { oncePerGeometry } from './memo'
+import type { ClosestPoints } from './segmentGeometry'
 
 /**
  * The straight segments of all cut contours, with what the checks need to
@@ -176,9 +177,14 @@ export class CutSegments {
     return this.contours.closed[contour] === 1 && lastOffset > 0 ? segment - lastOffset : -1
   }
 
-  /** Distance along the contour between parameter u of segment a and v of segment b (same contour; the shorter way round a closed one). */
-  alongBetweenMm(a: number, u: number, b: number, v: number): number {
-    const direct = Math.abs(this.alongAt(a, u) - this.alongAt(b, v))
+  /**
+   * Distance along the contour between a pair's closest points: parameter u
+   * of segment a and v of segment b (same contour; the shorter way round a
+   * closed one). The pair's `ClosestPoints` is passed whole, so no
+   * coordinates are boxed in the hot loop.
+   */
+  alongBetweenMm(a: number, b: number, closest: ClosestPoints): number {
+    const direct = Math.abs(this.alongAt(a, closest.u) - this.alongAt(b, closest.v))
     const contour = this.contourOf[a]
     if (this.contours.closed[contour] !== 1) return direct
     const perimeter = this.alongMm[this.contours.start[contour + 1] - 1]
@@ -206,18 +212,21 @@ export class CutSegments {
   }
 
   /**
-   * Whether the offset (dx, dy) from the point at parameter t of the segment
-   * points into material (or along the cut, not away from it). At a corner of
-   * a closed cut both segments meeting there count: material on a convex
-   * corner lies on the material side of both, on a reflex corner of either.
+   * Whether the line between a pair's closest points, from the point on this
+   * segment (P at parameter u when it is the pair's first, else Q at v)
+   * towards the other, points into material (or along the cut, not away from
+   * it). At a corner of a closed cut both segments meeting there count:
+   * material on a convex corner lies on the material side of both, on a
+   * reflex corner of either.
    */
-  pointsIntoMaterial(segment: number, t: number, dx: number, dy: number): boolean {
+  pointsIntoMaterial(segment: number, closest: ClosestPoints, isFirst: boolean): boolean {
     const side = this.materialSide[this.contourOf[segment]]
     if (side === 0) return true
-    const onThisSide = this.materialSideOf(segment, side, dx, dy)
+    const onThisSide = this.materialSideOf(segment, side, closest, isFirst)
+    const t = isFirst ? closest.u : closest.v
     const neighbour = t === 0 ? this.previous(segment) : t === 1 ? this.next(segment) : -1
     if (neighbour < 0) return onThisSide
-    const onNeighbourSide = this.materialSideOf(neighbour, side, dx, dy)
+    const onNeighbourSide = this.materialSideOf(neighbour, side, closest, isFirst)
     const incoming = 2 * this.firstPoint[t === 0 ? neighbour : segment]
     const outgoing = 2 * this.firstPoint[t === 0 ? segment : neighbour]
     const { xy } = this.contours
@@ -225,7 +234,9 @@ export class CutSegments {
     return side * turn > 0 ? onThisSide && onNeighbourSide : onThisSide || onNeighbourSide
   }
 
-  private materialSideOf(segment: number, side: number, dx: number, dy: number): boolean {
+  private materialSideOf(segment: number, side: number, closest: ClosestPoints, fromP: boolean): boolean {
+    const dx = fromP ? closest.qx - closest.px : closest.px - closest.qx
+    const dy = fromP ? closest.qy - closest.py : closest.py - closest.qy
     const point = 2 * this.firstPoint[segment]
     const { xy } = this.contours
     const alongX = xy[point + 2] - xy[point]

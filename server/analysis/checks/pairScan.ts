@@ -163,16 +163,16 @@ function scanPairs(geometry: CheckGeometry, params: AnalysisParams): PairScan {
       if (largerGap > touchMm && segments.farthestAlongMm(first, second) <= 2 * reachMm) return
     }
     closestPointsOf(segments, first, second, closest)
-    const { distanceMm, px, py, qx, qy } = closest
+    const { distanceMm } = closest
     if (distanceMm >= reachMm) return
-    const alongMm = sameContour ? segments.alongBetweenMm(first, closest.u, second, closest.v) : Infinity
+    const alongMm = sameContour ? segments.alongBetweenMm(first, second, closest) : Infinity
     let kind: number
     if (distanceMm <= touchMm) {
       if (alongMm <= 2 * touchMm) return
       kind = NEAR_KIND.touch
     } else {
       if (alongMm <= distanceMm + 2 * reachMm) return
-      kind = segments.pointsIntoMaterial(first, closest.u, qx - px, qy - py) && segments.pointsIntoMaterial(second, closest.v, px - qx, py - qy) ? NEAR_KIND.web : NEAR_KIND.scrap
+      kind = segments.pointsIntoMaterial(first, closest, true) && segments.pointsIntoMaterial(second, closest, false) ? NEAR_KIND.web : NEAR_KIND.scrap
     }
     nearCuts.push(kind, first, second, sameContour, distanceMm)
   }
