@@ -121,6 +121,8 @@ export function contourPairKey(contours: PolylineSet, first: number, second: num
 
 // Segments more than about 10° apart cross rather than run along each other.
 const PARALLEL_SINE = Math.sin((10 * Math.PI) / 180)
+// Its square with room for rounding: a pair above it is surely above the sine itself.
+const PARALLEL_SINE_SQUARED_CLEARLY = PARALLEL_SINE ** 2 * (1 + 1e-9)
 // A shared stretch shorter than this many tolerances is a touch at a corner, not a repeat.
 const SHORTEST_REPEAT_IN_TOLERANCES = 2
 
@@ -229,10 +231,13 @@ function addRepeat(xy: Float64Array, firstPoint: Uint32Array, earlier: number, l
   const cy = xy[q + 1]
   const dx = xy[q + 2]
   const dy = xy[q + 3]
+  const cross = (bx - ax) * (dy - cy) - (by - ay) * (dx - cx)
+  // Most pairs that get here are neighbours meeting at an angle: clearly not parallel by squares, before the two roots.
+  if (cross * cross > PARALLEL_SINE_SQUARED_CLEARLY * ((bx - ax) ** 2 + (by - ay) ** 2) * ((dx - cx) ** 2 + (dy - cy) ** 2)) return false
   const earlierLength = Math.hypot(bx - ax, by - ay)
   const laterLength = Math.hypot(dx - cx, dy - cy)
   if (earlierLength === 0 || laterLength === 0) return false
-  const sine = Math.abs((bx - ax) * (dy - cy) - (by - ay) * (dx - cx)) / (earlierLength * laterLength)
+  const sine = Math.abs(cross) / (earlierLength * laterLength)
   if (sine > PARALLEL_SINE) return false
   const stretch = stretchWithin(ax, ay, bx, by, cx, cy, dx, dy, toleranceMm)
   if (stretch === null || (stretch[1] - stretch[0]) * laterLength < SHORTEST_REPEAT_IN_TOLERANCES * toleranceMm) return false
