@@ -101,7 +101,8 @@ export async function startCheckout(db: Knex, bookingId: number): Promise<{ url:
         metadata: { bookingId: String(booking.id), purpose: 'booking' },
         client_reference_id: `booking-${booking.id}`,
         customer_email: member.email,
-        expires_at: Math.floor(Date.now() / 1000) + Math.max(30, settings.paymentHoldMinutes) * 60,
+        // Stripe takes 30 min to 24 h; a minute over the hold keeps the session open until the hold is released.
+        expires_at: Math.floor(Date.now() / 1000) + (Math.max(30, settings.paymentHoldMinutes) + 1) * 60,
         success_url: `${appUrl}/bookings?paid=${booking.id}&session={CHECKOUT_SESSION_ID}`,
         cancel_url: `${appUrl}/bookings?unpaid=${booking.id}`,
       },

@@ -1,6 +1,14 @@
 import Database from 'better-sqlite3'
 import { describe, expect, inject, it } from 'vitest'
-import { client, DEMO_PASSWORD, linkToken, signedIn, uniqueEmail, waitForMail } from './helpers'
+import { client, linkToken, uniqueEmail, waitForMail } from './helpers'
+
+/** A new account, signed up and verified through its e-mail link. */
+async function verifiedAccount(prefix: string, password: string): Promise<string> {
+  const email = uniqueEmail(prefix)
+  await client().post('/api/auth/sign-up', { name: prefix, email, password })
+  expect((await client().post('/api/auth/verify', { token: linkToken(await waitForMail(email, /Confirm your e-mail/), '/verify') })).status).toBe(200)
+  return email
+}
 
 describe('sign-up, verification, sign-in, sign-out', () => {
   it('sends a verification mail that really arrives, and its link verifies the account', async () => {
@@ -52,12 +60,13 @@ describe('credentials and rate limits', () => {
   })
 
   it('answers the 11th quick attempt for one e-mail with 429 and Retry-After', async () => {
-    const email = 'ines@example.test'
+    // An account of its own: the lock-out must not spill into other tests' sign-ins.
+    const email = await verifiedAccount('locked-out', 'kerfbook-demo-2')
     const statuses: number[] = []
     for (let i = 0; i < 11; i++) statuses.push((await client().post('/api/auth/sign-in', { email, password: 'wrong-password' })).status)
     expect(statuses.slice(0, 10).every((s) => s === 401)).toBe(true)
     expect(statuses[10]).toBe(429)
-    const blocked = await client().post('/api/auth/sign-in', { email, password: DEMO_PASSWORD })
+    const blocked = await client().post('/api/auth/sign-in', { email, password: 'kerfbook-demo-2' })
     expect(blocked.status).toBe(429)
     expect(Number(blocked.headers.get('retry-after'))).toBeGreaterThan(0)
   })
@@ -73,7 +82,7 @@ describe('credentials and rate limits', () => {
 
 describe('password reset', () => {
   it('sends a one-time link; it works once and the new password signs in', async () => {
-    const email = 'reuben@example.test'
+    const email = await verifiedAccount('forgetful', 'first-password-1')
     const asked = await client().post('/api/auth/forgot-password', { email })
     expect(asked.status).toBe(200)
     const token = linkToken(await waitForMail(email, /Reset your password/), '/reset-password')
@@ -81,19 +90,19 @@ describe('password reset', () => {
     expect((await client().post('/api/auth/reset-password', { token, password: 'a-brand-new-secret' })).status).toBe(200)
     expect((await client().post('/api/auth/reset-password', { token, password: 'a-second-new-secret' })).status).toBe(400)
     expect((await client().post('/api/auth/sign-in', { email, password: 'a-brand-new-secret' })).status).toBe(200)
-    expect((await client().post('/api/auth/sign-in', { email, password: DEMO_PASSWORD })).status).toBe(401)
+    expect((await client().post('/api/auth/sign-in', { email, password: 'first-password-1' })).status).toBe(401)
   })
 
   it('answers the same for an unknown address and sends nothing', async () => {
     const email = uniqueEmail('ghost')
-    const known = await client().post('/api/auth/forgot-password', { email: 'priya@example.test' })
+    const known = await client().post('/api/auth/forgot-password', { email: await verifiedAccount('known', 'first-password-1') })
     const unknown = await client().post('/api/auth/forgot-password', { email })
     expect(unknown.status).toBe(known.status)
     await expect(waitForMail(email, /Reset/, 500)).rejects.toThrow()
   })
 
   it('refuses an expired link', async () => {
-    const email = 'priya@example.test'
+    const email = await verifiedAccount('late-reader', 'first-password-1')
     await client().post('/api/auth/forgot-password', { email })
     const mail = await waitForMail(email, /Reset your password/)
     const token = linkToken(mail, '/reset-password')
