@@ -5,7 +5,6 @@
 import { spawn } from 'node:child_process'
 import { randomBytes } from 'node:crypto'
 import { cpSync, existsSync, mkdtempSync, rmSync } from 'node:fs'
-import { createServer } from 'node:net'
 import { cpus, tmpdir, totalmem } from 'node:os'
 import { join } from 'node:path'
 import autocannon from 'autocannon'
@@ -13,22 +12,12 @@ import { migrateLatest, openDatabase, seedDemoIfEmpty } from '../db/index'
 import { startSmtpSink } from './lib/smtp-sink'
 import { startStripeFake } from './lib/stripe-fake/index'
 import { plainPart, svgDocument } from '../tests/fixtures/svg'
+import { freePort } from './lib/free-port'
 
 const CONNECTIONS = 50
 const DURATION_S = 10
 const STORM_JOBS = 100
 const PASSWORD = 'kerfbook-demo'
-
-function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const server = createServer()
-    server.once('error', reject)
-    server.listen(0, '127.0.0.1', () => {
-      const { port } = server.address() as { port: number }
-      server.close(() => resolve(port))
-    })
-  })
-}
 
 /** A sheet of `side` × `side` rounded parts with two holes each: tens of thousands of contours. */
 function largePattern(side: number): string {

@@ -4,13 +4,13 @@
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process'
 import { randomBytes } from 'node:crypto'
 import { mkdtempSync, rmSync } from 'node:fs'
-import { createServer } from 'node:net'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import type { TestProject } from 'vitest/node'
 import { migrateLatest, openDatabase, seedDemoIfEmpty } from '../../db/index'
 import { startSmtpSink, type SmtpSink } from '../../scripts/lib/smtp-sink'
 import { startStripeFake } from '../../scripts/lib/stripe-fake/index'
+import { freePort } from '../../scripts/lib/free-port'
 
 declare module 'vitest' {
   export interface ProvidedContext {
@@ -19,22 +19,9 @@ declare module 'vitest' {
     databasePath: string
     /** The app server's process id, for tests that read its memory from /proc. */
     serverPid: number
-    /** The app server's process id, for tests that read its memory from /proc. */
-    serverPid: number
     stripeFakeUrl: string
     stripeWebhookSecret: string
   }
-}
-
-function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const server = createServer()
-    server.once('error', reject)
-    server.listen(0, '127.0.0.1', () => {
-      const { port } = server.address() as { port: number }
-      server.close(() => resolve(port))
-    })
-  })
 }
 
 async function waitForServer(url: string, child: ChildProcess, timeoutMs = 60_000): Promise<void> {
@@ -95,7 +82,6 @@ export default async function setup(project: TestProject) {
   project.provide('baseUrl', baseUrl)
   project.provide('outboxUrl', `http://127.0.0.1:${sink.httpPort}`)
   project.provide('databasePath', databasePath)
-  project.provide('serverPid', server.pid!)
   project.provide('serverPid', server.pid!)
   project.provide('stripeFakeUrl', stripeFake.url)
   project.provide('stripeWebhookSecret', webhookSecret)
