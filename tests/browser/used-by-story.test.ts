@@ -3,11 +3,12 @@
 // submits; staff approve; the member books and pays on the card page; staff cut, charge and shelve
 // the parts; the member collects them with the pickup code. The member and the staff each have their
 // own browser, and neither may log a console error or a failed request the story does not provoke.
-import type { Page } from 'playwright-core'
+import type { Locator, Page } from 'playwright-core'
 import { describe, expect, inject } from 'vitest'
 import { linkToken, uniqueEmail, waitForMail } from '../api/helpers'
 import { CARD_PAYS } from '../api/payment-helpers'
 import { foldPanel, NARROW_PINCH_MM, SOUND_PINCH_MM } from '../fixtures/fold-panel'
+import { formatMoney } from '../../utils/format'
 import { BrowserSession, browserTest, checkAccessibility, expectVisibleFocus, screenshot, signInThroughForm, tabThrough } from './browser'
 
 const LASER = 'Heron — CO₂ laser'
@@ -42,8 +43,8 @@ async function getJson<T>(page: Page, path: string): Promise<T> {
   return (await response.json()) as T
 }
 
-function viewBoxOf(preview: ReturnType<Page['getByRole']>) {
-  return preview.getAttribute('viewBox').then((box) => box!.split(' ').map(Number) as [number, number, number, number])
+async function viewBoxOf(preview: Locator): Promise<[number, number, number, number]> {
+  return (await preview.getAttribute('viewBox'))!.split(' ').map(Number) as [number, number, number, number]
 }
 
 interface CutterPrices {
@@ -214,8 +215,8 @@ describe('the used-by story in the browser', () => {
 
     const payment = (await getJson<PaymentView[]>(member.page, '/api/me/payments')).find((p) => p.jobTitle === JOB_TITLE)!
     expect(payment.state).toBe('authorised')
-    await waitForMail(email, /Cutter booked/)
-    await waitForMail(email, /Payment received/)
+    expect((await waitForMail(email, /Cutter booked/)).text).toContain(`${LASER} is yours on`)
+    expect((await waitForMail(email, /Payment received/)).text).toContain(formatMoney(payment.authorisedMinor, 'EUR'))
     const calendarFile = await member.page.request.get((await bookingItem.getByRole('link', { name: 'Add to my calendar (.ics)' }).getAttribute('href'))!)
     expect(calendarFile.headers()['content-type']).toContain('text/calendar')
     const ics = await calendarFile.text()
@@ -251,6 +252,10 @@ describe('the used-by story in the browser', () => {
       .poll(async () => (await getJson<PaymentView[]>(member.page, '/api/me/payments')).find((p) => p.bookingId === payment.bookingId), { timeout: 10_000 })
       .toMatchObject({ state: 'captured', capturedMinor: expectedCharge })
     expect(expectedCharge).toBeLessThanOrEqual(payment.authorisedMinor)
+    await member.open('/payments')
+    const paymentCard = member.page.locator('section').filter({ hasText: JOB_TITLE })
+    await paymentCard.getByText('Paid', { exact: true }).waitFor()
+    expect(await paymentCard.textContent()).toContain(`charged ${formatMoney(expectedCharge, 'EUR')}`)
 
     await entry.getByLabel('Shelf or bin').fill(SHELF)
     await entry.getByRole('button', { name: 'Ready for pickup' }).click()
