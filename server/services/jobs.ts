@@ -130,31 +130,41 @@ function summaryOf(row: RevisionRow, analysis: AnalysisResult): RevisionSummary 
 
 /** The job's current files, each with its newest revision's analysis and the list of older revisions. */
 export async function currentFiles(db: Knex, jobId: number): Promise<JobFileView[]> {
-  const files = await db('job_files').where({ job_id: jobId }).whereNull('removed_at').orderBy('id')
+  return (await filesOfJobs(db, [jobId])).get(jobId) ?? []
+}
+
+/** Current files of many jobs in two queries (a list of jobs would otherwise ask twice per job). */
+export async function filesOfJobs(db: Knex, jobIds: number[]): Promise<Map<number, JobFileView[]>> {
+  const files = await db('job_files').whereIn('job_id', jobIds).whereNull('removed_at').orderBy('id')
   const revisions = await db<RevisionRow>('file_revisions')
     .whereIn('job_file_id', files.map((f) => f.id))
     .orderBy(['job_file_id', { column: 'revision', order: 'desc' }])
     .select('id', 'job_file_id', 'revision', 'sha256', 'original_name', 'size_bytes', 'analysis_json', 'worst_severity', 'created_at')
-  return files.map((file) => {
-    const own = revisions.filter((r) => r.job_file_id === file.id)
-    const [latest, previous] = own.map((row) => ({ row, analysis: parseAnalysis(row) }))
-    // Rows from before the preview column still carry their contours inside the analysis.
-    const { contours: _contours, ...analysis } = latest!.analysis
-    return {
-      id: file.id,
-      name: file.name,
-      quantity: file.quantity,
-      current: { ...summaryOf(latest!.row, latest!.analysis), analysis },
-      revisions: own.map((row) => summaryOf(row, parseAnalysis(row))),
-      change: previous
-        ? {
-            cutLengthMm: latest!.analysis.cut.lengthMm - previous.analysis.cut.lengthMm,
-            pierces: latest!.analysis.cut.pierces - previous.analysis.cut.pierces,
-            findings: latest!.analysis.findings.length - previous.analysis.findings.length,
-          }
-        : null,
-    }
-  })
+  const revisionsByFile = new Map<number, RevisionRow[]>()
+  for (const row of revisions) revisionsByFile.set(row.job_file_id, [...(revisionsByFile.get(row.job_file_id) ?? []), row])
+  const byJob = new Map<number, JobFileView[]>(jobIds.map((id) => [id, []]))
+  for (const file of files) byJob.get(file.job_id)!.push(fileView(file, revisionsByFile.get(file.id) ?? []))
+  return byJob
+}
+
+function fileView(file: { id: number; name: string; quantity: number }, own: RevisionRow[]): JobFileView {
+  const [latest, previous] = own.map((row) => ({ row, analysis: parseAnalysis(row) }))
+  // Rows from before the preview column still carry their contours inside the analysis.
+  const { contours: _contours, ...analysis } = latest!.analysis
+  return {
+    id: file.id,
+    name: file.name,
+    quantity: file.quantity,
+    current: { ...summaryOf(latest!.row, latest!.analysis), analysis },
+    revisions: own.map((row) => summaryOf(row, parseAnalysis(row))),
+    change: previous
+      ? {
+          cutLengthMm: latest!.analysis.cut.lengthMm - previous.analysis.cut.lengthMm,
+          pierces: latest!.analysis.cut.pierces - previous.analysis.cut.pierces,
+          findings: latest!.analysis.findings.length - previous.analysis.findings.length,
+        }
+      : null,
+  }
 }
 
 export async function revisionAnalysis(db: Knex, viewer: SessionUser, jobId: number, fileId: number, revision: number): Promise<AnalysisResult & { revision: number; originalName: string }> {
@@ -181,25 +191,31 @@ export function countFindings(files: Pick<JobFileView, 'current'>[]): { errors: 
   }
 }
 
-/** `corrections` lets a caller estimating many jobs look each cutter's correction up once. */
-export async function jobEstimate(db: Knex, job: JobRow, files: JobFileView[], corrections = new Map<string, ReturnType<typeof timeCorrectionFor>>()): Promise<JobEstimate> {
-  const cutter = await getCutter(db, job.cutter_id)
-  const material = await getMaterial(db, job.material_id)
+/** Catalog look-ups an estimate needs, each made once however many jobs are estimated with it. */
+export function estimateLookups(db: Knex) {
+  const memo = new Map<string, Promise<unknown>>()
+  const once = <T>(key: string, load: () => Promise<T>): Promise<T> => {
+    if (!memo.has(key)) memo.set(key, load())
+    return memo.get(key) as Promise<T>
+  }
+  return {
+    cutter: (id: number) => once(`cutter:${id}`, () => getCutter(db, id)),
+    material: (id: number) => once(`material:${id}`, () => getMaterial(db, id)),
+    setting: (cutterId: number, materialId: number) => once(`setting:${cutterId}:${materialId}`, () => findProcessSetting(db, cutterId, materialId)),
+    correction: (cutterId: number, family: string) => once(`correction:${cutterId}:${family}`, () => timeCorrectionFor(db, cutterId, family)),
+  }
+}
+
+export async function jobEstimate(db: Knex, job: JobRow, files: JobFileView[], lookups = estimateLookups(db)): Promise<JobEstimate> {
+  const [cutter, material, setting] = await Promise.all([lookups.cutter(job.cutter_id), lookups.material(job.material_id), lookups.setting(job.cutter_id, job.material_id)])
   const sheet = material.sheets.find((s) => s.id === job.sheet_id) ?? material.sheets[0]!
-  const setting = await findProcessSetting(db, job.cutter_id, job.material_id)
   return estimateJob(
     files.map((f) => ({ fileId: f.id, quantity: f.quantity, analysis: f.current.analysis as AnalysisResult })),
     cutter,
     sheet,
     setting?.kerfMm ?? 0,
-    await correctionOnce(db, corrections, job.cutter_id, material.family),
+    await lookups.correction(job.cutter_id, material.family),
   )
-}
-
-function correctionOnce(db: Knex, corrections: Map<string, ReturnType<typeof timeCorrectionFor>>, cutterId: number, family: string) {
-  const key = `${cutterId}:${family}`
-  if (!corrections.has(key)) corrections.set(key, timeCorrectionFor(db, cutterId, family))
-  return corrections.get(key)!
 }
 
 export async function jobDetail(db: Knex, viewer: SessionUser, jobId: number) {
@@ -251,10 +267,11 @@ export async function listJobs(db: Knex, viewer: SessionUser, filter: { state?: 
   query.orderByRaw('coalesce(j.submitted_at, j.created_at) asc')
   const rows = await query
   const summaries = []
-  const corrections = new Map<string, ReturnType<typeof timeCorrectionFor>>()
+  const lookups = estimateLookups(db)
+  const filesByJob = await filesOfJobs(db, rows.map((r) => r.id))
   for (const row of rows) {
-    const files = await currentFiles(db, row.id)
-    const estimate = await jobEstimate(db, row as JobRow, files, corrections)
+    const files = filesByJob.get(row.id)!
+    const estimate = await jobEstimate(db, row as JobRow, files, lookups)
     const counts = countFindings(files)
     summaries.push({
       id: row.id,
