@@ -225,9 +225,14 @@ describe('the used-by story in the browser', () => {
 
     // 5 · The cutting day: start, finish with fewer minutes than estimated, the capture, the shelf.
     const { timeZone } = await getJson<{ timeZone: string }>(staff.page, '/api/settings')
+    const job = await getJson<JobEstimateView>(staff.page, `/api/jobs/${jobId}`)
+    const cutter = await getJson<CutterPrices>(staff.page, `/api/catalog/cutters/${job.cutter.id}`)
     const bookedDay = new Intl.DateTimeFormat('en-CA', { timeZone }).format(new Date(payment.start))
     await staff.open('/staff/run-sheet')
+    // Each choice reloads the sheet, and a second choice made before the first has loaded cancels its request.
+    const laserSheetLoaded = staff.page.waitForResponse((response) => response.url().includes('/api/run-sheet?') && response.url().includes(`cutter=${job.cutter.id}&`))
     await staff.page.getByLabel('Cutter').selectOption({ label: LASER })
+    await laserSheetLoaded
     await staff.page.getByLabel('Day').fill(bookedDay)
     const entry = staff.page.locator('section').filter({ has: staff.page.getByRole('heading', { name: JOB_TITLE }) })
     await entry.getByRole('button', { name: 'Start cutting' }).waitFor()
@@ -235,8 +240,6 @@ describe('the used-by story in the browser', () => {
     await screenshot(staff.page, 'story-run-sheet')
     await entry.getByRole('button', { name: 'Start cutting' }).click()
 
-    const job = await getJson<JobEstimateView>(staff.page, `/api/jobs/${jobId}`)
-    const cutter = await getJson<CutterPrices>(staff.page, `/api/catalog/cutters/${job.cutter.id}`)
     // The estimate's machine time includes the setup, which is charged apart from the minutes cut.
     const estimatedCutMinutes = job.estimate.machineS / 60 - cutter.setupMinutes
     // A little under the estimate, so the hold on the card covers the charge.
