@@ -107,6 +107,14 @@ export const demoColours = [
   { label: 'Guide (not cut)', hex: '#a0a0a0', tolerance: 16, operation: 'ignore' },
 ]
 
+// The workshop's DXF layer names, checked before colours.
+export const demoDxfLayers = [
+  { layer: 'CUT', operation: 'cut' },
+  { layer: 'SCORE', operation: 'score' },
+  { layer: 'ENGRAVE', operation: 'engrave' },
+  { layer: 'GUIDES', operation: 'ignore' },
+]
+
 // [cutter index, ISO weekday, opens, closes] in workshop time.
 const demoHours: [number, number, string, string][] = [
   [0, 2, '10:00', '20:00'],
@@ -153,6 +161,7 @@ export async function seedDemoCatalog(trx: Knex): Promise<void> {
     })),
   )
   await trx('operation_colours').insert(demoColours)
+  await trx('dxf_layer_operations').insert(demoDxfLayers)
   await trx('opening_hours').insert(demoHours.map(([cutter, weekday, opens, closes]) => ({ cutter_id: cutterIds[cutter], weekday, opens_at: opens, closes_at: closes })))
   await trx('closures').insert([
     { cutter_id: cutterIds[1], starts_at: daysFromNow(16, 8), ends_at: daysFromNow(16, 17), reason: 'Torch service and new consumables' },

@@ -2,6 +2,7 @@ import type { Knex } from 'knex'
 import { DEFAULT_ANALYSIS_PARAMS, withDefaults, type AnalysisParams } from '../analysis/index'
 import { InvalidInput } from '../utils/errors'
 import { listColours } from './catalog/colours'
+import { listDxfLayers } from './catalog/dxf-layers'
 import { getCutter } from './catalog/cutters'
 import { assertMaterialAllowedOn } from './catalog/materials'
 import { findProcessSetting } from './catalog/process-settings'
@@ -26,7 +27,7 @@ export async function analysisParamsFor(db: Knex, choice: ProfileChoice): Promis
   }
   const sheet = choice.sheetId ? material.sheets.find((s) => s.id === choice.sheetId) : material.sheets[0]
   if (!sheet) throw new InvalidInput('That sheet size is not stocked for this material.', { fields: { sheetId: 'Not a stock size of this material.' } })
-  const colours = await listColours(db)
+  const [colours, layers] = await Promise.all([listColours(db), listDxfLayers(db)])
   return withDefaults({
     // The process speed is capped by what the machine can do.
     cutSpeedMmPerMin: Math.min(setting.cutSpeedMmPerMin, cutter.maxSpeedMmPerMin),
@@ -52,6 +53,7 @@ export async function analysisParamsFor(db: Knex, choice: ProfileChoice): Promis
     currency: cutter.currency,
     billingIncrementMinutes: cutter.billingIncrementMinutes,
     materialPriceMinorPerM2: sheet.priceMinor / ((sheet.widthMm * sheet.heightMm) / 1e6),
+    dxfLayerMapping: layers.map((l) => ({ layer: l.layer, operation: l.operation })),
     colourMapping: colours.length
       ? colours.map((c) => ({ hex: c.hex, toleranceRgbDistance: c.tolerance, operation: c.operation }))
       : DEFAULT_ANALYSIS_PARAMS.colourMapping,

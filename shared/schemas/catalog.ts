@@ -136,3 +136,11 @@ export const signOffListQuerySchema = z.object({
   cutterId: z.coerce.number().int().positive().optional(),
   includeRevoked: z.enum(['true', 'false']).optional(),
 })
+
+export const dxfLayerSchema = z.object({
+  // DXF layer names are matched without regard to case.
+  layer: requiredText('Layer name', 255),
+  operation: z.enum(OPERATIONS, { error: `Operation must be one of ${OPERATIONS.join(', ')}.` }),
+})
+export type DxfLayerInput = z.output<typeof dxfLayerSchema>
+export const dxfLayerPatchSchema = dxfLayerSchema.partial()

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { dxfDocument, circle, lwPolyline } from '../analysis/dxf/dxfText'
+import { dxfDocument, circle, lwPolyline, type Group } from '../analysis/dxf/dxfText'
 import { signedIn } from './helpers'
 
 function dxfForm(text: string, filename = 'part.dxf') {
@@ -31,5 +31,27 @@ describe('POST /api/analysis with a DXF file', () => {
     const binary = new FormData()
     binary.set('file', new Blob([new Uint8Array([0x41, 0x75, 0x74, 0x6f, 0xff, 0xfe, 0x00, 0x1a])]), 'part.dxf')
     expect((await member.form('/api/analysis', binary)).status).toBe(415)
+  })
+
+  it('takes the operation from the workshop’s DXF layer map', async () => {
+    const staff = await signedIn('staff@example.test')
+    const mapped = await staff.post('/api/catalog/dxf-layers', { layer: 'Fold-Lines', operation: 'score' })
+    expect(mapped.status).toBe(201)
+    expect((await staff.post('/api/catalog/dxf-layers', { layer: 'FOLD-LINES', operation: 'cut' })).status).toBe(409)
+    expect((await (await signedIn('member@example.test')).post('/api/catalog/dxf-layers', { layer: 'X', operation: 'cut' })).status).toBe(403)
+    const overview = (await staff.get('/api/catalog/overview')).body as any[]
+    const heron = overview.find((c) => c.name.startsWith('Heron'))
+    const ids = { cutterId: heron.cutterId, materialId: heron.materials.find((m: any) => m.name === 'Birch plywood').materialId }
+    // A 60 mm fold line on the mapped layer (matched without regard to case) beside a cut outline.
+    const foldLine: Group[] = [[0, 'LINE'], [8, 'FOLD-LINES'], [10, 20], [20, 50], [30, 0], [11, 80], [21, 50], [31, 0]]
+    const text = dxfDocument({ insUnits: 4, layers: [{ name: 'FOLD-LINES' }], entities: [...lwPolyline([[10, 10], [90, 10], [90, 90], [10, 90]], true), ...foldLine] })
+    const form = dxfForm(text)
+    form.set('cutterId', String(ids.cutterId))
+    form.set('materialId', String(ids.materialId))
+    const response = await staff.form('/api/analysis', form)
+    expect(response.status).toBe(200)
+    expect(response.body.score.lengthMm).toBeCloseTo(60, 6)
+    expect(response.body.cut.lengthMm).toBeCloseTo(320, 6)
+    expect((await staff.delete(`/api/catalog/dxf-layers/${mapped.body.id}`)).status).toBe(204)
   })
 })

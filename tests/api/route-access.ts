@@ -170,6 +170,10 @@ export async function callerClient(caller: Caller): Promise<Client> {
 const range = (w: World) =>
   `cutter=${w.bench.cutterId}&from=${encodeURIComponent(w.bench.at(19, '00:00'))}&to=${encodeURIComponent(w.bench.at(25, '00:00'))}`
 const job = (w: World) => ({ id: w.jobId })
+const freshDxfLayer = async () => {
+  const staff = await signedIn(CALLER_EMAILS.staff)
+  return { id: created(await staff.post('/api/catalog/dxf-layers', { layer: `matrix-${randomBytes(4).toString('hex')}`, operation: 'ignore' }), 'a DXF layer mapping') }
+}
 const jobFile = (w: World) => ({ id: w.jobId, fileId: w.fileId })
 const freshJob = async (w: World) => ({ id: await w.freshJob() })
 const booking = (w: World) => ({ id: w.bookingId })
@@ -262,6 +266,10 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
     pathIsCredential: true,
     params: async (w) => ({ token: new URL((await w.bench.member.post('/api/me/calendar-feed')).body.url).pathname.split('/').pop()! }),
   },
+  'GET /api/catalog/dxf-layers': { policy: signedInOnly('ok') },
+  'POST /api/catalog/dxf-layers': { policy: staffOnly() },
+  'PATCH /api/catalog/dxf-layers/:id': { policy: staffOnly(), params: freshDxfLayer },
+  'DELETE /api/catalog/dxf-layers/:id': { policy: staffOnly(), params: freshDxfLayer },
   // Money, the cutting day and pickups.
   'GET /api/admin/payments': { policy: adminOnly('ok') },
   'GET /api/me/payments': { policy: signedInOnly('ok') },
