@@ -23,6 +23,7 @@ function workerFile(): string {
 function analysisPool(): Piscina {
   pool ??= new Piscina({
     filename: workerFile(),
+    minThreads: 0,
     maxThreads: Math.max(1, availableParallelism() - 1),
     // Idle workers leave soon, handing a big analysis's memory back to the system.
     idleTimeout: 5_000,
