@@ -1,3 +1,5 @@
+import type { ZodType } from 'zod'
+
 // The create / edit / remove cycle every catalog page shares: one draft at a time, server errors per field,
 // a confirmation before removal, and a refresh of the list after each change.
 export function useCatalogEditor<Row extends { id: number }>(options: {
@@ -6,6 +8,9 @@ export function useCatalogEditor<Row extends { id: number }>(options: {
   blank: () => Record<string, any>
   /** What of a row goes into the edit form. */
   toDraft?: (row: Row) => Record<string, any>
+  /** The route's zod schemas (shared/schemas), checked before anything is sent. */
+  createSchema?: ZodType
+  updateSchema?: ZodType
 }) {
   const list = useFetch<Row[]>(options.listUrl, { default: () => [] as Row[] })
   const draft = ref<Record<string, any> | null>(null)
@@ -34,8 +39,10 @@ export function useCatalogEditor<Row extends { id: number }>(options: {
   }
 
   async function save(body: Record<string, any> = draft.value ?? {}) {
-    saving.value = true
     errors.clear()
+    const schema = editingId.value === null ? options.createSchema : options.updateSchema
+    if (schema && !errors.check(schema, body)) return
+    saving.value = true
     try {
       if (editingId.value === null) await $fetch(options.itemUrl, { method: 'POST', body })
       else await $fetch(`${options.itemUrl}/${editingId.value}`, { method: 'PATCH', body })

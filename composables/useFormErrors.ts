@@ -1,4 +1,6 @@
 import type { FetchError } from 'ofetch'
+import type { ZodType } from 'zod'
+import { fieldMessages, summariseFields } from '#shared/schemas/field-messages'
 
 interface ApiErrorData {
   message?: string
@@ -21,5 +23,14 @@ export function useFormErrors() {
     fields.value = data?.data?.fields ?? {}
   }
 
-  return { message, fields, clear, take }
+  /** Checks `value` with the route's own zod schema before sending, so the form says what the server would. */
+  function check(schema: ZodType, value: unknown): boolean {
+    const result = schema.safeParse(value)
+    if (result.success) return true
+    fields.value = fieldMessages(result.error)
+    message.value = summariseFields(fields.value)
+    return false
+  }
+
+  return { message, fields, clear, take, check }
 }

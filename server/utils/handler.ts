@@ -1,18 +1,12 @@
 import { createError, defineEventHandler, getQuery, getRouterParams, readBody, setResponseHeader, type EventHandler, type EventHandlerRequest, type H3Event } from 'h3'
 import { ZodError, type ZodType } from 'zod'
+import { fieldMessages, summariseFields } from '#shared/schemas/field-messages'
 import { DomainError, InvalidInput, TooManyRequests } from './errors'
 
 /** Turns a zod failure into one readable sentence plus per-field messages for forms. */
 export function zodToInvalidInput(error: ZodError): InvalidInput {
-  const fields: Record<string, string> = {}
-  for (const issue of error.issues) {
-    const key = issue.path.join('.') || '_'
-    fields[key] ??= issue.message
-  }
-  const summary = Object.entries(fields)
-    .map(([field, message]) => (field === '_' ? message : `${field}: ${message}`))
-    .join('; ')
-  return new InvalidInput(`Please check the form: ${summary}`, { fields })
+  const fields = fieldMessages(error)
+  return new InvalidInput(summariseFields(fields), { fields })
 }
 
 function toHttpError(event: H3Event, error: unknown): unknown {
