@@ -11,6 +11,7 @@ export interface SinkMessage {
   subject: string
   text: string
   html: string
+  attachments: { filename: string; contentType: string; content: string }[]
 }
 
 export interface SmtpSink {
@@ -41,6 +42,12 @@ export async function startSmtpSink(options: { smtpPort?: number; httpPort?: num
             subject: mail.subject ?? '',
             text: mail.text ?? '',
             html: typeof mail.html === 'string' ? mail.html : '',
+            // Text attachments (calendar files) are kept as text, others as base64.
+            attachments: mail.attachments.map((a) => ({
+              filename: a.filename ?? '',
+              contentType: a.contentType,
+              content: a.contentType.startsWith('text/') ? a.content.toString('utf8') : a.content.toString('base64'),
+            })),
           })
           callback()
         })

@@ -33,7 +33,10 @@ describe('booking an approved job', () => {
     // The job's machine time (one setup included) rounded up to the 15-minute grid.
     expect(minutes).toBe(Math.ceil(job.estimate.machineS / 60 / 15) * 15)
     expect(job.state).toBe('booked')
-    await waitForMail('member@example.test', /Cutter booked/)
+    const mail = await waitForMail('member@example.test', /Cutter booked/)
+    const ics = mail.attachments.find((a) => a.filename === 'booking.ics')!
+    expect(ics.contentType).toMatch(/text\/calendar/)
+    expect(parseIcs(ics.content).events[0]!.uid).toBe(created.body.ical_uid)
 
     const range = `cutter=${bench.cutterId}&from=${encodeURIComponent(bench.at(2, '00:00'))}&to=${encodeURIComponent(bench.at(5, '00:00'))}`
     const mine = (await bench.member.get(`/api/bookings?${range}`)).body.find((b: any) => b.id === created.body.id)

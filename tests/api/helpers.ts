@@ -59,6 +59,7 @@ export interface SinkMessage {
   subject: string
   text: string
   html: string
+  attachments: { filename: string; contentType: string; content: string }[]
 }
 
 /** Waits for the newest message to `to` whose subject matches, as the SMTP sink received it. */
