@@ -47,6 +47,11 @@ describe('booking an approved job', () => {
     expect(other.memberName).toBeUndefined()
     const staffView = (await bench.staff.get(`/api/bookings?${range}`)).body.find((b: any) => b.id === created.body.id)
     expect(staffView.memberName).toBe('Juno Castellane')
+
+    // A cutter with bookings keeps its history: deleting it is refused, retiring it is the way.
+    const deletion = await bench.admin.delete(`/api/catalog/cutters/${bench.cutterId}`)
+    expect(deletion.status).toBe(409)
+    expect(deletion.body.data.uses).toContain('bookings')
   })
 
   it('gives exactly one of 50 simultaneous overlapping requests the slot', async () => {
