@@ -204,9 +204,17 @@ export async function bookingForActor(db: Knex, actor: SessionUser, id: number):
   return row
 }
 
+/** Moving or cancelling is for a booking still ahead of its cut; once cutting starts the booking is the cut's record. */
+async function assertNotStarted(db: Knex, booking: BookingRow): Promise<void> {
+  if (!booking.job_id) return
+  const job = await db('jobs').where({ id: booking.job_id }).first('state')
+  if (job?.state !== 'booked') throw new Conflict('The cut has started or is done: this booking can no longer be moved or cancelled.')
+}
+
 /** Moves a booking (same rules as booking it); staff moving someone else's booking give a reason. */
 export async function rescheduleBooking(db: Knex, actor: SessionUser, id: number, input: { start: string; end?: string; reason?: string }): Promise<{ booking: BookingRow; movedByStaff: boolean }> {
   const booking = await bookingForActor(db, actor, id)
+  await assertNotStarted(db, booking)
   const movedByStaff = booking.member_id !== null && booking.member_id !== actor.id
   if (movedByStaff && !input.reason?.trim()) throw new InvalidInput('Say why you move this booking; the member is told.', { fields: { reason: 'A reason is required.' } })
   if (booking.kind === 'block' && !isStaff(actor)) throw new Forbidden()
@@ -236,23 +244,37 @@ export function cancellationTerms(booking: Pick<BookingRow, 'starts_at'>, settin
   return { late, feePercent: late ? settings.lateCancellationFeePercent : 0, freeUntil }
 }
 
-/** Cancels a booking; the job goes back to "approved" so it can be booked again. */
-export async function cancelBooking(db: Knex, actor: SessionUser, id: number, reason = ''): Promise<{ booking: BookingRow; terms: CancellationTerms; cancelledByStaff: boolean }> {
+export interface CancellationPlan {
+  booking: BookingRow
+  reason: string
+  terms: CancellationTerms
+  cancelledByStaff: boolean
+}
+
+/** Checks a cancellation and works out its terms; nothing changes yet (the payment is settled first). */
+export async function planCancellation(db: Knex, actor: SessionUser, id: number, reason = ''): Promise<CancellationPlan> {
   const booking = await bookingForActor(db, actor, id)
+  await assertNotStarted(db, booking)
   const cancelledByStaff = booking.member_id !== null && booking.member_id !== actor.id
   if (cancelledByStaff && !reason.trim()) throw new InvalidInput('Say why you cancel this booking; the member is told.', { fields: { reason: 'A reason is required.' } })
   const settings = await workshopSettings(db)
   // Staff cancelling for the workshop never charge the member a fee.
   const terms = cancelledByStaff ? { ...cancellationTerms(booking, settings), late: false, feePercent: 0 } : cancellationTerms(booking, settings)
+  return { booking, reason: reason.trim(), terms, cancelledByStaff }
+}
+
+/** Cancels the booking once its payment is settled; the job goes back to "approved" so it can be booked again. */
+export async function commitCancellation(db: Knex, plan: CancellationPlan): Promise<BookingRow> {
+  const { booking, reason } = plan
   await db.transaction(async (trx) => {
     const now = nowIso()
-    await trx('bookings').where({ id }).update({ status: 'cancelled', cancelled_at: now, cancel_reason: reason.trim(), ical_sequence: booking.ical_sequence + 1, updated_at: now })
+    await trx('bookings').where({ id: booking.id }).update({ status: 'cancelled', cancelled_at: now, cancel_reason: reason, ical_sequence: booking.ical_sequence + 1, updated_at: now })
     if (booking.job_id) {
       const job = await trx('jobs').where({ id: booking.job_id }).first('state')
       if (job?.state === 'booked') await transitionJob(trx, booking.job_id, 'unbook', 'system', { comment: `Booking cancelled${reason ? `: ${reason}` : ''}` })
     }
   })
-  return { booking: await getBookingRow(db, id), terms, cancelledByStaff }
+  return getBookingRow(db, booking.id)
 }
 
 export interface BookingView {

@@ -39,6 +39,13 @@ function revisionRow(fileId: number, revision: number, upload: CutFileUpload, up
   }
 }
 
+async function assertStillEditable(trx: Knex, jobId: number, adding: boolean): Promise<void> {
+  assertEditable((await trx<JobRow>('jobs').where({ id: jobId }).first())!)
+  if (!adding) return
+  const count = await trx('job_files').where({ job_id: jobId }).whereNull('removed_at').count<{ n: number }[]>({ n: '*' }).first()
+  if (Number(count?.n ?? 0) >= MAX_FILES_PER_JOB) throw new Conflict(`A job holds at most ${MAX_FILES_PER_JOB} files; start another job for the rest.`)
+}
+
 export async function addJobFile(db: Knex, viewer: SessionUser, jobId: number, upload: CutFileUpload, quantity: number): Promise<number> {
   const job = await jobForViewer(db, viewer, jobId)
   assertEditable(job)
@@ -46,6 +53,8 @@ export async function addJobFile(db: Knex, viewer: SessionUser, jobId: number, u
   if (Number(count?.n ?? 0) >= MAX_FILES_PER_JOB) throw new Conflict(`A job holds at most ${MAX_FILES_PER_JOB} files; start another job for the rest.`)
   const stored = await analyseAndStore(db, job, upload)
   return db.transaction(async (trx) => {
+    // The analysis took a while: the job may have been submitted meanwhile.
+    await assertStillEditable(trx, jobId, true)
     const [fileId] = await trx('job_files').insert({ job_id: jobId, name: upload.filename.replace(/\.(svg|dxf)$/i, ''), quantity })
     await trx('file_revisions').insert(revisionRow(fileId!, 1, upload, viewer.id, stored))
     await trx('jobs').where({ id: jobId }).update({ updated_at: nowIso() })
@@ -61,6 +70,7 @@ export async function replaceJobFile(db: Knex, viewer: SessionUser, jobId: numbe
   if (!file) throw new NotFound('No such file in this job.')
   const stored = await analyseAndStore(db, job, upload)
   return db.transaction(async (trx) => {
+    await assertStillEditable(trx, jobId, false)
     const latest = await trx('file_revisions').where({ job_file_id: fileId }).max<{ n: number }[]>({ n: 'revision' }).first()
     const revision = Number(latest?.n ?? 0) + 1
     await trx('file_revisions').insert(revisionRow(fileId, revision, upload, viewer.id, stored))

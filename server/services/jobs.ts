@@ -321,17 +321,11 @@ export async function moveJob(db: Knex, actor: SessionUser, jobId: number, actio
     const counts = countFindings(await currentFiles(db, jobId))
     if (counts.errors > 0) throw new Conflict(`This job still has ${counts.errors} error(s). Ask for changes, or record an override with a reason first.`)
   }
-  return db.transaction(async (trx) => {
-    const record = await transitionJob(trx, jobId, action, actor, options)
-    // Leaving the booked state by withdrawal or cancellation frees the cutter time too.
-    if (record.from === 'booked' && (action === 'withdraw' || action === 'cancel')) {
-      await trx('bookings')
-        .where({ job_id: jobId })
-        .whereNot('status', 'cancelled')
-        .update({ status: 'cancelled', cancelled_at: nowIso(), cancel_reason: `Job ${action === 'withdraw' ? 'withdrawn' : 'cancelled'}`, ical_sequence: trx.raw('ical_sequence + 1'), updated_at: nowIso() })
-    }
-    return record
-  })
+  if ((action === 'withdraw' || action === 'cancel') && job.state === 'booked') {
+    // The booking carries the money (a hold, perhaps a late fee): it is cancelled first, under its policy.
+    throw new Conflict('This job has a booking. Cancel the booking first (from My bookings or the calendar), then withdraw the job.')
+  }
+  return db.transaction((trx) => transitionJob(trx, jobId, action, actor, options))
 }
 
 export async function recordOverride(db: Knex, staff: SessionUser, jobId: number, reason: string): Promise<void> {

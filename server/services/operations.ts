@@ -78,7 +78,10 @@ export async function finishCut(db: Knex, staff: SessionUser, jobId: number, typ
   const timer = timerMinutes(await timerEvents(db, jobId))
   const actualMinutes = Math.round((typedMinutes ?? timer.minutes) * 100) / 100
   if (!(actualMinutes > 0)) throw new InvalidInput('Enter the minutes actually cut: the timer has not run.', { fields: { actualMinutes: 'Required when the timer was not used.' } })
+  if (job.state !== 'cutting') throw new Conflict('Only a job on the machine can be finished.')
   const estimate = await jobEstimate(db, job, await currentFiles(db, jobId))
+  // Charge first: if the payment service fails, the job stays on the machine and finishing can be tried again.
+  const settlement = await settleCut(db, booking.id, actualMinutes)
   const now = nowIso()
   await db.transaction(async (trx) => {
     await transitionJob(trx, jobId, 'finishCutting', staff, { comment: `Cut in ${actualMinutes} min${typedMinutes === undefined ? ' (timer)' : ''}${note ? `: ${note}` : ''}` })
@@ -95,7 +98,7 @@ export async function finishCut(db: Knex, staff: SessionUser, jobId: number, typ
       updated_at: now,
     })
   })
-  return settleCut(db, booking.id, actualMinutes)
+  return settlement
 }
 
 // Codes are read aloud and typed: no 0/O or 1/I/L.

@@ -158,14 +158,22 @@ export async function syncPaymentIntent(db: Knex, intent: Stripe.PaymentIntent):
     if (intent.status === 'succeeded') await note('charged', intent.amount_received, `charge:${intent.id}`, 'Balance over the held amount')
     return { booking, newKinds }
   }
-  const authorisedOrLater = ['requires_capture', 'succeeded', 'canceled'].includes(intent.status) && (intent.amount_capturable > 0 || intent.amount_received > 0 || intent.status !== 'canceled')
-  if (authorisedOrLater && intent.status !== 'requires_payment_method') await note('authorised', intent.amount, `auth:${intent.id}`)
+  if (!booking.payment_intent_id) await db('bookings').where({ id: booking.id }).update({ payment_intent_id: intent.id })
+  const holdLapsed = booking.status === 'cancelled' || (booking.status === 'held' && !!booking.hold_expires_at && booking.hold_expires_at <= nowIso())
+  if (intent.status === 'requires_capture' && holdLapsed) {
+    // Paid for a slot that is gone (cancelled, or the time to pay ran out): give the hold back at once.
+    const released = await useStripe().paymentIntents.cancel(intent.id, {}, { idempotencyKey: `cancel-${intent.id}` })
+    if (booking.status === 'held') await releaseUnpaidBooking(db, booking.id, 'Not paid in time')
+    return syncPaymentIntent(db, released)
+  }
+  const wasAuthorised = intent.status === 'requires_capture' || intent.status === 'succeeded' || (intent.status === 'canceled' && intent.amount_received > 0)
+  if (wasAuthorised) await note('authorised', intent.amount, `auth:${intent.id}`)
   if (intent.status === 'succeeded') await note(booking.status === 'cancelled' ? 'fee' : 'captured', intent.amount_received, `capture:${intent.id}`)
-  if (intent.status === 'canceled') await note('released', intent.amount - intent.amount_received, `release:${intent.id}`)
+  // A hold that never was (a declined card, an abandoned checkout) releases nothing.
+  const heldBefore = await db('payment_ledger').where({ ledger_key: `auth:${intent.id}` }).first('id')
+  if (intent.status === 'canceled' && heldBefore) await note('released', intent.amount - intent.amount_received, `release:${intent.id}`)
   if (intent.status === 'requires_capture' && booking.status === 'held') {
-    await db('bookings').where({ id: booking.id, status: 'held' }).update({ status: 'confirmed', hold_expires_at: null, payment_intent_id: intent.id, updated_at: nowIso() })
-  } else if (!booking.payment_intent_id) {
-    await db('bookings').where({ id: booking.id }).update({ payment_intent_id: intent.id })
+    await db('bookings').where({ id: booking.id, status: 'held' }).update({ status: 'confirmed', hold_expires_at: null, updated_at: nowIso() })
   }
   return { booking: (await db<PaidBooking>('bookings').where({ id: booking.id }).first())!, newKinds }
 }
@@ -236,8 +244,11 @@ export async function settleCancellation(db: Knex, bookingId: number, feePercent
     feeMinor > 0
       ? await stripe.paymentIntents.capture(booking.payment_intent_id, { amount_to_capture: feeMinor }, { idempotencyKey: `fee-${booking.payment_intent_id}` })
       : await stripe.paymentIntents.cancel(booking.payment_intent_id, {}, { idempotencyKey: `cancel-${booking.payment_intent_id}` })
+  // Recorded as a fee by its own key before the generic sync, which would call a capture on a live booking "captured".
+  const feeKinds: LedgerKind[] = []
+  if (feeMinor > 0 && intent.status === 'succeeded' && (await record(db, booking, { kind: 'fee', amountMinor: intent.amount_received, currency: intent.currency.toUpperCase(), objectId: intent.id, key: `capture:${intent.id}` }))) feeKinds.push('fee')
   const synced = await syncPaymentIntent(db, intent)
-  return { feeMinor, newKinds: synced?.newKinds ?? [] }
+  return { feeMinor, newKinds: [...feeKinds, ...(synced?.newKinds ?? [])] }
 }
 
 /** Staff refunds after capture, in full or in part, with a reason on the ledger. */
@@ -294,8 +305,8 @@ export interface PaymentView {
 export async function listPayments(db: Knex, filter: { memberId?: number; from?: string; to?: string; state?: PaymentState }): Promise<PaymentView[]> {
   const query = db('bookings as b').leftJoin('jobs as j', 'j.id', 'b.job_id').leftJoin('users as u', 'u.id', 'b.member_id').whereNotNull('b.checkout_session_id').orderBy('b.starts_at', 'desc').select('b.id', 'b.starts_at', 'b.currency', 'b.status', 'b.checkout_url', 'b.hold_expires_at', 'j.title', 'u.name')
   if (filter.memberId) query.where('b.member_id', filter.memberId)
-  if (filter.from) query.where('b.starts_at', '>=', filter.from)
-  if (filter.to) query.where('b.starts_at', '<', filter.to)
+  if (filter.from) query.where('b.starts_at', '>=', new Date(filter.from).toISOString())
+  if (filter.to) query.where('b.starts_at', '<', new Date(filter.to).toISOString())
   const bookings = await query
   const ledger = await db<LedgerRow>('payment_ledger').whereIn('booking_id', bookings.map((b) => b.id)).orderBy('id')
   return bookings

@@ -1,4 +1,5 @@
 import { createError, defineEventHandler, getQuery, getRouterParams, readBody, setResponseHeader, type EventHandler, type EventHandlerRequest, type H3Event } from 'h3'
+import Stripe from 'stripe'
 import { ZodError, type ZodType } from 'zod'
 import { fieldMessages, summariseFields } from '#shared/schemas/field-messages'
 import { DomainError, InvalidInput, TooManyRequests } from './errors'
@@ -11,6 +12,10 @@ export function zodToInvalidInput(error: ZodError): InvalidInput {
 
 function toHttpError(event: H3Event, error: unknown): unknown {
   if (error instanceof ZodError) error = zodToInvalidInput(error)
+  if (error instanceof Stripe.errors.StripeError) {
+    console.error('[stripe]', error.type, error.message)
+    error = new DomainError(`The payment service refused or did not answer (${error.message}). Nothing was changed; please try again.`, 502)
+  }
   if (error instanceof TooManyRequests) setResponseHeader(event, 'Retry-After', String(error.retryAfterS))
   if (error instanceof DomainError) {
     return createError({ statusCode: error.status, statusMessage: error.name, message: error.message, data: error.details })

@@ -63,7 +63,15 @@ describe('holding the estimate and charging the minutes used', () => {
     expect(paid.authorisedMinor).toBe(booking.authorisedMinor)
     await waitForMail('member@example.test', /Payment received/)
 
+    // A booked job is withdrawn only after its booking is cancelled under the policy.
+    const withdraw = await bench.member.post(`/api/jobs/${jobId}/withdraw`)
+    expect(withdraw.status).toBe(409)
+    expect(withdraw.body.message).toMatch(/Cancel the booking first/)
+
     expect((await bench.staff.post(`/api/jobs/${jobId}/start`)).status).toBe(200)
+    // Once the cut has started the booking is the cut's record: no cancelling, no moving.
+    expect((await bench.member.post(`/api/bookings/${booking.id}/cancel`, {})).status).toBe(409)
+    expect((await bench.member.patch(`/api/bookings/${booking.id}`, { start: bench.at(day + 3, '09:00') })).status).toBe(409)
     const finished = await bench.staff.post(`/api/jobs/${jobId}/finish`, { actualMinutes: 37 })
     expect(finished.status).toBe(200)
     // Bench cutter: 100 per minute, 5 setup minutes, billed per minute; material is the job's sheets.
@@ -135,6 +143,9 @@ describe('holding the estimate and charging the minutes used', () => {
     db.close()
     expect((await bench.admin.post('/api/admin/tasks/release-holds')).body.released).toBeGreaterThanOrEqual(1)
     expect((await bench.member.get(`/api/jobs/${jobId}`)).body.state).toBe('approved')
+    // No hold ever existed, so nothing is "released" either.
+    await new Promise((r) => setTimeout(r, 300))
+    expect(ledger(booking.id)).toEqual([])
   })
 })
 
