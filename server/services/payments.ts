@@ -12,7 +12,8 @@ import { currentFiles, jobEstimate, type JobRow } from './jobs'
 import { cutCharge, percentOf, withBuffer } from './money'
 import { workshopSettings } from './settings'
 
-export type LedgerKind = 'authorised' | 'captured' | 'fee' | 'released' | 'refunded' | 'charged'
+// `owed`: what a cut cost beyond the hold, asked for separately; `charged` is its payment.
+export type LedgerKind = 'authorised' | 'captured' | 'fee' | 'released' | 'refunded' | 'charged' | 'owed'
 
 export interface LedgerRow {
   id: number
@@ -60,7 +61,8 @@ export function paymentStateOf(rows: Pick<LedgerRow, 'kind' | 'amount_minor'>[])
   const capturedMinor = sum('captured', 'fee', 'charged')
   const refundedMinor = sum('refunded')
   let state: PaymentState = 'awaiting'
-  if (refundedMinor > 0) state = refundedMinor >= capturedMinor ? 'refunded' : 'partly-refunded'
+  if (sum('owed') > sum('charged')) state = 'balance-due'
+  else if (refundedMinor > 0) state = refundedMinor >= capturedMinor ? 'refunded' : 'partly-refunded'
   else if (capturedMinor > 0) state = 'captured'
   else if (rows.some((r) => r.kind === 'released')) state = 'released'
   else if (authorisedMinor > 0) state = 'authorised'
@@ -227,6 +229,7 @@ export async function settleCut(db: Knex, bookingId: number, actualMinutes: numb
       { idempotencyKey: `balance-${booking.id}` },
     )
     balanceUrl = session.url
+    await record(db, booking, { kind: 'owed', amountMinor: balanceMinor, currency: cutter.currency, objectId: session.id, key: `owed:${booking.id}`, note: `${actualMinutes} minutes cut; the hold covered ${capturedMinor}` })
   }
   return { bookingId: booking.id, memberId: booking.member_id, newKinds: synced?.newKinds ?? [], chargeMinor, capturedMinor, balanceMinor, balanceUrl, actualMinutes, estimateMinutes: estimate.billableMinutes }
 }

@@ -17,12 +17,13 @@ export async function payCheckout(checkoutUrl: string, cardNumber = CARD_PAYS): 
 }
 
 /** Polls the member's payments until the booking reaches `state` (the webhook decides, not the redirect). */
-export async function waitForPaymentState(member: Client, bookingId: number, state: string, timeoutMs = 8000) {
+export async function waitForPaymentState(member: Client, bookingId: number, state: string | string[], timeoutMs = 8000) {
+  const wanted = Array.isArray(state) ? state : [state]
   const deadline = Date.now() + timeoutMs
   let last: any
   while (Date.now() < deadline) {
     last = ((await member.get('/api/me/payments')).body as any[]).find((p) => p.bookingId === bookingId)
-    if (last?.state === state) return last
+    if (wanted.includes(last?.state)) return last
     await new Promise((r) => setTimeout(r, 100))
   }
   throw new Error(`booking ${bookingId} stayed ${last?.state} instead of ${state}`)

@@ -103,6 +103,11 @@ describe('holding the estimate and charging the minutes used', () => {
     expect(finished.capturedMinor).toBe(booking.authorisedMinor)
     expect(finished.balanceMinor).toBe(finished.chargeMinor - booking.authorisedMinor)
     expect(finished.balanceUrl).toMatch(/\/checkout\//)
+    const owing = await waitForPaymentState(bench.member, booking.id, 'balance-due')
+    expect(owing.capturedMinor).toBe(booking.authorisedMinor)
+    // Paying the rest settles it.
+    await payCheckout(finished.balanceUrl)
+    await waitForPaymentState(bench.member, booking.id, 'captured')
   })
 
   it('free cancellation releases the hold and charges nothing', async () => {
