@@ -219,6 +219,10 @@ export async function rescheduleBooking(db: Knex, actor: SessionUser, id: number
   if (movedByStaff && !input.reason?.trim()) throw new InvalidInput('Say why you move this booking; the member is told.', { fields: { reason: 'A reason is required.' } })
   if (booking.kind === 'block' && !isStaff(actor)) throw new Forbidden()
   const settings = await workshopSettings(db)
+  // Inside the late-cancellation window a member's move would dodge the fee: only staff move it then.
+  if (!isStaff(actor) && cancellationTerms(booking, settings).late) {
+    throw new Conflict('This booking is inside the late-cancellation window, so it can no longer be moved. Ask the staff, or cancel it under the policy.')
+  }
   const cutter = await getCutter(db, booking.cutter_id)
   const startIso = normaliseInstant(input.start)
   const endIso = booking.kind === 'block' && input.end ? normaliseInstant(input.end, 'end') : addMinutes(startIso, minutesBetween(booking.starts_at, booking.ends_at))

@@ -198,6 +198,11 @@ describe('moving, cancelling and calendar files', () => {
     try {
       const terms = (await bench.member.get(`/api/bookings/${booking.id}/cancellation-terms`)).body
       expect(terms).toMatchObject({ late: true, feePercent: 50 })
+      // Moving it now would dodge the fee: refused for the member, allowed for staff with a reason.
+      const moved = await bench.member.patch(`/api/bookings/${booking.id}`, { start: bench.at(11, '13:00') })
+      expect(moved.status).toBe(409)
+      expect(moved.body.message).toMatch(/late-cancellation window/)
+      expect((await bench.staff.patch(`/api/bookings/${booking.id}`, { start: bench.at(11, '13:00'), reason: 'Swapped with a maintenance slot' })).status).toBe(200)
     } finally {
       await bench.admin.patch('/api/admin/settings', { freeCancellationHours: 24 })
     }
