@@ -2,17 +2,12 @@
 // on a free loopback port with a fresh demo database, its mail sink and the payment fake, then drives
 // it with autocannon: the calendar read and the job list at 50 connections, a storm of bookings for one
 // slot, and the calendar read again while large analyses run. Prints requests/s and p50/p99 latency.
-import { spawn } from 'node:child_process'
-import { randomBytes } from 'node:crypto'
 import { cpSync, existsSync, mkdtempSync, rmSync } from 'node:fs'
 import { cpus, tmpdir, totalmem } from 'node:os'
 import { join } from 'node:path'
 import autocannon from 'autocannon'
-import { migrateLatest, openDatabase, seedDemoIfEmpty } from '../db/index'
-import { startSmtpSink } from './lib/smtp-sink'
-import { startStripeFake } from './lib/stripe-fake/index'
 import { plainPart, svgDocument } from '../tests/fixtures/svg'
-import { freePort } from './lib/free-port'
+import { startBuiltApp } from './lib/built-app'
 
 const CONNECTIONS = 50
 const DURATION_S = 10
@@ -70,47 +65,12 @@ async function main(): Promise<void> {
     console.error('No built server in .output — run `npx nuxt build` first.')
     process.exit(1)
   }
-  const workDir = mkdtempSync(join(tmpdir(), 'kerfbook-bench-http-'))
-  const databasePath = join(workDir, 'bench.sqlite')
   // A private copy, so a rebuild of .output during the run cannot pull chunks from under the server.
-  const builtServer = join(workDir, 'output')
-  cpSync('.output', builtServer, { recursive: true })
-  const db = openDatabase(databasePath)
-  await migrateLatest(db)
-  await seedDemoIfEmpty(db)
-  await db.destroy()
-
-  const port = await freePort()
-  const baseUrl = `http://127.0.0.1:${port}`
-  const sink = await startSmtpSink()
-  const webhookSecret = `whsec_bench_${randomBytes(8).toString('hex')}`
-  const stripeFake = await startStripeFake({ webhook: { url: `${baseUrl}/api/webhooks/stripe`, secret: webhookSecret } })
-  const server = spawn('node', [join(builtServer, 'server/index.mjs')], {
-    stdio: ['ignore', 'ignore', 'inherit'],
-    env: {
-      ...process.env,
-      NODE_ENV: 'production',
-      HOST: '127.0.0.1',
-      PORT: String(port),
-      DATABASE_PATH: databasePath,
-      SMTP_URL: `smtp://127.0.0.1:${sink.smtpPort}`,
-      APP_URL: baseUrl,
-      STRIPE_API_BASE: stripeFake.url,
-      STRIPE_SECRET_KEY: 'sk_test_kerfbook_bench',
-      STRIPE_WEBHOOK_SECRET: webhookSecret,
-      KERFBOOK_REMINDERS: 'off',
-      SIGN_IN_LIMIT_PER_MINUTE: '1000',
-      NUXT_SESSION_PASSWORD: randomBytes(32).toString('hex'),
-    },
-  })
+  const copyDir = mkdtempSync(join(tmpdir(), 'kerfbook-bench-output-'))
+  cpSync('.output', copyDir, { recursive: true })
+  const app = await startBuiltApp({ name: 'kerfbook-bench-http', outputDir: copyDir, env: { SIGN_IN_LIMIT_PER_MINUTE: '1000' } })
+  const { baseUrl } = app
   try {
-    for (let attempt = 0; ; attempt++) {
-      if (server.exitCode !== null) throw new Error(`the server exited with code ${server.exitCode}`)
-      const answer = await fetch(`${baseUrl}/api/me`).catch(() => undefined)
-      if (answer && answer.status < 500) break
-      if (attempt > 240) throw new Error('the server did not start within 60 s')
-      await new Promise((r) => setTimeout(r, 250))
-    }
     const member = await signIn(baseUrl, 'member@example.test')
     const staff = await signIn(baseUrl, 'staff@example.test')
     const overview = (await api(baseUrl, member, 'GET', '/api/catalog/overview')) as any[]
@@ -167,10 +127,8 @@ async function main(): Promise<void> {
     await analysisLoop
     console.log(`(${analyses} large analyses finished during that run)`)
   } finally {
-    server.kill('SIGTERM')
-    await sink.close()
-    await stripeFake.close()
-    rmSync(workDir, { recursive: true, force: true })
+    await app.stop()
+    rmSync(copyDir, { recursive: true, force: true })
   }
 }
 

@@ -7,3 +7,8 @@ export interface SessionUser {
   name: string
   role: Role
 }
+
+/** Staff and admins run the workshop: they see and handle every member's things. */
+export function isStaff(user: Pick<SessionUser, 'role'>): boolean {
+  return user.role === 'staff' || user.role === 'admin'
+}

@@ -1,6 +1,6 @@
 import { randomUUID } from 'node:crypto'
 import type { Knex } from 'knex'
-import type { SessionUser } from '#shared/roles'
+import { isStaff, type SessionUser } from '#shared/roles'
 import type { WorkshopSettings } from '#shared/schemas/settings'
 import { Conflict, Forbidden, InvalidInput, NotFound } from '../utils/errors'
 import { nowIso } from '../utils/rows'
@@ -52,7 +52,6 @@ export interface BookingRow {
   cancel_reason: string | null
 }
 
-const isStaff = (user: SessionUser) => user.role === 'staff' || user.role === 'admin'
 
 /** Live bookings: not cancelled, and not a payment hold that ran out. */
 export function liveBookings(query: Knex.QueryBuilder, now = nowIso()): Knex.QueryBuilder {
@@ -196,10 +195,16 @@ export async function getBookingRow(db: Knex, id: number): Promise<BookingRow> {
   return row
 }
 
-/** The booking if the actor may handle it; another member's booking is "not found". */
-export async function bookingForActor(db: Knex, actor: SessionUser, id: number): Promise<BookingRow> {
+/** The booking if the viewer may see it, cancelled or not; another member's booking is "not found". */
+export async function bookingVisibleTo(db: Knex, viewer: SessionUser, id: number): Promise<BookingRow> {
   const row = await db<BookingRow>('bookings').where({ id }).first()
-  if (!row || (!isStaff(actor) && row.member_id !== actor.id)) throw new NotFound('No such booking.')
+  if (!row || (!isStaff(viewer) && row.member_id !== viewer.id)) throw new NotFound('No such booking.')
+  return row
+}
+
+/** The booking if the actor may still change it. */
+export async function bookingForActor(db: Knex, actor: SessionUser, id: number): Promise<BookingRow> {
+  const row = await bookingVisibleTo(db, actor, id)
   if (row.status === 'cancelled') throw new Conflict('This booking was cancelled.')
   return row
 }

@@ -1,7 +1,7 @@
 import type { Knex } from 'knex'
 import type { JobState } from '#shared/job-states'
 import { JOB_STATE_LABELS } from '#shared/job-states'
-import type { SessionUser } from '#shared/roles'
+import { isStaff, type SessionUser } from '#shared/roles'
 import { Conflict, Forbidden, InvalidInput } from '../utils/errors'
 import { nowIso } from '../utils/rows'
 
@@ -49,7 +49,7 @@ function moverOf(actor: SessionUser | 'system', memberId: number): Mover[] {
   if (actor === 'system') return ['system']
   const movers: Mover[] = []
   if (actor.id === memberId) movers.push('owner')
-  if (actor.role === 'staff' || actor.role === 'admin') movers.push('staff')
+  if (isStaff(actor)) movers.push('staff')
   return movers
 }
 

@@ -1,6 +1,6 @@
 import type { Knex } from 'knex'
 import { EDITABLE_JOB_STATES, JOB_STATE_LABELS, type JobState } from '#shared/job-states'
-import type { SessionUser } from '#shared/roles'
+import { isStaff, type SessionUser } from '#shared/roles'
 import type { JobCreateInput } from '#shared/schemas/jobs'
 import type { AnalysisResult, Finding } from '../analysis/index'
 import { Conflict, InvalidInput, NotFound } from '../utils/errors'
@@ -29,7 +29,6 @@ export interface JobRow {
   updated_at: string
 }
 
-const isStaff = (viewer: SessionUser) => viewer.role === 'staff' || viewer.role === 'admin'
 
 /** The job if the viewer may see it; another member's job is "not found", so ids are not confirmed. */
 export async function jobForViewer(db: Knex, viewer: SessionUser, jobId: number): Promise<JobRow> {

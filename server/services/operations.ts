@@ -72,7 +72,7 @@ export async function reportProblem(db: Knex, staff: SessionUser, jobId: number,
  * Finishes the cut with the minutes actually used — typed by staff, or the timer's own — records
  * what the estimate said at that moment (for reports and calibration) and captures the payment.
  */
-export async function finishCut(db: Knex, staff: SessionUser, jobId: number, typedMinutes: number | undefined, note = ''): Promise<Settlement> {
+export async function finishCut(db: Knex, staff: SessionUser, jobId: number, typedMinutes: number | undefined, note = ''): Promise<{ settlement: Settlement; record: TransitionRecord }> {
   const job = await jobForViewer(db, staff, jobId)
   const booking = await bookingOfJob(db, jobId)
   const timer = timerMinutes(await timerEvents(db, jobId))
@@ -83,8 +83,8 @@ export async function finishCut(db: Knex, staff: SessionUser, jobId: number, typ
   // Charge first: if the payment service fails, the job stays on the machine and finishing can be tried again.
   const settlement = await settleCut(db, booking.id, actualMinutes)
   const now = nowIso()
-  await db.transaction(async (trx) => {
-    await transitionJob(trx, jobId, 'finishCutting', staff, { comment: `Cut in ${actualMinutes} min${typedMinutes === undefined ? ' (timer)' : ''}${note ? `: ${note}` : ''}` })
+  const record = await db.transaction(async (trx) => {
+    const moved = await transitionJob(trx, jobId, 'finishCutting', staff, { comment: `Cut in ${actualMinutes} min${typedMinutes === undefined ? ' (timer)' : ''}${note ? `: ${note}` : ''}` })
     await trx('cut_timer_events').insert({ job_id: jobId, kind: 'finish', at: now, actor_id: staff.id })
     await trx('jobs').where({ id: jobId }).update({
       actual_minutes: actualMinutes,
@@ -97,8 +97,9 @@ export async function finishCut(db: Knex, staff: SessionUser, jobId: number, typ
       cut_finished_at: now,
       updated_at: now,
     })
+    return moved
   })
-  return settlement
+  return { settlement, record }
 }
 
 // Codes are read aloud and typed: no 0/O or 1/I/L.

@@ -9,8 +9,8 @@ export default defineApiHandler(async (event) => {
   const staff = await requireRole(event, 'staff', 'admin')
   const { id } = readParamsAs(event, idParamSchema)
   const input = await readBodyAs(event, finishCutSchema)
-  const settlement = await finishCut(useDb(), staff, id, input.actualMinutes, input.note)
-  await sendJobTransitionMail(useDb(), { jobId: id, from: 'cutting', to: 'cut', action: 'finishCutting' })
+  const { settlement, record } = await finishCut(useDb(), staff, id, input.actualMinutes, input.note)
+  await sendJobTransitionMail(useDb(), record)
   await sendPaymentReceipts(useDb(), {
     bookingId: settlement.bookingId,
     memberId: settlement.memberId,

@@ -1,0 +1,93 @@
+// Starts the built server (.output) on loopback with everything it talks to: a fresh seeded database in a
+// temporary folder, the SMTP sink and the Stripe fake with its webhooks pointed at the app. The tests'
+// global setup and the load benchmark both run the app this way.
+import { spawn, type ChildProcess } from 'node:child_process'
+import { randomBytes } from 'node:crypto'
+import { mkdtempSync, rmSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
+import { migrateLatest, openDatabase, seedDemoIfEmpty } from '../../db/index'
+import { freePort } from './free-port'
+import { startSmtpSink } from './smtp-sink'
+import { startStripeFake } from './stripe-fake/index'
+
+export interface BuiltApp {
+  baseUrl: string
+  outboxUrl: string
+  databasePath: string
+  workDir: string
+  stripeFakeUrl: string
+  stripeWebhookSecret: string
+  pid: number
+  stop(): Promise<void>
+}
+
+export interface BuiltAppOptions {
+  /** Folder holding the build (`server/index.mjs`); `.output` by default. */
+  outputDir?: string
+  /** Prefix of the temporary folder. */
+  name: string
+  /** More environment for the server, e.g. relaxed limits for a load test. */
+  env?: Record<string, string>
+  /** Show the server's stdout (its stderr always shows). */
+  showOutput?: boolean
+}
+
+async function waitForServer(url: string, child: ChildProcess, timeoutMs = 60_000): Promise<void> {
+  const deadline = Date.now() + timeoutMs
+  while (Date.now() < deadline) {
+    if (child.exitCode !== null) throw new Error(`The app server exited with code ${child.exitCode}`)
+    const response = await fetch(url).catch(() => undefined)
+    if (response && response.status < 500) return
+    await new Promise((r) => setTimeout(r, 250))
+  }
+  throw new Error(`The app server did not answer at ${url} within ${timeoutMs} ms`)
+}
+
+export async function startBuiltApp(options: BuiltAppOptions): Promise<BuiltApp> {
+  const workDir = mkdtempSync(join(tmpdir(), `${options.name}-`))
+  const databasePath = join(workDir, 'app.sqlite')
+  const db = openDatabase(databasePath)
+  await migrateLatest(db)
+  await seedDemoIfEmpty(db)
+  await db.destroy()
+
+  const sink = await startSmtpSink()
+  const port = await freePort()
+  const baseUrl = `http://127.0.0.1:${port}`
+  const stripeWebhookSecret = `whsec_${options.name}_${randomBytes(8).toString('hex')}`
+  const stripeFake = await startStripeFake({ webhook: { url: `${baseUrl}/api/webhooks/stripe`, secret: stripeWebhookSecret } })
+  const outboxUrl = `http://127.0.0.1:${sink.httpPort}`
+  const server = spawn('node', [join(options.outputDir ?? '.output', 'server/index.mjs')], {
+    stdio: ['ignore', options.showOutput ? 'inherit' : 'ignore', 'inherit'],
+    env: {
+      ...process.env,
+      NODE_ENV: 'production',
+      HOST: '127.0.0.1',
+      PORT: String(port),
+      DATABASE_PATH: databasePath,
+      SMTP_URL: `smtp://127.0.0.1:${sink.smtpPort}`,
+      OUTBOX_URL: outboxUrl,
+      APP_URL: baseUrl,
+      STRIPE_API_BASE: stripeFake.url,
+      STRIPE_SECRET_KEY: 'sk_test_kerfbook_local_run',
+      STRIPE_WEBHOOK_SECRET: stripeWebhookSecret,
+      KERFBOOK_REMINDERS: 'off',
+      NUXT_SESSION_PASSWORD: randomBytes(32).toString('hex'),
+      ...options.env,
+    },
+  })
+  const stop = async () => {
+    server.kill('SIGTERM')
+    await sink.close()
+    await stripeFake.close()
+    rmSync(workDir, { recursive: true, force: true })
+  }
+  try {
+    await waitForServer(`${baseUrl}/api/me`, server)
+  } catch (error) {
+    await stop()
+    throw error
+  }
+  return { baseUrl, outboxUrl, databasePath, workDir, stripeFakeUrl: stripeFake.url, stripeWebhookSecret, pid: server.pid!, stop }
+}
