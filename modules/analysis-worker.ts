@@ -1,6 +1,6 @@
 import { join, resolve } from 'node:path'
-import { build } from 'esbuild'
 import { defineNuxtModule } from 'nuxt/kit'
+import { bundleForNode } from '../scripts/lib/node-bundle'
 
 // The analysis worker runs in its own thread, so it needs a file of its own: this module bundles
 // server/workers/analysis.worker.ts with esbuild into .nuxt/ for development and next to the
@@ -8,17 +8,7 @@ import { defineNuxtModule } from 'nuxt/kit'
 export const ANALYSIS_WORKER_FILE = 'analysis-worker.mjs'
 
 function bundleWorker(outfile: string) {
-  return build({
-    entryPoints: [resolve('server/workers/analysis.worker.ts')],
-    outfile,
-    bundle: true,
-    platform: 'node',
-    format: 'esm',
-    target: 'node20',
-    logLevel: 'warning',
-    // CommonJS dependencies inside an ES module bundle need a require of their own.
-    banner: { js: "import { createRequire as __kerfbookRequire } from 'node:module'; const require = __kerfbookRequire(import.meta.url);" },
-  })
+  return bundleForNode(resolve('server/workers/analysis.worker.ts'), outfile)
 }
 
 export default defineNuxtModule({

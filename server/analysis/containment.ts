@@ -1,5 +1,5 @@
 import Flatbush from 'flatbush'
-import type { PolylineSet } from './polylines'
+import { OPERATION_CODES, type PolylineSet } from './polylines'
 
 /**
  * For each query polyline, the smallest closed polyline among `containers`
@@ -71,4 +71,31 @@ export function nestingDepths(parentOf: Int32Array, ids: ArrayLike<number>): Int
     while (path.length > 0) depth[path.pop()!] = ++base
   }
   return depth
+}
+
+/** How the cut contours nest: closed cuts contain, every cut is a query. */
+export interface CutNesting {
+  /** Per contour: the smallest closed cut around it (−1: none, or not a cut). */
+  parentOf: Int32Array
+  /** Per cut contour: its nesting depth (0 = top level); −1 for other contours. */
+  depth: Int32Array
+}
+
+const cutNestingByContours = new WeakMap<PolylineSet, { bounds: Float64Array; nesting: CutNesting }>()
+
+/** The nesting of a contour set's cuts, found once (the design-rule checks and the time model both need it). */
+export function cutNesting(contours: PolylineSet, bounds: Float64Array): CutNesting {
+  const cached = cutNestingByContours.get(contours)
+  if (cached !== undefined && cached.bounds === bounds) return cached.nesting
+  const cutIds: number[] = []
+  const closedCutIds: number[] = []
+  for (let id = 0; id < contours.count; id++) {
+    if (contours.operation[id] !== OPERATION_CODES.cut) continue
+    cutIds.push(id)
+    if (contours.closed[id] === 1) closedCutIds.push(id)
+  }
+  const parentOf = findContainers(contours, bounds, closedCutIds, cutIds)
+  const nesting = { parentOf, depth: nestingDepths(parentOf, cutIds) }
+  cutNestingByContours.set(contours, { bounds, nesting })
+  return nesting
 }

@@ -1,4 +1,4 @@
-import { findContainers, nestingDepths } from './containment'
+import { cutNesting } from './containment'
 import { PolylinePlanner, restToRestTimeS } from './motion'
 import type { AnalysisParams } from './params'
 import { OPERATION_CODES, type PolylineSet } from './polylines'
@@ -21,14 +21,11 @@ export interface MachineTime {
 export function estimateMachineTime(contours: PolylineSet, bounds: Float64Array, engraveAreaMm2: number, params: AnalysisParams): MachineTime {
   const scoreIds: number[] = []
   const cutIds: number[] = []
-  const closedCutIds: number[] = []
   for (let index = 0; index < contours.count; index++) {
     if (contours.operation[index] === OPERATION_CODES.score) scoreIds.push(index)
-    if (contours.operation[index] !== OPERATION_CODES.cut) continue
-    cutIds.push(index)
-    if (contours.closed[index]) closedCutIds.push(index)
+    if (contours.operation[index] === OPERATION_CODES.cut) cutIds.push(index)
   }
-  const depth = nestingDepths(findContainers(contours, bounds, closedCutIds, cutIds), cutIds)
+  const { depth } = cutNesting(contours, bounds)
   const levels: number[][] = [scoreIds]
   for (const id of cutIds) (levels[depth[id] + 1] ??= []).push(id)
   const runOrder = new Int32Array(scoreIds.length + cutIds.length)

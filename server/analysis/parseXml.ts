@@ -10,7 +10,8 @@ const SVG_ROOT_PATTERN = /<svg[\s>/]/
 const COMMENT_PATTERN = /<!--[\s\S]*?-->/g
 // Far more attributes in one tag than any drawing program writes: a parser stress test, not a drawing.
 const MAX_ATTRIBUTES_PER_TAG = 2000
-const TAG_PATTERN = /<[^!?/][^>]*>/g
+// Only tags long enough to hold that many attributes match; XML allows no < inside a tag, so each scan stops at the next one and the search stays linear.
+const LONG_TAG_PATTERN = new RegExp(`<[^!?/<>][^<>]{${MAX_ATTRIBUTES_PER_TAG * 4},}>`, 'g')
 
 /**
  * Parses SVG text into an svgson tree. The XML reader svgson uses is
@@ -24,7 +25,8 @@ export function parseSvgXml(svgText: string): INode {
     throw new AnalysisInputError('unsafeXml', 'This SVG declares XML entities, which Kerfbook does not accept for safety. Save it again from your drawing program without a DOCTYPE.')
   }
   // Comments carry nothing to cut; dropping them first keeps a comment-stuffed file from costing the parser seconds.
-  const text = stripDoctype(svgText).replace(COMMENT_PATTERN, '')
+  const withoutDoctype = stripDoctype(svgText)
+  const text = withoutDoctype.includes('<!--') ? withoutDoctype.replace(COMMENT_PATTERN, '') : withoutDoctype
   assertReasonableTags(text)
   let root: INode
   try {
@@ -48,8 +50,8 @@ function stripDoctype(svgText: string): string {
 }
 
 function assertReasonableTags(text: string): void {
-  for (const tag of text.matchAll(TAG_PATTERN)) {
-    if (tag[0].length > MAX_ATTRIBUTES_PER_TAG * 4 && (tag[0].match(/=/g)?.length ?? 0) > MAX_ATTRIBUTES_PER_TAG) {
+  for (const tag of text.matchAll(LONG_TAG_PATTERN)) {
+    if ((tag[0].match(/=/g)?.length ?? 0) > MAX_ATTRIBUTES_PER_TAG) {
       throw new AnalysisInputError('tooComplex', `One element of this SVG has more than ${MAX_ATTRIBUTES_PER_TAG} attributes, which no drawing needs. Save it again from your drawing program.`)
     }
   }

@@ -1,5 +1,5 @@
 import Flatbush from 'flatbush'
-import { findContainers, nestingDepths } from '../containment'
+import { cutNesting } from '../containment'
 import { OPERATION_CODES, type PolylineSet } from '../polylines'
 import type { CheckGeometry } from './index'
 import { oncePerGeometry } from './memo'
@@ -284,8 +284,7 @@ function materialSides(geometry: CheckGeometry, cutIds: number[]): Int8Array {
   const sides = new Int8Array(contours.count)
   const closedIds = cutIds.filter((id) => contours.closed[id] === 1)
   if (closedIds.length === 0) return sides
-  const parentOf = findContainers(contours, bounds, closedIds, cutIds)
-  const depth = nestingDepths(parentOf, closedIds)
+  const { parentOf, depth } = cutNesting(contours, bounds)
   const sheetIsUndrawn = cutIds.some((id) => contours.closed[id] === 0 && parentOf[id] < 0)
   for (const id of closedIds) {
     const insideIsMaterial = (depth[id] + (sheetIsUndrawn ? 1 : 0)) % 2 === 0
