@@ -51,11 +51,20 @@ export function analyzeSvg(svgText: string, params: AnalysisParams, options: Ana
 
 export function analyzeSvgWithGeometry(svgText: string, params: AnalysisParams, options: AnalyzeOptions = {}): { result: AnalysisResult; geometry: AnalysedGeometry } {
   const lap = stageTimer(options.onStageTimed)
+  return analyzeDrawing(readSvgText(svgText, params, lap), params, options, lap)
+}
+
+/**
+ * Parse and read in a scope of their own: once the drawing is read, the
+ * svgson tree (millions of small strings) is garbage, and the collector no
+ * longer walks it during the later stages.
+ */
+function readSvgText(svgText: string, params: AnalysisParams, lap: (stage: AnalysisStage) => void): ReadDrawing {
   const root = parseSvgXml(svgText)
   lap('parse')
   const drawing = readSvgDocument(root, params)
   lap('read')
-  return analyzeDrawing(drawing, params, options, lap)
+  return drawing
 }
 
 /** The same analysis of a DXF drawing (README: DXF files), read into the geometry the SVG reader gives. */

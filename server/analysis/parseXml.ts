@@ -10,8 +10,8 @@ const SVG_ROOT_PATTERN = /<svg[\s>/]/
 const COMMENT_PATTERN = /<!--[\s\S]*?-->/g
 // Far more attributes in one tag than any drawing program writes: a parser stress test, not a drawing.
 const MAX_ATTRIBUTES_PER_TAG = 2000
-// Only tags long enough to hold that many attributes match; XML allows no < inside a tag, so each scan stops at the next one and the search stays linear.
-const LONG_TAG_PATTERN = new RegExp(`<[^!?/<>][^<>]{${MAX_ATTRIBUTES_PER_TAG * 4},}>`, 'g')
+// A tag needs at least this many characters to hold that many attributes (a="").
+const MIN_CHARACTERS_OF_CROWDED_TAG = MAX_ATTRIBUTES_PER_TAG * 4
 
 /**
  * Parses SVG text into an svgson tree. The XML reader svgson uses is
@@ -49,10 +49,15 @@ function stripDoctype(svgText: string): string {
   return svgText.slice(0, match.index) + svgText.slice(end + 1)
 }
 
+/** Looks at tags long enough to be crowded only; the hops from < to > keep the pass linear and allocate nothing for ordinary tags. */
 function assertReasonableTags(text: string): void {
-  for (const tag of text.matchAll(LONG_TAG_PATTERN)) {
-    if ((tag[0].match(/=/g)?.length ?? 0) > MAX_ATTRIBUTES_PER_TAG) {
+  let open = text.indexOf('<')
+  while (open >= 0) {
+    const close = text.indexOf('>', open)
+    if (close < 0) return
+    if (close - open > MIN_CHARACTERS_OF_CROWDED_TAG && (text.slice(open, close).match(/=/g)?.length ?? 0) > MAX_ATTRIBUTES_PER_TAG) {
       throw new AnalysisInputError('tooComplex', `One element of this SVG has more than ${MAX_ATTRIBUTES_PER_TAG} attributes, which no drawing needs. Save it again from your drawing program.`)
     }
+    open = text.indexOf('<', close)
   }
 }

@@ -150,7 +150,7 @@ function paintOfColour(colourText: string): Paint {
   return { kind: 'colour', colour, hex, label: `colour ${hex}`, alpha: colour.a }
 }
 
-function expandUse(node: INode, matrix: Matrix, style: ComputedStyle, useDepth: number, byId: Map<string, INode>, styleSheet: StyleSheet, stack: Pending[]): void {
+function expandUse(node: INode, matrix: Matrix, style: ComputedStyle, useDepth: number, byId: IdIndex, styleSheet: StyleSheet, stack: Pending[]): void {
   const reference = node.attributes.href ?? node.attributes['xlink:href']
   const target = reference?.startsWith('#') ? byId.get(reference.slice(1)) : undefined
   if (!target) return
@@ -206,11 +206,13 @@ function firstCoordinates(pathData: string): [number, number] {
 
 /**
  * One pass over the whole tree (with an explicit stack, so depth costs no
- * call stack): refuses absurd nesting, finds elements by id for <use>, and
- * collects <style> sheets, which apply wherever they appear.
+ * call stack): refuses absurd nesting, notes the elements with an id for
+ * <use>, and collects <style> sheets, which apply wherever they appear. The
+ * ids are only put in a map when a <use> first asks: hashing every id of a
+ * large drawing costs more than the rest of the pass.
  */
-function indexDocument(root: INode): { byId: Map<string, INode>; styleSheet: StyleSheet } {
-  const byId = new Map<string, INode>()
+function indexDocument(root: INode): { byId: IdIndex; styleSheet: StyleSheet } {
+  const withId: INode[] = []
   const styleSheet = new StyleSheet()
   const nodes: INode[] = [root]
   const depths: number[] = [0]
@@ -220,14 +222,30 @@ function indexDocument(root: INode): { byId: Map<string, INode>; styleSheet: Sty
     if (depth > MAX_NESTING_DEPTH) {
       throw new AnalysisInputError('tooComplex', `This drawing nests groups more than ${MAX_NESTING_DEPTH} levels deep, which Kerfbook does not analyse. Flatten or ungroup it in your drawing program.`)
     }
-    const id = node.attributes?.id
-    if (id && !byId.has(id)) byId.set(id, node)
+    if (node.attributes?.id) withId.push(node)
     if (node.name === 'style') styleSheet.add(node.children.map((child) => child.value).join(''))
-    for (const child of node.children ?? []) {
-      if (child.type !== 'element') continue
-      nodes.push(child)
+    // Children go on the stack last first, so the walk (and `withId`, and the style sheets) follow document order.
+    const children = node.children ?? []
+    for (let index = children.length - 1; index >= 0; index--) {
+      if (children[index].type !== 'element') continue
+      nodes.push(children[index])
       depths.push(depth + 1)
     }
   }
-  return { byId, styleSheet }
+  return { byId: new IdIndex(withId), styleSheet }
+}
+
+/** Elements by id (given in document order), the first of equal ids winning, as getElementById does; the map is built on the first lookup. */
+class IdIndex {
+  private map: Map<string, INode> | undefined
+
+  constructor(private readonly withId: INode[]) {}
+
+  get(id: string): INode | undefined {
+    if (this.map === undefined) {
+      this.map = new Map()
+      for (const node of this.withId) if (!this.map.has(node.attributes.id)) this.map.set(node.attributes.id, node)
+    }
+    return this.map.get(id)
+  }
 }

@@ -25,13 +25,25 @@ export class StyleSheet {
   }
 
   /** Matching declarations in CSS specificity order (element, class, id). */
-  matching(elementName: string, classAttribute: string | undefined, id: string | undefined): Array<[string, string]> {
-    const found: Array<[string, string]> = [...(this.byElement.get(elementName) ?? [])]
-    for (const className of classAttribute?.split(/\s+/) ?? []) found.push(...(this.byClass.get(className) ?? []))
-    if (id) found.push(...(this.byId.get(id) ?? []))
-    return found
+  matching(elementName: string, classAttribute: string | undefined, id: string | undefined): ReadonlyArray<[string, string]> {
+    // Most sheets hold one kind of selector: lookups into an empty map are skipped, since hashing an id or class costs more than the rest.
+    const byElement = this.byElement.size > 0 ? this.byElement.get(elementName) : undefined
+    let found: Array<[string, string]> | undefined = byElement && [...byElement]
+    if (classAttribute && this.byClass.size > 0) {
+      for (const className of classAttribute.split(/\s+/)) {
+        const declarations = this.byClass.get(className)
+        if (declarations) (found ??= []).push(...declarations)
+      }
+    }
+    if (id && this.byId.size > 0) {
+      const declarations = this.byId.get(id)
+      if (declarations) (found ??= []).push(...declarations)
+    }
+    return found ?? NO_DECLARATIONS
   }
 }
+
+const NO_DECLARATIONS: ReadonlyArray<[string, string]> = Object.freeze([])
 
 export function parseDeclarations(text: string): Array<[string, string]> {
   const declarations: Array<[string, string]> = []

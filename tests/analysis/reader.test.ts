@@ -50,6 +50,16 @@ describe('what is drawn and how', () => {
     expect(readerFindings(result)).toEqual([])
   })
 
+  // DOM getElementById (WHATWG DOM §4.2.4, "the first element, in tree order") and CSS cascade order (CSS Cascading 4 §6.1: of equal specificity, the last declared wins).
+  it('takes the first of equal ids in document order, and the later of two style sheets', () => {
+    const twoIds = mmDocument(`<defs><g id="part">${cutPath('M0 0H10')}</g><g id="other"><g id="part">${cutPath('M0 0H30')}</g></g></defs><use href="#part"/>`)
+    expect(analyze(twoIds).cut.lengthMm).toBeCloseTo(10, 9)
+    const twoSheets = mmDocument(`<g><style>.line { stroke: ${CUT}; fill: none }</style></g><style>.line { stroke: ${SCORE} }</style><path class="line" d="M0 0H10" fill="none"/>`)
+    const result = analyze(twoSheets)
+    expect(result.score.lengthMm).toBeCloseTo(10, 9)
+    expect(result.cut.lengthMm).toBe(0)
+  })
+
   it('matches colours within the mapping tolerance and reports unmapped ones once', () => {
     const nearCut = '#c51a5e'
     const result = analyze(mmDocument(`${cutPath('M0 0H10', `stroke="${nearCut}"`).replace(`stroke="${CUT}" `, '')}<path d="M0 10H10" stroke="#123456"/><path d="M0 20H10" stroke="#123456"/>`))

@@ -45,6 +45,18 @@ describe('bad input gets a typed, member-readable error', () => {
     expectInputError(mmDocument(`${'<g>'.repeat(depth)}${cutPath('M0 0H10')}${'</g>'.repeat(depth)}`), 'tooComplex', 422)
   })
 
+  it('refuses a tag crowded with attributes, and still reads a long path in one tag', () => {
+    const crowded = Array.from({ length: 2001 }, (_, index) => `a${index}="1"`).join(' ')
+    expectInputError(mmDocument(`<rect x="0" y="0" width="5" height="5" stroke="#c2185b" fill="none" ${crowded}/>`), 'tooComplex', 422)
+    // 2 000 segments make a tag far longer than a crowded one, but with few attributes.
+    const longPath = `M0 0${'h0.005'.repeat(2000)}`
+    expect(analyze(mmDocument(cutPath(longPath))).cut.lengthMm).toBeCloseTo(10, 6)
+  })
+
+  it('answers quickly when a file is full of unclosed angle brackets', () => {
+    expectInputError(`<svg xmlns="http://www.w3.org/2000/svg">${'<a '.repeat(200_000)}`, 'malformedXml', 422)
+  })
+
   it('refuses <use> references that multiply or refer to themselves', () => {
     const levels = Array.from({ length: 9 }, (_, level) => `<g id="l${level + 1}">${Array.from({ length: 10 }, () => `<use href="#l${level}"/>`).join('')}</g>`)
     expectInputError(mmDocument(`<defs>${cutPath('M0 0H1', 'id="l0"')}${levels.join('')}</defs><use href="#l9"/>`), 'tooComplex', 422)
