@@ -94,10 +94,10 @@ function flattenCurve(segment: CurveSegment, chordToleranceMm: number, subpaths:
   subpaths.ensureOpen()
   const { x, y } = subpaths
   if (segment[0] !== 'A') {
-    const [, ...numbers] = segment
+    const numbers = segment as unknown as number[]
     const chordsMm = segment[0] === 'C'
-      ? addCubic(target, x, y, numbers[0], numbers[1], numbers[2], numbers[3], numbers[4], numbers[5], chordToleranceMm)
-      : addQuadratic(target, x, y, numbers[0], numbers[1], numbers[2], numbers[3], chordToleranceMm)
+      ? addCubic(target, x, y, numbers[1], numbers[2], numbers[3], numbers[4], numbers[5], numbers[6], chordToleranceMm)
+      : addQuadratic(target, x, y, numbers[1], numbers[2], numbers[3], numbers[4], chordToleranceMm)
     subpaths.curveTo(numbers[numbers.length - 2], numbers[numbers.length - 1], curveLength(x, y, segment, chordsMm))
     return
   }

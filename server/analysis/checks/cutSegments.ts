@@ -51,7 +51,8 @@ export class CutSegments {
     this.chunkOf = new Uint32Array(this.count)
     this.alongMm = new Float64Array(contours.pointCount)
     const chunkStart = new Uint32Array(this.count + 1)
-    const chunkBoxes: number[] = []
+    // At most one chunk per segment; trimmed below.
+    const chunkBoxes = new Float64Array(4 * this.count)
     let chunkCount = 0
     const { xy, start } = contours
     let segment = 0
@@ -77,7 +78,7 @@ export class CutSegments {
           segment - chunkStart[chunkCount - 1] >= SEGMENTS_PER_CHUNK ||
           Math.max(Math.max(chunkMaxX, maxX) - Math.min(chunkMinX, minX), Math.max(chunkMaxY, maxY) - Math.min(chunkMinY, minY)) > CHUNK_SIDE_MM
         if (startsChunk) {
-          if (point !== start[id]) chunkBoxes.push(chunkMinX, chunkMinY, chunkMaxX, chunkMaxY)
+          if (point !== start[id]) setBox(chunkBoxes, chunkCount - 1, chunkMinX, chunkMinY, chunkMaxX, chunkMaxY)
           chunkStart[chunkCount++] = segment
           chunkMinX = minX
           chunkMinY = minY
@@ -91,12 +92,12 @@ export class CutSegments {
         }
         this.chunkOf[segment] = chunkCount - 1
       }
-      if (start[id + 1] - start[id] > 1) chunkBoxes.push(chunkMinX, chunkMinY, chunkMaxX, chunkMaxY)
+      if (start[id + 1] - start[id] > 1) setBox(chunkBoxes, chunkCount - 1, chunkMinX, chunkMinY, chunkMaxX, chunkMaxY)
     }
     chunkStart[chunkCount] = this.count
     this.chunkStart = chunkStart.subarray(0, chunkCount + 1)
     this.chunkCount = chunkCount
-    this.chunkBox = Float64Array.from(chunkBoxes)
+    this.chunkBox = chunkBoxes.slice(0, 4 * chunkCount)
     this.materialSide = materialSides(geometry, cutIds)
     this.chunkIndex = chunkCount > 0 ? new Flatbush(chunkCount) : null
     if (this.chunkIndex === null) return
@@ -129,7 +130,7 @@ export class CutSegments {
       from[chunk] = filled
       const near = grownBox(boxes, chunk, reachMm)
       this.chunkIndex!.search(near[0], near[1], near[2], near[3], keep)
-      chunks.subarray(from[chunk], filled).sort()
+      sortInPlace(chunks, from[chunk], filled)
     }
     from[this.chunkCount] = filled
     return { reachMm, from, chunks: chunks.subarray(0, filled) }
@@ -247,11 +248,38 @@ export class CutSegments {
   }
 }
 
+// Past this many neighbours (a crowded drawing) the quadratic insertion sort gives way to the built-in one.
+const INSERTION_SORT_LIMIT = 32
+
+/** Ascending order of values[from … to − 1]: a chunk usually has a handful of neighbours, and a typed-array sort call costs more than sorting them by insertion. */
+function sortInPlace(values: Uint32Array, from: number, to: number): void {
+  if (to - from > INSERTION_SORT_LIMIT) {
+    values.subarray(from, to).sort()
+    return
+  }
+  for (let index = from + 1; index < to; index++) {
+    const value = values[index]
+    let slot = index
+    while (slot > from && values[slot - 1] > value) {
+      values[slot] = values[slot - 1]
+      slot--
+    }
+    values[slot] = value
+  }
+}
+
 /** See `CutSegments.chunksWithin`. */
 export interface ChunkNeighbours {
   reachMm: number
   from: Uint32Array
   chunks: Uint32Array
+}
+
+function setBox(boxes: Float64Array, index: number, minX: number, minY: number, maxX: number, maxY: number): void {
+  boxes[4 * index] = minX
+  boxes[4 * index + 1] = minY
+  boxes[4 * index + 2] = maxX
+  boxes[4 * index + 3] = maxY
 }
 
 const grownBoxScratch = new Float64Array(4)

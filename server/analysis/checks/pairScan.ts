@@ -142,7 +142,7 @@ function scanPairs(geometry: CheckGeometry, params: AnalysisParams): PairScan {
   const scanMm = Math.max(reachMm, repeatMm)
   const touchMm = params.chainToleranceMm
   const { xy } = segments.contours
-  const { box, chunkStart, contourOf, firstPoint } = segments
+  const { box, chunkBox, chunkStart, contourOf, firstPoint } = segments
   const closest = emptyClosestPoints()
   // Patterns usually have one or two near pairs per segment; the list grows if there are more.
   const neighbours = segments.chunksWithin(scanMm)
@@ -207,6 +207,9 @@ function scanPairs(geometry: CheckGeometry, params: AnalysisParams): PairScan {
       for (let slot = from[chunk]; slot < from[chunk + 1]; slot++) {
         const other = chunks[slot]
         if (other < chunk) continue
+        // The other chunk came within the reach of this chunk, not necessarily of this segment: one box test can skip all its segments.
+        const o = 4 * other
+        if (chunkBox[o] > maxX || chunkBox[o + 1] > maxY || chunkBox[o + 2] < minX || chunkBox[o + 3] < minY) continue
         for (let second = Math.max(first + 1, chunkStart[other]); second < chunkStart[other + 1]; second++) {
           const c = 4 * second
           if (box[c] > maxX || box[c + 1] > maxY || box[c + 2] < minX || box[c + 3] < minY) continue
