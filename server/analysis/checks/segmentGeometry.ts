@@ -1,4 +1,5 @@
 /** Exact distance, crossing and overlap of two straight segments in the plane. */
+import { planarLength } from '../distance'
 
 /** Closest points of two segments: P on the first at parameter u, Q on the second at v (0 at the start, 1 at the end). */
 export interface ClosestPoints {
@@ -56,8 +57,6 @@ function setClosest(out: ClosestPoints, distanceMm: number, px: number, py: numb
   return out
 }
 
-const CLEARLY_FARTHER = 1 + 1e-12
-
 /** The end at xy[end] of one segment against the whole of the other segment at xy[segment], kept if nearer than the best so far. */
 function considerEnd(xy: Float64Array, end: number, segment: number, endIsOnSecond: boolean, endParameter: number, out: ClosestPoints): void {
   const x = xy[end]
@@ -71,10 +70,7 @@ function considerEnd(xy: Float64Array, end: number, segment: number, endIsOnSeco
   const t = lengthSquared === 0 ? 0 : Math.min(1, Math.max(0, ((x - sx) * (ex - sx) + (y - sy) * (ey - sy)) / lengthSquared))
   const footX = sx + t * (ex - sx)
   const footY = sy + t * (ey - sy)
-  // A square clearly above the best so far cannot give a shorter hypot (the two differ by a few ulps): skip the root.
-  const squared = (x - footX) ** 2 + (y - footY) ** 2
-  if (squared > out.distanceMm * out.distanceMm * CLEARLY_FARTHER) return
-  const distance = Math.hypot(x - footX, y - footY)
+  const distance = planarLength(x - footX, y - footY)
   if (distance >= out.distanceMm) return
   if (endIsOnSecond) setClosest(out, distance, footX, footY, t, x, y, endParameter)
   else setClosest(out, distance, x, y, endParameter, footX, footY, t)
@@ -151,7 +147,7 @@ export function stretchWithin(ax: number, ay: number, bx: number, by: number, cx
   }
   widen(clipToDisc(ax, ay, cx, cy, dx, dy, toleranceMm))
   widen(clipToDisc(bx, by, cx, cy, dx, dy, toleranceMm))
-  const length = Math.hypot(bx - ax, by - ay)
+  const length = planarLength(bx - ax, by - ay)
   if (length > 0) {
     const alongX = (bx - ax) / length
     const alongY = (by - ay) / length
