@@ -8,17 +8,43 @@ export function parseNumberAttribute(value: string | undefined, attributeName: s
   if (value === undefined || value.trim() === '') return fallback
   const trimmed = value.trim()
   const number = Number(trimmed)
-  if (!NUMBER_PATTERN.test(trimmed) || !Number.isFinite(number)) {
-    throw new AnalysisInputError('badNumber', `The attribute ${attributeName}="${shorten(value)}" is not a valid number.`)
-  }
+  if (!NUMBER_PATTERN.test(trimmed) || !Number.isFinite(number)) throw invalidNumber(attributeName, value)
   return number
 }
 
-/** A whitespace/comma separated list of finite numbers (points, viewBox). */
+// One number of that grammar, then the separators after it (sticky: matched where the scan is, never searched for).
+const LIST_ITEM_PATTERN = /([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)(?:[\s,]+|$)/y
+const SEPARATORS_PATTERN = /[\s,]*/y
+
+/**
+ * A whitespace/comma separated list of finite numbers (points, viewBox).
+ * One sticky scan, with no list of substrings: a polyline-heavy drawing
+ * reads its points in a fraction of the time split-and-test takes.
+ */
 export function parseNumberList(value: string, attributeName: string): number[] {
-  const trimmed = value.trim()
-  if (trimmed === '') return []
-  return trimmed.split(/[\s,]+/).map((part) => parseNumberAttribute(part, attributeName, Number.NaN))
+  const numbers: number[] = []
+  SEPARATORS_PATTERN.lastIndex = 0
+  SEPARATORS_PATTERN.test(value)
+  let index = SEPARATORS_PATTERN.lastIndex
+  while (index < value.length) {
+    LIST_ITEM_PATTERN.lastIndex = index
+    const match = LIST_ITEM_PATTERN.exec(value)
+    const number = match === null ? Number.NaN : Number(match[1])
+    if (match === null || !Number.isFinite(number)) throw invalidNumber(attributeName, badItemAt(value, index))
+    numbers.push(number)
+    index = LIST_ITEM_PATTERN.lastIndex
+  }
+  return numbers
+}
+
+/** The item of a list that starts at `index`, up to the next separator, for the error message. */
+function badItemAt(value: string, index: number): string {
+  const end = value.slice(index).search(/[\s,]/)
+  return end < 0 ? value.slice(index) : value.slice(index, index + end)
+}
+
+function invalidNumber(attributeName: string, value: string): AnalysisInputError {
+  return new AnalysisInputError('badNumber', `The attribute ${attributeName}="${shorten(value)}" is not a valid number.`)
 }
 
 export function shorten(text: string): string {

@@ -45,6 +45,22 @@ describe('bad input gets a typed, member-readable error', () => {
     expectInputError(mmDocument(`${'<g>'.repeat(depth)}${cutPath('M0 0H10')}${'</g>'.repeat(depth)}`), 'tooComplex', 422)
   })
 
+  // SVG 1.1 §9.7: points is a list of coordinate pairs separated by whitespace and/or commas.
+  it('reads polyline points in any separator style and refuses a bad one by name', () => {
+    const polyline = (points: string) => mmDocument(`<polyline points="${points}" stroke="#c2185b" fill="none"/>`)
+    expect(analyze(polyline(' 0,0 10,0\n10 , 5\t')).cut.lengthMm).toBeCloseTo(15, 9)
+    expect(analyze(polyline('0 0,10 0 10 5 0')).cut.lengthMm).toBeCloseTo(15, 9)
+    for (const bad of ['0,0 10,0 NaN,5', '0,0 1-2 5,5', '0,0 10,0 1e999,5', '0,0 10,0 7px,5']) {
+      try {
+        analyze(polyline(bad))
+        expect.unreachable(bad)
+      } catch (error) {
+        expect((error as AnalysisInputError).kind, bad).toBe('badNumber')
+        expect((error as AnalysisInputError).message, bad).toContain('points="')
+      }
+    }
+  })
+
   it('refuses a tag crowded with attributes, and still reads a long path in one tag', () => {
     const crowded = Array.from({ length: 2001 }, (_, index) => `a${index}="1"`).join(' ')
     expectInputError(mmDocument(`<rect x="0" y="0" width="5" height="5" stroke="#c2185b" fill="none" ${crowded}/>`), 'tooComplex', 422)
