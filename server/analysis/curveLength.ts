@@ -12,47 +12,102 @@ const ROUNDINGS_PER_MM = 1e9
 // Past this a number is no cut-file curve (such coordinates are refused later); measure it as it is.
 const MAX_ROUNDED_MM = 1e6
 
-const rememberedLengthsMm = new Map<string, number>()
+const COMMAND_CUBIC = 0x43 // C
+const COMMAND_QUADRATIC = 0x51 // Q
+const COMMAND_ARC = 0x41 // A
 
-/** svg-path-properties' length of one absolute C, Q or A segment (as svgpath writes it) starting at (fromX, fromY). */
-export function measuredCurveLength(fromX: number, fromY: number, segment: [string, ...number[]]): number {
-  const key = shapeKey(fromX, fromY, segment)
-  if (key === undefined) return lengthAsDrawn(fromX, fromY, segment)
-  let lengthMm = rememberedLengthsMm.get(key)
-  if (lengthMm === undefined) {
-    lengthMm = new svgPathProperties(pathDataFromOrigin(segment[0], key)).getTotalLength()
-    // svg-path-properties' arc solver answers NaN for some arcs whose radii just fit (a square root of a rounding error
-    // below zero); which ones depends on the last bits, so the arc as drawn may still measure.
-    if (Number.isNaN(lengthMm)) return lengthAsDrawn(fromX, fromY, segment)
-    if (rememberedLengthsMm.size >= MAX_REMEMBERED_CURVES) rememberedLengthsMm.clear()
-    rememberedLengthsMm.set(key, lengthMm)
-  }
-  return lengthMm
-}
-
-function lengthAsDrawn(fromX: number, fromY: number, segment: [string, ...number[]]): number {
-  return new svgPathProperties(`M${fromX} ${fromY}${segment.join(' ')}`).getTotalLength()
+/** Numbers of each absolute curve command, as svgpath writes them. */
+function numberCountOf(command: number): number {
+  return command === COMMAND_CUBIC ? 6 : command === COMMAND_QUADRATIC ? 4 : 7
 }
 
 /**
- * The command and the segment's numbers from the origin in whole nanometres
- * (integers print much faster than fractions); undefined when a number is
- * too large to round.
+ * Remembered lengths by shape: the command, its rounded numbers and the
+ * length in one flat row per shape, found through a numeric hash of the
+ * rounded numbers (no key string per curve).
  */
-function shapeKey(fromX: number, fromY: number, segment: [string, ...number[]]): string | undefined {
-  const isArc = segment[0] === 'A'
-  let key = segment[0]
-  for (let position = 1; position < segment.length; position++) {
-    // Only an arc's end point is a position; its radii, rotation and flags stay as they are (flags round to themselves).
-    const origin = isArc ? (position === 6 ? fromX : position === 7 ? fromY : 0) : position % 2 === 1 ? fromX : fromY
-    const value = Number(segment[position]) - origin
-    if (!(Math.abs(value) <= MAX_ROUNDED_MM)) return undefined
-    key += ` ${Math.round(value * ROUNDINGS_PER_MM)}`
+const rememberedByHash = new Map<number, Float64Array[]>()
+let rememberedCount = 0
+// The shape being looked up: the command code, then its numbers in whole nanometres from the origin.
+const shape = new Float64Array(8)
+
+/**
+ * svg-path-properties' length of one absolute C, Q or A segment (command as
+ * a char code, its numbers at numbers[offset …] in svgpath's order) starting
+ * at (fromX, fromY).
+ */
+export function measuredCurveLength(fromX: number, fromY: number, command: number, numbers: ArrayLike<number>, offset: number): number {
+  const count = numberCountOf(command)
+  if (!roundShape(fromX, fromY, command, numbers, offset, count)) return lengthAsDrawn(fromX, fromY, command, numbers, offset, count)
+  const hash = shapeHash(count)
+  const row = rememberedRow(rememberedByHash.get(hash), count)
+  if (row !== undefined) return row[count + 1]
+  const lengthMm = new svgPathProperties(pathDataFromOrigin(command, count)).getTotalLength()
+  // svg-path-properties' arc solver answers NaN for some arcs whose radii just fit (a square root of a rounding error
+  // below zero); which ones depends on the last bits, so the arc as drawn may still measure.
+  if (Number.isNaN(lengthMm)) return lengthAsDrawn(fromX, fromY, command, numbers, offset, count)
+  if (rememberedCount >= MAX_REMEMBERED_CURVES) {
+    rememberedByHash.clear()
+    rememberedCount = 0
   }
-  return key
+  const remembered = new Float64Array(count + 2)
+  remembered.set(shape.subarray(0, count + 1))
+  remembered[count + 1] = lengthMm
+  const rows = rememberedByHash.get(hash)
+  if (rows === undefined) rememberedByHash.set(hash, [remembered])
+  else rows.push(remembered)
+  rememberedCount++
+  return lengthMm
 }
 
-function pathDataFromOrigin(command: string, key: string): string {
-  const numbers = key.split(' ').slice(1).map((nanometres) => Number(nanometres) / ROUNDINGS_PER_MM)
-  return `M0 0${command} ${numbers.join(' ')}`
+function lengthAsDrawn(fromX: number, fromY: number, command: number, numbers: ArrayLike<number>, offset: number, count: number): number {
+  return new svgPathProperties(`M${fromX} ${fromY}${String.fromCharCode(command)}${Array.prototype.slice.call(numbers, offset, offset + count).join(' ')}`).getTotalLength()
+}
+
+/**
+ * Writes the command and the segment's numbers from the origin in whole
+ * nanometres into `shape`; false when a number is too large to round.
+ */
+function roundShape(fromX: number, fromY: number, command: number, numbers: ArrayLike<number>, offset: number, count: number): boolean {
+  const isArc = command === COMMAND_ARC
+  shape[0] = command
+  for (let position = 1; position <= count; position++) {
+    // Only an arc's end point is a position; its radii, rotation and flags stay as they are (flags round to themselves).
+    const origin = isArc ? (position === 6 ? fromX : position === 7 ? fromY : 0) : position % 2 === 1 ? fromX : fromY
+    const value = numbers[offset + position - 1] - origin
+    if (!(Math.abs(value) <= MAX_ROUNDED_MM)) return false
+    // + 0 turns −0 into +0, so a shape and its copies agree.
+    shape[position] = Math.round(value * ROUNDINGS_PER_MM) + 0
+  }
+  return true
+}
+
+/** FNV-style mix of the rounded numbers' low and high 32-bit halves (they are integers below 2^53). */
+function shapeHash(count: number): number {
+  let hash = 0x811c9dc5 ^ shape[0]
+  for (let position = 1; position <= count; position++) {
+    const value = shape[position]
+    hash = Math.imul(hash ^ (value | 0), 0x01000193)
+    hash = Math.imul(hash ^ Math.floor(value / 4294967296), 0x01000193)
+  }
+  return hash
+}
+
+/** The remembered row of the shape in `shape`, if any (rows of one hash differ only on a hash collision). */
+function rememberedRow(rows: Float64Array[] | undefined, count: number): Float64Array | undefined {
+  if (rows === undefined) return undefined
+  for (const row of rows) if (isShapeRow(row, count)) return row
+  return undefined
+}
+
+function isShapeRow(row: Float64Array, count: number): boolean {
+  if (row.length !== count + 2) return false
+  for (let position = 0; position <= count; position++) if (row[position] !== shape[position]) return false
+  return true
+}
+
+function pathDataFromOrigin(command: number, count: number): string {
+  let numbersText = ''
+  for (let position = 1; position <= count; position++) numbersText += ` ${shape[position] / ROUNDINGS_PER_MM}`
+  return `M0 0${String.fromCharCode(command)}${numbersText}`
 }

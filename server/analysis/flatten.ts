@@ -4,7 +4,7 @@ import { measuredCurveLength } from './curveLength'
 import { AnalysisInputError } from './errors'
 import type { Matrix } from './matrix'
 import type { PolylineSet } from './polylines'
-import { type CurveSegment, PathSteps, STEP_CLOSE, STEP_CURVE, STEP_MOVE } from './pathSteps'
+import { CURVE_STRIDE, PathSteps, STEP_CLOSE, STEP_CURVE, STEP_MOVE } from './pathSteps'
 import { planarLength } from './distance'
 
 // Beyond a kilometre a coordinate is a drawing mistake (or 1e300), and sums of squares would overflow.
@@ -31,7 +31,7 @@ export function flattenPath(pathData: string, matrix: Matrix, chordToleranceMm: 
   const [a, b, c, d, e, f] = matrix
   // svgpath's own identity test: under it no arithmetic may touch the numbers.
   const identity = a === 1 && b === 0 && c === 0 && d === 1 && e === 0 && f === 0
-  if (pathSteps.read(pathData) && (identity || pathSteps.curves.length === 0)) flattenSteps(pathSteps, matrix, identity, chordToleranceMm, subpaths)
+  if (pathSteps.read(pathData) && (identity || pathSteps.curveCount === 0)) flattenSteps(pathSteps, matrix, identity, chordToleranceMm, subpaths)
   else flattenWithSvgpath(pathData, matrix, chordToleranceMm, subpaths)
   subpaths.finish(false)
 }
@@ -48,7 +48,8 @@ function flattenSteps(steps: PathSteps, matrix: Matrix, identity: boolean, chord
       continue
     }
     if (kind === STEP_CURVE) {
-      flattenCurve(steps.curves[curve++], chordToleranceMm, subpaths)
+      flattenCurve(steps.curveCommand[curve], steps.curveNumbers, curve * CURVE_STRIDE, chordToleranceMm, subpaths)
+      curve++
       continue
     }
     const userX = steps.x[step]
@@ -83,41 +84,55 @@ function flattenWithSvgpath(pathData: string, matrix: Matrix, chordToleranceMm: 
       case 'C':
       case 'Q':
       case 'A':
-        flattenCurve(segment as CurveSegment, chordToleranceMm, subpaths)
+        // svgpath writes the flags of an arc it has mirrored as the strings "0"/"1": Number() reads both forms.
+        for (let position = 1; position < segment.length; position++) svgpathCurve[position - 1] = Number(segment[position])
+        flattenCurve(command.charCodeAt(0), svgpathCurve, 0, chordToleranceMm, subpaths)
         break
     }
   }
 }
 
-/** One absolute C, Q or A segment from the current point: its chords, and its exact length. */
-function flattenCurve(segment: CurveSegment, chordToleranceMm: number, subpaths: SubpathWriter): void {
+// One svgpath segment's numbers, in the layout of PathSteps' curves.
+const svgpathCurve = new Float64Array(CURVE_STRIDE)
+
+const COMMAND_CUBIC = 0x43 // C
+const COMMAND_ARC = 0x41 // A
+
+/** One absolute C, Q or A segment (its numbers at numbers[offset …]) from the current point: its chords, and its exact length. */
+function flattenCurve(command: number, numbers: Float64Array, offset: number, chordToleranceMm: number, subpaths: SubpathWriter): void {
   const { target } = subpaths
   subpaths.ensureOpen()
   const { x, y } = subpaths
-  if (segment[0] !== 'A') {
-    const numbers = segment as unknown as number[]
-    const chordsMm = segment[0] === 'C'
-      ? addCubic(target, x, y, numbers[1], numbers[2], numbers[3], numbers[4], numbers[5], numbers[6], chordToleranceMm)
-      : addQuadratic(target, x, y, numbers[1], numbers[2], numbers[3], numbers[4], chordToleranceMm)
-    subpaths.curveTo(numbers[numbers.length - 2], numbers[numbers.length - 1], curveLength(x, y, segment, chordsMm))
+  if (command !== COMMAND_ARC) {
+    const isCubic = command === COMMAND_CUBIC
+    const chordsMm = isCubic
+      ? addCubic(target, x, y, numbers[offset], numbers[offset + 1], numbers[offset + 2], numbers[offset + 3], numbers[offset + 4], numbers[offset + 5], chordToleranceMm)
+      : addQuadratic(target, x, y, numbers[offset], numbers[offset + 1], numbers[offset + 2], numbers[offset + 3], chordToleranceMm)
+    const end = offset + (isCubic ? 4 : 2)
+    subpaths.curveTo(numbers[end], numbers[end + 1], curveLength(x, y, command, numbers, offset, chordsMm))
     return
   }
-  const [, rx, ry, rotationDeg, largeArc, sweep, toX, toY] = segment as unknown as number[]
+  const rx = numbers[offset]
+  const ry = numbers[offset + 1]
+  const rotationDeg = numbers[offset + 2]
+  const largeArc = numbers[offset + 3]
+  const sweep = numbers[offset + 4]
+  const toX = numbers[offset + 5]
+  const toY = numbers[offset + 6]
   if (toX === x && toY === y) return
   // SVG 1.1 F.6.2: an arc with a zero radius is a straight line.
   if (rx === 0 || ry === 0) {
     subpaths.lineTo(toX, toY)
     return
   }
-  // svgpath writes the flags of an arc it has mirrored as the strings "0"/"1"; a2c compares numbers.
-  for (const cubic of arcToCubics(x, y, toX, toY, Number(largeArc), Number(sweep), rx, ry, rotationDeg)) {
+  for (const cubic of arcToCubics(x, y, toX, toY, largeArc, sweep, rx, ry, rotationDeg)) {
     addCubic(target, cubic[0], cubic[1], cubic[2], cubic[3], cubic[4], cubic[5], cubic[6], cubic[7], chordToleranceMm)
   }
   // The cubics end on the arc's endpoint up to rounding; land exactly on it.
   target.xy[2 * target.pointCount - 2] = toX
   target.xy[2 * target.pointCount - 1] = toY
   // The cubics approximating an arc bulge slightly outside it, so their chords are no lower bound here.
-  subpaths.curveTo(toX, toY, curveLength(x, y, segment, 0))
+  subpaths.curveTo(toX, toY, curveLength(x, y, command, numbers, offset, 0))
 }
 
 /**
@@ -188,8 +203,8 @@ class SubpathWriter {
  * given: by the triangle inequality no curve is shorter than its chords, and
  * quadrature undershoots near cusps.
  */
-function curveLength(fromX: number, fromY: number, segment: CurveSegment, chordsMm: number): number {
-  return Math.max(chordsMm, measuredCurveLength(fromX, fromY, segment))
+function curveLength(fromX: number, fromY: number, command: number, numbers: Float64Array, offset: number, chordsMm: number): number {
+  return Math.max(chordsMm, measuredCurveLength(fromX, fromY, command, numbers, offset))
 }
 
 function addPoint(target: PolylineSet, x: number, y: number): void {

@@ -13,11 +13,11 @@
 export const STEP_MOVE = 0
 export const STEP_LINE = 1
 export const STEP_CLOSE = 2
-/** A C, Q or A segment: see `curves`. */
+/** A C, Q or A segment: see `curveCommand` and `curveNumbers`. */
 export const STEP_CURVE = 3
 
-/** An absolute curve segment as svgpath writes it: command, then its numbers. */
-export type CurveSegment = [string, ...number[]]
+/** Numbers kept per curve: C has 6, Q 4, A 7 (rx, ry, rotation, large-arc flag, sweep flag, x, y). */
+export const CURVE_STRIDE = 7
 
 const CHAR_SPACE = 0x20
 const CHAR_TAB = 0x09
@@ -46,8 +46,15 @@ export class PathSteps {
   x = new Float64Array(64)
   y = new Float64Array(64)
   count = 0
-  /** The curve segments in step order, one per STEP_CURVE. */
-  curves: CurveSegment[] = []
+  /**
+   * The curves in step order, one per STEP_CURVE, as svgpath's abs() writes
+   * them but flat: curve i is `curveCommand[i]` ('C', 'Q' or 'A' as a char
+   * code) with its numbers at curveNumbers[CURVE_STRIDE·i …]. No array or
+   * boxed number per curve.
+   */
+  curveCommand = new Uint8Array(16)
+  curveNumbers = new Float64Array(16 * CURVE_STRIDE)
+  curveCount = 0
   private text = ''
   private index = 0
   private number = 0
@@ -57,7 +64,7 @@ export class PathSteps {
     this.text = pathData
     this.index = 0
     this.count = 0
-    this.curves = []
+    this.curveCount = 0
     let currentX = 0
     let currentY = 0
     let subpathX = 0
@@ -126,27 +133,39 @@ export class PathSteps {
    */
   private readCurves(command: number, parameters: number, relative: boolean, fromX: number, fromY: number): [number, number] | undefined {
     const isArc = (command | LOWER_CASE_BIT) === 0x61
-    const name = String.fromCharCode(command & ~LOWER_CASE_BIT)
+    const absoluteCommand = command & ~LOWER_CASE_BIT
     let currentX = fromX
     let currentY = fromY
     for (;;) {
-      const segment: CurveSegment = [name]
+      const curve = this.beginCurve(absoluteCommand)
+      const numbers = this.curveNumbers
+      const offset = curve * CURVE_STRIDE
       let commaFound = false
       for (let position = 1; position <= parameters; position++) {
         const isFlag = isArc && (position === 4 || position === 5)
         if (!(isFlag ? this.scanFlag() : this.scanNumber())) return undefined
         const isX = isArc ? position === 6 : position % 2 === 1
         const isY = isArc ? position === 7 : position % 2 === 0
-        segment.push(relative && isX ? this.number + currentX : relative && isY ? this.number + currentY : this.number)
+        numbers[offset + position - 1] = relative && isX ? this.number + currentX : relative && isY ? this.number + currentY : this.number
         commaFound = this.skipSeparator()
       }
-      currentX = segment[parameters - 1] as number
-      currentY = segment[parameters] as number
-      this.curves.push(segment)
+      currentX = numbers[offset + parameters - 2]
+      currentY = numbers[offset + parameters - 1]
       this.push(STEP_CURVE, currentX, currentY)
       if (commaFound) continue
       if (this.index >= this.text.length || !startsNumber(this.text.charCodeAt(this.index))) return [currentX, currentY]
     }
+  }
+
+  /** A new curve slot for `command`, growing the flat arrays when full. */
+  private beginCurve(command: number): number {
+    if (this.curveCount === this.curveCommand.length) {
+      const size = this.curveCount * 2
+      this.curveCommand = grow(this.curveCommand, new Uint8Array(size))
+      this.curveNumbers = grow(this.curveNumbers, new Float64Array(size * CURVE_STRIDE))
+    }
+    this.curveCommand[this.curveCount] = command
+    return this.curveCount++
   }
 
   /** svgpath's arc flag: one character, 0 or 1. */

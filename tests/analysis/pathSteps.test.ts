@@ -1,7 +1,7 @@
 import fc from 'fast-check'
 import svgpath from 'svgpath'
 import { describe, expect, it } from 'vitest'
-import { PathSteps, STEP_CLOSE, STEP_CURVE } from '../../server/analysis/pathSteps'
+import { CURVE_STRIDE, PathSteps, STEP_CLOSE, STEP_CURVE } from '../../server/analysis/pathSteps'
 
 // The reference is svgpath itself: the engine used it for all path data before this scanner took the common cases.
 type Segment = [string, ...number[]]
@@ -70,8 +70,16 @@ function scannedSteps(steps: PathSteps, matrix?: number[]): Array<{ x: number; y
     const x = matrix ? userX * a + userY * c + e : userX
     const y = matrix ? userX * b + userY * d + f : userY
     if (steps.kind[step] === STEP_CLOSE) return { x, y, close: true }
-    return { x, y, curve: steps.kind[step] === STEP_CURVE ? steps.curves[curve++] : undefined }
+    return { x, y, curve: steps.kind[step] === STEP_CURVE ? curveSegment(steps, curve++) : undefined }
   })
+}
+
+/** A curve of the scanner's flat storage in svgpath's segment form: the command, then its numbers. */
+function curveSegment(steps: PathSteps, curve: number): Segment {
+  const command = String.fromCharCode(steps.curveCommand[curve])
+  const count = { C: 6, Q: 4, A: 7 }[command]!
+  const offset = curve * CURVE_STRIDE
+  return [command, ...steps.curveNumbers.subarray(offset, offset + count)]
 }
 
 describe('the path data scanner reads what svgpath reads', () => {
