@@ -23,6 +23,10 @@ export class CutSegments {
   readonly count: number
   readonly firstPoint: Uint32Array
   readonly contourOf: Uint32Array
+  /** Per segment: the segment before it on its contour (a closed contour wraps round), −1 at the start of an open one. */
+  readonly previousOf: Int32Array
+  /** Per segment: the segment after it on its contour, −1 at the end of an open one. */
+  readonly nextOf: Int32Array
   /** Per segment: [minX, minY, maxX, maxY]. */
   readonly box: Float64Array
   /** Chunk c holds segments chunkStart[c] … chunkStart[c + 1] − 1. */
@@ -48,6 +52,8 @@ export class CutSegments {
     this.count = cutIds.reduce((sum, id) => sum + contours.pointsOf(id) - 1, 0)
     this.firstPoint = new Uint32Array(this.count)
     this.contourOf = new Uint32Array(this.count)
+    this.previousOf = new Int32Array(this.count)
+    this.nextOf = new Int32Array(this.count)
     this.box = new Float64Array(4 * this.count)
     this.chunkOf = new Uint32Array(this.count)
     this.alongMm = new Float64Array(contours.pointCount)
@@ -58,6 +64,7 @@ export class CutSegments {
     const { xy, start } = contours
     let segment = 0
     for (const id of cutIds) {
+      linkAlongContour(this.previousOf, this.nextOf, segment, contours.pointsOf(id) - 1, contours.closed[id] === 1)
       let chunkMinX = Infinity
       let chunkMinY = Infinity
       let chunkMaxX = -Infinity
@@ -157,26 +164,7 @@ export class CutSegments {
 
   /** Segments of one contour that follow each other, including a closed contour's last and first. */
   adjacent(a: number, b: number): boolean {
-    const contour = this.contourOf[a]
-    if (contour !== this.contourOf[b]) return false
-    const gap = Math.abs(this.firstPoint[a] - this.firstPoint[b])
-    return gap === 1 || (this.contours.closed[contour] === 1 && gap === this.contours.pointsOf(contour) - 2)
-  }
-
-  /** The segment before this one on its contour (a closed contour wraps round), −1 at the start of an open one. */
-  previous(segment: number): number {
-    const contour = this.contourOf[segment]
-    if (this.firstPoint[segment] > this.contours.start[contour]) return segment - 1
-    const lastOffset = this.contours.start[contour + 1] - 2 - this.contours.start[contour]
-    return this.contours.closed[contour] === 1 && lastOffset > 0 ? segment + lastOffset : -1
-  }
-
-  /** The segment after this one on its contour, −1 at the end of an open one. */
-  next(segment: number): number {
-    const contour = this.contourOf[segment]
-    const lastOffset = this.contours.start[contour + 1] - 2 - this.contours.start[contour]
-    if (this.firstPoint[segment] < this.contours.start[contour + 1] - 2) return segment + 1
-    return this.contours.closed[contour] === 1 && lastOffset > 0 ? segment - lastOffset : -1
+    return this.nextOf[a] === b || this.previousOf[a] === b
   }
 
   /**
@@ -226,7 +214,7 @@ export class CutSegments {
     if (side === 0) return true
     const onThisSide = this.materialSideOf(segment, side, closest, isFirst)
     const t = isFirst ? closest.u : closest.v
-    const neighbour = t === 0 ? this.previous(segment) : t === 1 ? this.next(segment) : -1
+    const neighbour = t === 0 ? this.previousOf[segment] : t === 1 ? this.nextOf[segment] : -1
     if (neighbour < 0) return onThisSide
     const onNeighbourSide = this.materialSideOf(neighbour, side, closest, isFirst)
     const incoming = 2 * this.firstPoint[t === 0 ? neighbour : segment]
@@ -274,6 +262,19 @@ export interface ChunkNeighbours {
   reachMm: number
   from: Uint32Array
   chunks: Uint32Array
+}
+
+/** Neighbours of the `count` segments of one contour from segment `first` on: a closed contour of two or more segments wraps round. */
+function linkAlongContour(previousOf: Int32Array, nextOf: Int32Array, first: number, count: number, closed: boolean): void {
+  if (count <= 0) return
+  const last = first + count - 1
+  for (let segment = first; segment <= last; segment++) {
+    previousOf[segment] = segment - 1
+    nextOf[segment] = segment + 1
+  }
+  const wraps = closed && count > 1
+  previousOf[first] = wraps ? last : -1
+  nextOf[last] = wraps ? first : -1
 }
 
 function setBox(boxes: Float64Array, index: number, minX: number, minY: number, maxX: number, maxY: number): void {

@@ -31,33 +31,40 @@ export function checkNarrowBridges(geometry: CheckGeometry, params: AnalysisPara
     if (best < 0 || distanceMm[slot] < distanceMm[best]) narrowestOfSite[site] = slot
   }
   // Usually the narrowest pair of a site is unscreened; only sites where it is not need their other pairs, widest last.
-  const screenedSites = new Set(sites.filter((site) => isScreened(segments, neighbours, narrow, narrowestOfSite[site], params.chainToleranceMm)))
+  const screenedSite = new Uint8Array(narrow.count)
+  let screenedCount = 0
+  for (const site of sites) {
+    if (!isScreened(segments, neighbours, narrow, narrowestOfSite[site], params.chainToleranceMm)) continue
+    screenedSite[site] = 1
+    screenedCount++
+  }
   const othersOfScreened = new Map<number, number[]>()
-  for (let slot = 0; slot < narrow.count && screenedSites.size > 0; slot++) {
+  for (let slot = 0; slot < narrow.count && screenedCount > 0; slot++) {
     const site = siteOf[slot]
-    if (!screenedSites.has(site)) continue
+    if (screenedSite[site] === 0) continue
     const others = othersOfScreened.get(site)
     if (others === undefined) othersOfScreened.set(site, [slot])
     else others.push(slot)
   }
   const reported: number[] = []
   for (const site of sites) {
-    if (!screenedSites.has(site)) {
+    if (screenedSite[site] === 0) {
       reported.push(narrowestOfSite[site])
       continue
     }
     const unscreened = othersOfScreened.get(site)!.sort((a, b) => distanceMm[a] - distanceMm[b]).find((other) => !isScreened(segments, neighbours, narrow, other, params.chainToleranceMm))
     if (unscreened !== undefined) reported.push(unscreened)
   }
-  return reported.sort((a, b) => distanceMm[a] - distanceMm[b]).map((slot) => bridgeFinding(narrow, slot, segments.contourOf, params))
+  const wording = bridgeWording(params)
+  return reported.sort((a, b) => distanceMm[a] - distanceMm[b]).map((slot) => bridgeFinding(narrow, slot, segments.contourOf, params, wording))
 }
 
 /**
  * Union–find over the narrow pairs: the site (a representative slot) of each
  * slot. The pairs arrive sorted by first segment, then second (the pair scan
  * goes through segments in order), so the pairs of one first segment form a
- * short row found by offset, and a neighbouring pair is found in its row by
- * bisection. Joining is symmetric, so each slot looks only for pairs that
+ * short row found by offset, and a neighbouring pair is found by walking its
+ * row (a dozen pairs at most in a dense pattern, fewer steps than bisection). Joining is symmetric, so each slot looks only for pairs that
  * come after it; the earlier ones found it already.
  */
 function bridgeSites(segments: CutSegments, narrow: NearCutList): Int32Array {
@@ -69,14 +76,10 @@ function bridgeSites(segments: CutSegments, narrow: NearCutList): Int32Array {
     const first = Math.min(a, b)
     const second = Math.max(a, b)
     if (first < firstOf[slot] || (first === firstOf[slot] && second <= secondOf[slot])) return -1
+    const end = rowStart[first + 1]
     let low = rowStart[first]
-    let high = rowStart[first + 1]
-    while (low < high) {
-      const middle = (low + high) >>> 1
-      if (secondOf[middle] < second) low = middle + 1
-      else high = middle
-    }
-    return low < rowStart[first + 1] && secondOf[low] === second ? low : -1
+    while (low < end && secondOf[low] < second) low++
+    return low < end && secondOf[low] === second ? low : -1
   }
   const parent = new Int32Array(narrow.count)
   for (let slot = 0; slot < narrow.count; slot++) parent[slot] = slot
@@ -84,11 +87,18 @@ function bridgeSites(segments: CutSegments, narrow: NearCutList): Int32Array {
     while (parent[slot] !== slot) slot = parent[slot] = parent[parent[slot]]
     return slot
   }
+  const { previousOf, nextOf } = segments
   const firstSides = new Int32Array(3)
   const secondSides = new Int32Array(3)
   for (let slot = 0; slot < narrow.count; slot++) {
-    withNeighbours(segments, firstOf[slot], firstSides)
-    withNeighbours(segments, secondOf[slot], secondSides)
+    const first = firstOf[slot]
+    const second = secondOf[slot]
+    firstSides[0] = first
+    firstSides[1] = previousOf[first]
+    firstSides[2] = nextOf[first]
+    secondSides[0] = second
+    secondSides[1] = previousOf[second]
+    secondSides[2] = nextOf[second]
     for (let i = 0; i < 3; i++) {
       for (let j = 0; j < 3; j++) {
         if (firstSides[i] < 0 || secondSides[j] < 0) continue
@@ -101,20 +111,23 @@ function bridgeSites(segments: CutSegments, narrow: NearCutList): Int32Array {
   return parent
 }
 
-/** The segment and its neighbours along the contour into `out` (−1 where there is none). */
-function withNeighbours(segments: CutSegments, segment: number, out: Int32Array): void {
-  out[0] = segment
-  out[1] = segments.previous(segment)
-  out[2] = segments.next(segment)
+/** The parts of the bridge messages that depend only on the params, formatted once for all findings. */
+interface BridgeWording {
+  kerf: string
+  minimum: string
 }
 
-function bridgeFinding(narrow: NearCutList, slot: number, contourOf: Uint32Array, params: AnalysisParams): Finding {
+function bridgeWording(params: AnalysisParams): BridgeWording {
+  return { kerf: formatMm(params.kerfMm), minimum: formatMm(params.minBridgeMm) }
+}
+
+function bridgeFinding(narrow: NearCutList, slot: number, contourOf: Uint32Array, params: AnalysisParams, wording: BridgeWording): Finding {
   const distanceMm = narrow.distanceMm[slot]
   const widthMm = distanceMm - params.kerfMm
   const burnsAway = widthMm <= 0
   const message = burnsAway
-    ? `The cuts here are ${formatMm(distanceMm)} apart, no more than the kerf (${formatMm(params.kerfMm)}): the bridge between them burns away and the piece comes loose.`
-    : `The bridge between these cuts is ${formatMm(widthMm)} wide after the kerf; the minimum for this material and cutter is ${formatMm(params.minBridgeMm)}. It may tear or burn through.`
+    ? `The cuts here are ${formatMm(distanceMm)} apart, no more than the kerf (${wording.kerf}): the bridge between them burns away and the piece comes loose.`
+    : `The bridge between these cuts is ${formatMm(widthMm)} wide after the kerf; the minimum for this material and cutter is ${wording.minimum}. It may tear or burn through.`
   const { px, py, qx, qy } = narrow.closest(slot)
   const first = contourOf[narrow.first[slot]]
   const second = contourOf[narrow.second[slot]]

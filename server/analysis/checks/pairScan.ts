@@ -50,15 +50,21 @@ export class NearCutList {
     this.distanceMm[slot] = distanceMm
   }
 
-  /** The slots for which `keep` holds, in order, as a new list. */
+  /** The slots for which `keep` holds, in order, as a new list (this one when all are kept). */
   filter(keep: (slot: number) => boolean): NearCutList {
     const keptSlots = new Uint32Array(this.count)
     let keptCount = 0
     for (let slot = 0; slot < this.count; slot++) if (keep(slot)) keptSlots[keptCount++] = slot
+    if (keptCount === this.count) return this
     const kept = new NearCutList(this.segments, Math.max(1, keptCount))
+    kept.count = keptCount
     for (let index = 0; index < keptCount; index++) {
       const slot = keptSlots[index]
-      kept.push(this.kind[slot], this.first[slot], this.second[slot], this.sameContour[slot] === 1, this.distanceMm[slot])
+      kept.kind[index] = this.kind[slot]
+      kept.sameContour[index] = this.sameContour[slot]
+      kept.first[index] = this.first[slot]
+      kept.second[index] = this.second[slot]
+      kept.distanceMm[index] = this.distanceMm[slot]
     }
     return kept
   }
