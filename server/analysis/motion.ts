@@ -38,6 +38,23 @@ export function junctionSpeed(ux1: number, uy1: number, ux2: number, uy2: number
   return Math.min(maxSpeed, Math.sqrt((accel * deviationMm * sinHalfTheta) / (1 - sinHalfTheta)))
 }
 
+/**
+ * Math.hypot(dx, dy), bit for bit: the same arithmetic as the runtime's
+ * builtin for two finite arguments (both scaled by the larger, the root of
+ * the sum of squares, times the larger), without the builtin's call, which
+ * costs several times the arithmetic in the per-point loops. Zero, infinite
+ * and NaN arguments go to the builtin.
+ */
+export function hypot(dx: number, dy: number): number {
+  const absX = Math.abs(dx)
+  const absY = Math.abs(dy)
+  const larger = absX > absY ? absX : absY
+  if (!(larger > 0 && larger < Infinity)) return Math.hypot(dx, dy)
+  const scaledX = absX / larger
+  const scaledY = absY / larger
+  return Math.sqrt(scaledX * scaledX + scaledY * scaledY) * larger
+}
+
 /** Reusable scratch space for the planner, so a contour costs no allocation per point. */
 export class PolylinePlanner {
   private lengths = new Float64Array(256)
@@ -53,7 +70,7 @@ export class PolylinePlanner {
     if (segmentCount <= 0) return 0
     if (accel <= 0) {
       let lengthMm = 0
-      for (let point = first; point < end - 1; point++) lengthMm += Math.hypot(xy[2 * point + 2] - xy[2 * point], xy[2 * point + 3] - xy[2 * point + 1])
+      for (let point = first; point < end - 1; point++) lengthMm += hypot(xy[2 * point + 2] - xy[2 * point], xy[2 * point + 3] - xy[2 * point + 1])
       return lengthMm / maxSpeed
     }
     this.ensureCapacity(segmentCount)
@@ -65,7 +82,7 @@ export class PolylinePlanner {
       const point = first + segment
       const dx = xy[2 * point + 2] - xy[2 * point]
       const dy = xy[2 * point + 3] - xy[2 * point + 1]
-      const length = Math.hypot(dx, dy)
+      const length = hypot(dx, dy)
       lengths[segment] = length
       const ux = length > 0 ? dx / length : previousUx
       const uy = length > 0 ? dy / length : previousUy

@@ -194,18 +194,29 @@ function improveWithTwoOpt(stops: TourStops, order: Int32Array, startX: number, 
   const count = order.length
   const ends = TourEnds.of(stops, order)
   const { inX, inY, outX, outY, moveMm } = ends
+  // settled[p]: trying p as `from` reversed nothing, and nothing that try reads has changed since, so trying again would reverse nothing.
+  const settled = new Uint8Array(count)
   for (let pass = 0; pass < TWO_OPT_PASSES; pass++) {
     let improved = false
     for (let from = 0; from < count; from++) {
+      if (settled[from] === 1) continue
+      settled[from] = 1
       const previousX = from > 0 ? outX[from - 1] : startX
       const previousY = from > 0 ? outY[from - 1] : startY
       const last = Math.min(count, from + TWO_OPT_WINDOW) - 1
       for (let to = from; to <= last; to++) {
         const hasNext = to + 1 < count
         const before = (from > 0 ? moveMm[from - 1] : distance(inX[0] - startX, inY[0] - startY)) + (hasNext ? moveMm[to] : 0)
-        const after = distance(outX[to] - previousX, outY[to] - previousY) + (hasNext ? distance(inX[to + 1] - inX[from], inY[to + 1] - inY[from]) : 0)
-        if (after < before - 1e-9) {
+        const worthAfter = before - 1e-9
+        const newMoveInX = outX[to] - previousX
+        const newMoveInY = outY[to] - previousY
+        // Mostly the new move in alone is already too long: a squared test, with a margin far above rounding, settles that without a root.
+        if (!(worthAfter > 0) || newMoveInX * newMoveInX + newMoveInY * newMoveInY > worthAfter * worthAfter * (1 + 1e-6)) continue
+        const after = distance(newMoveInX, newMoveInY) + (hasNext ? distance(inX[to + 1] - inX[from], inY[to + 1] - inY[from]) : 0)
+        if (after < worthAfter) {
           ends.reverseRun(order, from, to)
+          // A try from p reads positions p − 1 … p + window and the moves between them.
+          settled.fill(0, Math.max(0, from - TWO_OPT_WINDOW), to + 2)
           improved = true
         }
       }
