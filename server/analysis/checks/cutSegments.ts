@@ -1,5 +1,6 @@
 import Flatbush from 'flatbush'
 import { cutNesting } from '../containment'
+import { BoxGrid } from './boxGrid'
 import { OPERATION_CODES, type PolylineSet } from '../polylines'
 import type { CheckGeometry } from './index'
 import { oncePerGeometry } from './memo'
@@ -118,7 +119,9 @@ export class CutSegments {
    * For every chunk, the chunks whose boxes come within `reachMm` of its box
    * (itself included), in ascending order: chunk c's are
    * `chunks[from[c]] … chunks[from[c + 1] − 1]`. Every pair of segments whose
-   * boxes come within the reach lies in such a pair of chunks.
+   * boxes come within the reach lies in such a pair of chunks. A grid of the
+   * chunk boxes answers the many small queries; the tree when the chunks are
+   * too spread out for one.
    */
   chunksWithin(reachMm: number): ChunkNeighbours {
     const from = new Uint32Array(this.chunkCount + 1)
@@ -134,10 +137,12 @@ export class CutSegments {
       return false
     }
     const boxes = this.chunkBox
+    const grid = BoxGrid.of(boxes, this.chunkCount, CHUNK_SIDE_MM)
     for (let chunk = 0; chunk < this.chunkCount; chunk++) {
       from[chunk] = filled
       const near = grownBox(boxes, chunk, reachMm)
-      this.chunkIndex!.search(near[0], near[1], near[2], near[3], keep)
+      if (grid === null) this.chunkIndex!.search(near[0], near[1], near[2], near[3], keep)
+      else grid.forEachMeeting(near[0], near[1], near[2], near[3], keep)
       sortInPlace(chunks, from[chunk], filled)
     }
     from[this.chunkCount] = filled
