@@ -19,45 +19,47 @@ export interface MachineTime {
  * through the constant-acceleration motion model.
  */
 export function estimateMachineTime(contours: PolylineSet, bounds: Float64Array, engraveAreaMm2: number, params: AnalysisParams): MachineTime {
-  const scoreIds: number[] = []
-  const cutIds: number[] = []
-  for (let index = 0; index < contours.count; index++) {
-    if (contours.operation[index] === OPERATION_CODES.score) scoreIds.push(index)
-    if (contours.operation[index] === OPERATION_CODES.cut) cutIds.push(index)
-  }
-  const { depth } = cutNesting(contours, bounds)
-  const levels: number[][] = [scoreIds]
-  for (const id of cutIds) (levels[depth[id] + 1] ??= []).push(id)
-  const runOrder = new Int32Array(scoreIds.length + cutIds.length)
-  const cutLevelsDeepestFirst = levels.slice(1).reverse()
-
+  const { ids, levelStart } = tourLevels(contours, cutNesting(contours, bounds).depth)
+  const runOrder = new Int32Array(ids.length)
   const rapidSpeed = params.rapidSpeedMmPerMin / 60
-  let travelMm = 0
   let travelS = 0
+  const timeRapidMove = (moveMm: number) => {
+    travelS += restToRestTimeS(moveMm, rapidSpeed, params.accelMmPerS2)
+  }
+  let travelMm = 0
   let x = 0
   let y = 0
   let written = 0
-  for (const level of [scoreIds, ...cutLevelsDeepestFirst]) {
-    if (!level?.length) continue
-    const stops = stopsOf(contours, level)
-    const order = planTour(stops, level.length, x, y)
-    const travel = tourTravel(stops, order, x, y, (moveMm) => {
-      travelS += restToRestTimeS(moveMm, rapidSpeed, params.accelMmPerS2)
-    })
+  const levelCount = levelStart.length - 1
+  for (let step = 0; step < levelCount; step++) {
+    // Level 0 (the score lines) first, then the cut levels from the deepest out.
+    const level = step === 0 ? 0 : levelCount - step
+    const levelIds = ids.subarray(levelStart[level], levelStart[level + 1])
+    if (levelIds.length === 0) continue
+    const stops = stopsOf(contours, levelIds)
+    const order = planTour(stops, levelIds.length, x, y)
+    const travel = tourTravel(stops, order, x, y, timeRapidMove)
     travelMm += travel.travelMm
     x = travel.endX
     y = travel.endY
-    for (const entry of order) runOrder[written++] = entry >= 0 ? level[entry] : -1 - level[-1 - entry]
+    for (const entry of order) runOrder[written++] = entry >= 0 ? levelIds[entry] : -1 - levelIds[-1 - entry]
   }
 
   const planner = new PolylinePlanner()
-  const runTimeS = (ids: number[], speedMmPerMin: number) =>
-    ids.reduce((sum, id) => sum + planner.timeS(contours.xy, contours.start[id], contours.start[id + 1], speedMmPerMin / 60, params.accelMmPerS2, params.junctionDeviationMm), 0)
-  const cutS = runTimeS(cutIds, params.cutSpeedMmPerMin)
-  const scoreS = runTimeS(scoreIds, params.scoreSpeedMmPerMin)
+  let cutS = 0
+  let scoreS = 0
+  let cutCount = 0
+  for (let id = 0; id < contours.count; id++) {
+    const operation = contours.operation[id]
+    if (operation === OPERATION_CODES.cut) {
+      cutS += runTimeS(planner, contours, id, params.cutSpeedMmPerMin, params)
+      cutCount++
+    }
+    if (operation === OPERATION_CODES.score) scoreS += runTimeS(planner, contours, id, params.scoreSpeedMmPerMin, params)
+  }
   // Raster engraving sweeps the area line by line (common practice, no source); turnarounds are not modelled.
   const engraveS = engraveAreaMm2 > 0 ? engraveAreaMm2 / ((params.engraveSpeedMmPerMin / 60) * params.engraveLineSpacingMm) : 0
-  const pierceS = cutIds.length * params.pierceTimeS
+  const pierceS = cutCount * params.pierceTimeS
   const setupS = params.setupTimeS
   return {
     travelMm,
@@ -66,20 +68,46 @@ export function estimateMachineTime(contours: PolylineSet, bounds: Float64Array,
   }
 }
 
-function stopsOf(contours: PolylineSet, ids: number[]): TourStops {
+function runTimeS(planner: PolylinePlanner, contours: PolylineSet, id: number, speedMmPerMin: number, params: AnalysisParams): number {
+  return planner.timeS(contours.xy, contours.start[id], contours.start[id + 1], speedMmPerMin / 60, params.accelMmPerS2, params.junctionDeviationMm)
+}
+
+/**
+ * The toured contours grouped by level, ascending ids within each: level 0
+ * holds the score lines, level d + 1 the cuts at nesting depth d. Level l is
+ * ids[levelStart[l] … levelStart[l + 1]).
+ */
+function tourLevels(contours: PolylineSet, cutDepth: Int32Array): { ids: Int32Array; levelStart: Int32Array } {
+  const levelOf = new Int32Array(contours.count).fill(-1)
+  let levelCount = 1
+  for (let id = 0; id < contours.count; id++) {
+    if (contours.operation[id] === OPERATION_CODES.score) levelOf[id] = 0
+    if (contours.operation[id] === OPERATION_CODES.cut) levelOf[id] = cutDepth[id] + 1
+    levelCount = Math.max(levelCount, levelOf[id] + 1)
+  }
+  const levelStart = new Int32Array(levelCount + 1)
+  for (let id = 0; id < contours.count; id++) if (levelOf[id] >= 0) levelStart[levelOf[id] + 1]++
+  for (let level = 0; level < levelCount; level++) levelStart[level + 1] += levelStart[level]
+  const ids = new Int32Array(levelStart[levelCount])
+  const filled = levelStart.slice(0, levelCount)
+  for (let id = 0; id < contours.count; id++) if (levelOf[id] >= 0) ids[filled[levelOf[id]]++] = id
+  return { ids, levelStart }
+}
+
+function stopsOf(contours: PolylineSet, ids: Int32Array): TourStops {
   const stops: TourStops = {
     entryX: new Float64Array(ids.length),
     entryY: new Float64Array(ids.length),
     exitX: new Float64Array(ids.length),
     exitY: new Float64Array(ids.length),
   }
-  ids.forEach((id, slot) => {
-    const first = contours.start[id]
-    const last = contours.start[id + 1] - 1
+  for (let slot = 0; slot < ids.length; slot++) {
+    const first = contours.start[ids[slot]]
+    const last = contours.start[ids[slot] + 1] - 1
     stops.entryX[slot] = contours.xy[2 * first]
     stops.entryY[slot] = contours.xy[2 * first + 1]
     stops.exitX[slot] = contours.xy[2 * last]
     stops.exitY[slot] = contours.xy[2 * last + 1]
-  })
+  }
   return stops
 }

@@ -1,3 +1,5 @@
+import { hypot } from './motion'
+
 /** Where each contour of a tour is entered and left (the same point for a closed one); any contour may be run backwards. */
 export interface TourStops {
   entryX: Float64Array
@@ -204,17 +206,18 @@ function improveWithTwoOpt(stops: TourStops, order: Int32Array, startX: number, 
       const previousX = from > 0 ? outX[from - 1] : startX
       const previousY = from > 0 ? outY[from - 1] : startY
       const last = Math.min(count, from + TWO_OPT_WINDOW) - 1
+      let moveIn = ends.moveInto(from, startX, startY)
       for (let to = from; to <= last; to++) {
-        const hasNext = to + 1 < count
-        const before = (from > 0 ? moveMm[from - 1] : distance(inX[0] - startX, inY[0] - startY)) + (hasNext ? moveMm[to] : 0)
-        const worthAfter = before - 1e-9
+        // The last position's move out is 0 (there is none), so `before` needs no test for it.
+        const worthAfter = moveIn + moveMm[to] - 1e-9
         const newMoveInX = outX[to] - previousX
         const newMoveInY = outY[to] - previousY
         // Mostly the new move in alone is already too long: a squared test, with a margin far above rounding, settles that without a root.
         if (!(worthAfter > 0) || newMoveInX * newMoveInX + newMoveInY * newMoveInY > worthAfter * worthAfter * (1 + 1e-6)) continue
-        const after = distance(newMoveInX, newMoveInY) + (hasNext ? distance(inX[to + 1] - inX[from], inY[to + 1] - inY[from]) : 0)
+        const after = distance(newMoveInX, newMoveInY) + (to + 1 < count ? distance(inX[to + 1] - inX[from], inY[to + 1] - inY[from]) : 0)
         if (after < worthAfter) {
           ends.reverseRun(order, from, to)
+          moveIn = ends.moveInto(from, startX, startY)
           // A try from p reads positions p − 1 … p + window and the moves between them.
           settled.fill(0, Math.max(0, from - TWO_OPT_WINDOW), to + 2)
           improved = true
@@ -241,7 +244,7 @@ class TourEnds {
     readonly inY: Float64Array,
     readonly outX: Float64Array,
     readonly outY: Float64Array,
-    /** moveMm[p]: from position p's exit to position p + 1's entry. */
+    /** moveMm[p]: from position p's exit to position p + 1's entry; 0 for the last position. */
     readonly moveMm: Float64Array,
   ) {}
 
@@ -258,6 +261,11 @@ class TourEnds {
     }
     for (let position = 0; position + 1 < count; position++) ends.measureMove(position)
     return ends
+  }
+
+  /** The move into position `from`: from the one before it, or from the start for the first. */
+  moveInto(from: number, startX: number, startY: number): number {
+    return from > 0 ? this.moveMm[from - 1] : distance(this.inX[0] - startX, this.inY[0] - startY)
   }
 
   private measureMove(position: number): void {
@@ -299,7 +307,7 @@ export function tourTravel(stops: TourStops, order: Int32Array, startX: number, 
     const stop = entry >= 0 ? entry : -1 - entry
     const inX = entry >= 0 ? stops.entryX[stop] : stops.exitX[stop]
     const inY = entry >= 0 ? stops.entryY[stop] : stops.exitY[stop]
-    const moveMm = Math.hypot(inX - x, inY - y)
+    const moveMm = hypot(inX - x, inY - y)
     travelMm += moveMm
     onMove(moveMm)
     x = entry >= 0 ? stops.exitX[stop] : stops.entryX[stop]
