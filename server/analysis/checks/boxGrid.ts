@@ -76,31 +76,38 @@ export class BoxGrid {
     }
   }
 
-  /** Counts the boxes of every cell, then places them; false (and no entries) when they would cover too many cells. */
+  /** Lists the cells of every box, then sorts the boxes into cells by counting; false (and no entries) when they would cover too many cells. */
   private fill(): boolean {
-    const { boxes, cellStart } = this
+    const { boxes, cellStart, columns } = this
     const count = this.lastQuery.length
+    // Per box: first column, first row, last column, last row.
+    const span = new Int32Array(4 * count)
     let total = 0
     for (let box = 0; box < count; box++) {
-      total += (this.column(boxes[4 * box + 2]) - this.column(boxes[4 * box]) + 1) * (this.row(boxes[4 * box + 3]) - this.row(boxes[4 * box + 1]) + 1)
-      if (total > ENTRIES_PER_BOX * count) return false
-      this.forEachCellOf(box, (cell) => cellStart[cell + 1]++)
+      span[4 * box] = this.column(boxes[4 * box])
+      span[4 * box + 1] = this.row(boxes[4 * box + 1])
+      span[4 * box + 2] = this.column(boxes[4 * box + 2])
+      span[4 * box + 3] = this.row(boxes[4 * box + 3])
+      total += (span[4 * box + 2] - span[4 * box] + 1) * (span[4 * box + 3] - span[4 * box + 1] + 1)
     }
-    for (let cell = 0; cell < this.columns * this.rows; cell++) cellStart[cell + 1] += cellStart[cell]
-    const entries = new Uint32Array(total)
+    if (total > ENTRIES_PER_BOX * count) return false
+    const cellOfEntry = new Uint32Array(total)
+    const boxOfEntry = new Uint32Array(total)
+    let entry = 0
+    for (let box = 0; box < count; box++) {
+      for (let row = span[4 * box + 1]; row <= span[4 * box + 3]; row++) {
+        for (let column = span[4 * box]; column <= span[4 * box + 2]; column++, entry++) {
+          cellOfEntry[entry] = row * columns + column
+          boxOfEntry[entry] = box
+        }
+      }
+    }
+    for (entry = 0; entry < total; entry++) cellStart[cellOfEntry[entry] + 1]++
+    for (let cell = 0; cell < columns * this.rows; cell++) cellStart[cell + 1] += cellStart[cell]
     const filled = cellStart.slice(0, -1)
-    for (let box = 0; box < count; box++) this.forEachCellOf(box, (cell) => (entries[filled[cell]++] = box))
-    this.entries = entries
+    this.entries = new Uint32Array(total)
+    for (entry = 0; entry < total; entry++) this.entries[filled[cellOfEntry[entry]]++] = boxOfEntry[entry]
     return true
-  }
-
-  private forEachCellOf(box: number, visit: (cell: number) => void): void {
-    const { boxes } = this
-    const lastColumn = this.column(boxes[4 * box + 2])
-    const lastRow = this.row(boxes[4 * box + 3])
-    for (let row = this.row(boxes[4 * box + 1]); row <= lastRow; row++) {
-      for (let column = this.column(boxes[4 * box]); column <= lastColumn; column++) visit(row * this.columns + column)
-    }
   }
 
   // Rounding is monotone, so a box that meets a query lies in a cell of the query's range.

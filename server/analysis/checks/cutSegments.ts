@@ -44,7 +44,8 @@ export class CutSegments {
    * −1 when it lies on the other side, 0 for open cuts (material on both sides).
    */
   readonly materialSide: Int8Array
-  private readonly chunkIndex: Flatbush | null
+  /** Built on first use: the pair scan's neighbour lists come from a grid, so most drawings never search the tree. */
+  private chunkIndex: Flatbush | null | undefined
 
   constructor(geometry: CheckGeometry) {
     const { contours } = geometry
@@ -108,11 +109,12 @@ export class CutSegments {
     this.chunkCount = chunkCount
     this.chunkBox = chunkBoxes.slice(0, 4 * chunkCount)
     this.materialSide = materialSides(geometry, cutIds)
-    this.chunkIndex = chunkCount > 0 ? new Flatbush(chunkCount) : null
-    if (this.chunkIndex === null) return
-    const boxes = this.chunkBox
-    for (let chunk = 0; chunk < chunkCount; chunk++) this.chunkIndex.add(boxes[4 * chunk], boxes[4 * chunk + 1], boxes[4 * chunk + 2], boxes[4 * chunk + 3])
-    this.chunkIndex.finish()
+  }
+
+  /** The tree of the chunk boxes, null when there are none. */
+  private index(): Flatbush | null {
+    if (this.chunkIndex === undefined) this.chunkIndex = this.chunkCount > 0 ? boxTree(this.chunkBox, this.chunkCount) : null
+    return this.chunkIndex
   }
 
   /**
@@ -141,7 +143,7 @@ export class CutSegments {
     for (let chunk = 0; chunk < this.chunkCount; chunk++) {
       from[chunk] = filled
       const near = grownBox(boxes, chunk, reachMm)
-      if (grid === null) this.chunkIndex!.search(near[0], near[1], near[2], near[3], keep)
+      if (grid === null) this.index()!.search(near[0], near[1], near[2], near[3], keep)
       else grid.forEachMeeting(near[0], near[1], near[2], near[3], keep)
       sortInPlace(chunks, from[chunk], filled)
     }
@@ -152,7 +154,7 @@ export class CutSegments {
   /** Calls `visit` for every segment whose box meets [minX, minY, maxX, maxY]. */
   forEachNear(minX: number, minY: number, maxX: number, maxY: number, visit: (segment: number) => void): void {
     const { box, chunkStart } = this
-    this.chunkIndex?.search(minX, minY, maxX, maxY, (chunk) => {
+    this.index()?.search(minX, minY, maxX, maxY, (chunk) => {
       for (let segment = chunkStart[chunk]; segment < chunkStart[chunk + 1]; segment++) {
         if (box[4 * segment] <= maxX && box[4 * segment + 1] <= maxY && box[4 * segment + 2] >= minX && box[4 * segment + 3] >= minY) visit(segment)
       }
@@ -280,6 +282,13 @@ function linkAlongContour(previousOf: Int32Array, nextOf: Int32Array, first: num
   const wraps = closed && count > 1
   previousOf[first] = wraps ? last : -1
   nextOf[last] = wraps ? first : -1
+}
+
+function boxTree(boxes: Float64Array, count: number): Flatbush {
+  const tree = new Flatbush(count)
+  for (let box = 0; box < count; box++) tree.add(boxes[4 * box], boxes[4 * box + 1], boxes[4 * box + 2], boxes[4 * box + 3])
+  tree.finish()
+  return tree
 }
 
 function setBox(boxes: Float64Array, index: number, minX: number, minY: number, maxX: number, maxY: number): void {

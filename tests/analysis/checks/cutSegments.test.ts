@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { cutSegmentsOf } from '../../../server/analysis/checks/cutSegments'
 import { nearCutsOf } from '../../../server/analysis/checks/nearCuts'
 import { withDefaults } from '../../../server/analysis/index'
-import { analyse, HAND_PARAMS, rectanglePath } from './helpers'
+import { analyse, findingsOf, HAND_PARAMS, rectanglePath } from './helpers'
 
 describe('cut segment neighbours', () => {
   it('links the segments of an open cut in a row and wraps a closed one round', () => {
@@ -38,5 +38,16 @@ describe('near cut list filter', () => {
     ])
     expect(Array.from(kept.distanceMm.subarray(0, 2))).toEqual([nearCuts.distanceMm[0], nearCuts.distanceMm[2]])
     expect(kept.closest(1).distanceMm).toBe(nearCuts.closest(2).distanceMm)
+  })
+})
+
+describe('near cuts of long diagonal cuts', () => {
+  it('finds the narrow bridges between five long diagonal slits 0.5 mm apart (too long for the grid of chunk boxes)', () => {
+    const offsetMm = 0.5 * Math.SQRT2
+    const slits = Array.from({ length: 5 }, (_, index) => `M${10 + index * offsetMm} 10L${110 + index * offsetMm} 110`)
+    const bridges = findingsOf('narrow-bridge', slits)
+    expect(bridges).toHaveLength(4)
+    for (const bridge of bridges) expect(bridge.valueMm).toBeCloseTo(0.3, 9)
+    expect(bridges.map((bridge) => bridge.contours!.join('-')).sort()).toEqual(['0-1', '1-2', '2-3', '3-4'])
   })
 })
