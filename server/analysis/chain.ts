@@ -1,3 +1,4 @@
+import { hypot } from './motion'
 import { OPERATION_CODES, PolylineSet } from './polylines'
 
 /**
@@ -9,21 +10,28 @@ import { OPERATION_CODES, PolylineSet } from './polylines'
  */
 export function chainPolylines(pieces: PolylineSet, toleranceMm: number): PolylineSet {
   const contours = new PolylineSet()
+  // The contours never hold more points than the pieces (joints are shared), so their point array is sized once and copyPiece writes into it directly.
+  contours.xy = new Float64Array(Math.max(contours.xy.length, 2 * pieces.pointCount))
   const chainable = (index: number) => pieces.closed[index] === 0 && pieces.operation[index] !== OPERATION_CODES.engrave
   // Endpoint ids: 2·piece is a piece's start, 2·piece + 1 its end.
   const endpointX = new Float64Array(2 * pieces.count)
   const endpointY = new Float64Array(2 * pieces.count)
-  const gridded: number[] = []
+  const gridded = new Uint32Array(2 * pieces.count)
+  let griddedCount = 0
   for (let index = 0; index < pieces.count; index++) {
     endpointX[2 * index] = pieces.xy[2 * pieces.start[index]]
     endpointY[2 * index] = pieces.xy[2 * pieces.start[index] + 1]
     endpointX[2 * index + 1] = pieces.xy[2 * pieces.start[index + 1] - 2]
     endpointY[2 * index + 1] = pieces.xy[2 * pieces.start[index + 1] - 1]
-    if (chainable(index)) gridded.push(2 * index, 2 * index + 1)
+    if (!chainable(index)) continue
+    gridded[griddedCount++] = 2 * index
+    gridded[griddedCount++] = 2 * index + 1
   }
-  const grid = new EndpointGrid(toleranceMm, gridded, endpointX, endpointY)
+  const grid = new EndpointGrid(toleranceMm, gridded.subarray(0, griddedCount), endpointX, endpointY)
   const used = new Uint8Array(pieces.count)
-  const partnerOf = (endpoint: number) => grid.nearestFree(endpoint, used, pieces.operation)
+  // Partner endpoints found walking from a chain's end (tail) and from its start (head); a chain holds each piece at most once.
+  const tail = new Uint32Array(pieces.count)
+  const head = new Uint32Array(pieces.count)
 
   for (let index = 0; index < pieces.count; index++) {
     if (used[index]) continue
@@ -34,47 +42,57 @@ export function chainPolylines(pieces: PolylineSet, toleranceMm: number): Polyli
       continue
     }
     // Walk from the end forwards, then from the start backwards; each step takes the nearest free end.
-    const tail: number[] = []
-    for (let endpoint = 2 * index + 1, partner = partnerOf(endpoint); partner >= 0; partner = partnerOf(endpoint)) {
-      used[partner >> 1] = 1
-      tail.push(partner)
-      endpoint = partner ^ 1
-    }
-    const head: number[] = []
-    for (let endpoint = 2 * index, partner = partnerOf(endpoint); partner >= 0; partner = partnerOf(endpoint)) {
-      used[partner >> 1] = 1
-      head.push(partner)
-      endpoint = partner ^ 1
-    }
+    const tailLength = walkChain(grid, 2 * index + 1, used, pieces.operation, tail)
+    const headLength = walkChain(grid, 2 * index, used, pieces.operation, head)
     // Head pieces were found end-first: a partner that is a piece's end means the piece runs forwards into the chain.
     let lengthMm = pieces.lengthMm[index]
     let first = true
-    for (let position = head.length - 1; position >= 0; position--) {
+    for (let position = headLength - 1; position >= 0; position--) {
       copyPiece(pieces, head[position] >> 1, (head[position] & 1) === 0, contours, first)
       lengthMm += pieces.lengthMm[head[position] >> 1]
       first = false
     }
     copyPiece(pieces, index, false, contours, first)
-    for (const partner of tail) {
-      copyPiece(pieces, partner >> 1, (partner & 1) === 1, contours, false)
-      lengthMm += pieces.lengthMm[partner >> 1]
+    for (let position = 0; position < tailLength; position++) {
+      copyPiece(pieces, tail[position] >> 1, (tail[position] & 1) === 1, contours, false)
+      lengthMm += pieces.lengthMm[tail[position] >> 1]
     }
     contours.end(closeIfEndsMeet(contours, toleranceMm), lengthMm)
   }
   return contours
 }
 
-/** Appends a piece's points to the contour begun last (beginning one when `begin`), skipping the shared joint. */
+/** Follows partners from `endpoint`, marking their pieces used and listing them in `partners`; returns how many. */
+function walkChain(grid: EndpointGrid, endpoint: number, used: Uint8Array, operation: Uint8Array, partners: Uint32Array): number {
+  let count = 0
+  for (let partner = grid.nearestFree(endpoint, used, operation); partner >= 0; partner = grid.nearestFree(partner ^ 1, used, operation)) {
+    used[partner >> 1] = 1
+    partners[count++] = partner
+  }
+  return count
+}
+
+/** Appends a piece's points to the contour begun last (beginning one when `begin`), skipping the shared joint; the caller sized the point array. */
 function copyPiece(pieces: PolylineSet, index: number, reversed: boolean, contours: PolylineSet, begin: boolean): void {
   if (begin) contours.begin(pieces.operation[index], pieces.element[index])
   const first = pieces.start[index]
   const last = pieces.start[index + 1] - 1
   const skip = begin ? 0 : 1
+  const from = pieces.xy
+  const to = contours.xy
+  let written = 2 * contours.pointCount
   if (reversed) {
-    for (let point = last - skip; point >= first; point--) contours.addPoint(pieces.xy[2 * point], pieces.xy[2 * point + 1])
+    for (let point = last - skip; point >= first; point--) {
+      to[written++] = from[2 * point]
+      to[written++] = from[2 * point + 1]
+    }
   } else {
-    for (let point = first + skip; point <= last; point++) contours.addPoint(pieces.xy[2 * point], pieces.xy[2 * point + 1])
+    for (let point = first + skip; point <= last; point++) {
+      to[written++] = from[2 * point]
+      to[written++] = from[2 * point + 1]
+    }
   }
+  contours.pointCount = written / 2
 }
 
 /** A chain whose two ends meet is closed; its last point is snapped onto the first so the ring is exact. */
@@ -84,16 +102,23 @@ function closeIfEndsMeet(contours: PolylineSet, toleranceMm: number): boolean {
   if (last - first < 2) return false
   const dx = contours.xy[2 * last] - contours.xy[2 * first]
   const dy = contours.xy[2 * last + 1] - contours.xy[2 * first + 1]
-  if (Math.hypot(dx, dy) > toleranceMm) return false
+  if (hypot(dx, dy) > toleranceMm) return false
   contours.xy[2 * last] = contours.xy[2 * first]
   contours.xy[2 * last + 1] = contours.xy[2 * first + 1]
   return true
 }
 
+// The occupancy bitmap has about this many bits per listed endpoint (few false hits), up to 2048 × 2048 bits (512 KB, measured best on large drawings).
+const OCCUPANCY_BITS_PER_ENDPOINT = 32
+const MAX_OCCUPANCY_SIDE = 2048
+
 /**
  * Endpoint ids bucketed by cell (cells one tolerance wide, kept in an
  * open-addressing table of typed arrays), in the order they were listed; a
- * query looks at the 3 × 3 cells around a point.
+ * query looks at the 3 × 3 cells around a point. Most of those cells are
+ * empty, and a bitmap over the cells folded onto a square torus says so
+ * without touching the table (a set bit may belong to another cell; the table
+ * decides).
  */
 class EndpointGrid {
   private readonly cellColumn: Float64Array
@@ -101,48 +126,62 @@ class EndpointGrid {
   /** Table slot → cell id + 1 (0: empty). */
   private readonly cellInSlot: Int32Array
   private readonly slotMask: number
+  /** 32 − log2(slots): the shift that keeps a hash's top bits. */
+  private readonly slotShift: number
+  /** Bit (row mod side)·side + (column mod side) is set when some cell folds onto it; side = 2^occupancyShift. */
+  private readonly occupied: Uint8Array
+  private readonly occupancyShift: number
   /** Endpoints of cell c are byCell[cellStart[c] … cellStart[c + 1]). */
   private readonly cellStart: Uint32Array
   private readonly byCell: Uint32Array
+  /** The cell each listed endpoint is in, by endpoint id. */
+  private readonly cellOfEndpoint: Int32Array
 
   constructor(
     private readonly cellSizeMm: number,
-    endpoints: number[],
+    endpoints: Uint32Array,
     private readonly endpointX: Float64Array,
     private readonly endpointY: Float64Array,
   ) {
     let slots = 16
     while (slots < 2 * endpoints.length) slots *= 2
     this.slotMask = slots - 1
+    this.slotShift = 32 - Math.log2(slots)
     this.cellInSlot = new Int32Array(slots)
     this.cellColumn = new Float64Array(endpoints.length)
     this.cellRow = new Float64Array(endpoints.length)
-    const cellOfEndpoint = new Int32Array(endpoints.length)
+    this.cellOfEndpoint = new Int32Array(endpointX.length)
+    let side = 64
+    while (side < MAX_OCCUPANCY_SIDE && side * side < OCCUPANCY_BITS_PER_ENDPOINT * endpoints.length) side *= 2
+    this.occupancyShift = Math.log2(side)
+    this.occupied = new Uint8Array((side * side) / 8)
     let cellCount = 0
-    for (let listed = 0; listed < endpoints.length; listed++) {
-      const column = Math.floor(endpointX[endpoints[listed]] / cellSizeMm)
-      const row = Math.floor(endpointY[endpoints[listed]] / cellSizeMm)
+    for (const endpoint of endpoints) {
+      const column = Math.floor(endpointX[endpoint] / cellSizeMm)
+      const row = Math.floor(endpointY[endpoint] / cellSizeMm)
       let cell = this.cellAt(column, row)
       if (cell < 0) {
         cell = cellCount++
         this.cellColumn[cell] = column
         this.cellRow[cell] = row
         this.cellInSlot[this.freeSlotFor(column, row)] = cell + 1
+        const bit = this.occupancyBit(column, row)
+        this.occupied[bit >> 3] |= 1 << (bit & 7)
       }
-      cellOfEndpoint[listed] = cell
+      this.cellOfEndpoint[endpoint] = cell
     }
     this.cellStart = new Uint32Array(cellCount + 1)
-    for (let listed = 0; listed < endpoints.length; listed++) this.cellStart[cellOfEndpoint[listed] + 1]++
+    for (const endpoint of endpoints) this.cellStart[this.cellOfEndpoint[endpoint] + 1]++
     for (let cell = 0; cell < cellCount; cell++) this.cellStart[cell + 1] += this.cellStart[cell]
     this.byCell = new Uint32Array(endpoints.length)
     const filled = this.cellStart.slice(0, cellCount)
-    for (let listed = 0; listed < endpoints.length; listed++) this.byCell[filled[cellOfEndpoint[listed]]++] = endpoints[listed]
+    for (const endpoint of endpoints) this.byCell[filled[this.cellOfEndpoint[endpoint]]++] = endpoint
   }
 
   /**
-   * The nearest endpoint within one cell width of `endpoint` whose piece is
-   * not used yet and has the same operation (−1: none); of equal distances
-   * the one listed last in the last cell looked at wins.
+   * The nearest endpoint within one cell width of `endpoint` (a listed one)
+   * whose piece is not used yet and has the same operation (−1: none); of
+   * equal distances the one listed last in the last cell looked at wins.
    */
   nearestFree(endpoint: number, used: Uint8Array, operation: Uint8Array): number {
     const x = this.endpointX[endpoint]
@@ -154,12 +193,12 @@ class EndpointGrid {
     let bestDistance = this.cellSizeMm
     for (let offsetX = -1; offsetX <= 1; offsetX++) {
       for (let offsetY = -1; offsetY <= 1; offsetY++) {
-        const cell = this.cellAt(column + offsetX, row + offsetY)
+        const cell = offsetX === 0 && offsetY === 0 ? this.cellOfEndpoint[endpoint] : this.cellAt(column + offsetX, row + offsetY)
         if (cell < 0) continue
         for (let listed = this.cellStart[cell]; listed < this.cellStart[cell + 1]; listed++) {
           const candidate = this.byCell[listed]
           if (used[candidate >> 1] !== 0 || operation[candidate >> 1] !== wantedOperation) continue
-          const distance = Math.hypot(this.endpointX[candidate] - x, this.endpointY[candidate] - y)
+          const distance = hypot(this.endpointX[candidate] - x, this.endpointY[candidate] - y)
           if (distance <= bestDistance) {
             best = candidate
             bestDistance = distance
@@ -171,11 +210,18 @@ class EndpointGrid {
   }
 
   private cellAt(column: number, row: number): number {
+    const bit = this.occupancyBit(column, row)
+    if ((this.occupied[bit >> 3] & (1 << (bit & 7))) === 0) return -1
     for (let slot = this.hash(column, row); ; slot = (slot + 1) & this.slotMask) {
       const cell = this.cellInSlot[slot] - 1
       if (cell < 0) return -1
       if (this.cellColumn[cell] === column && this.cellRow[cell] === row) return cell
     }
+  }
+
+  private occupancyBit(column: number, row: number): number {
+    const mask = (1 << this.occupancyShift) - 1
+    return ((row & mask) << this.occupancyShift) | (column & mask)
   }
 
   private freeSlotFor(column: number, row: number): number {
@@ -184,8 +230,8 @@ class EndpointGrid {
     return slot
   }
 
-  // Any mixing works: cells that share a slot chain on, and the stored column and row tell them apart.
+  // Any mixing works: cells that share a slot chain on, and the stored column and row tell them apart. The top bits of a product mix best.
   private hash(column: number, row: number): number {
-    return (Math.imul(column | 0, 0x9e3779b1) ^ Math.imul(row | 0, 0x85ebca77)) & this.slotMask
+    return Math.imul((column | 0) ^ Math.imul(row | 0, 0x85ebca77), 0x9e3779b1) >>> this.slotShift
   }
 }
