@@ -99,11 +99,17 @@ function bridgeSites(segments: CutSegments, narrow: NearCutList): Int32Array {
     secondSides[0] = second
     secondSides[1] = previousOf[second]
     secondSides[2] = nextOf[second]
+    // Found on the first join; it stays a root while this slot joins others (only their roots move).
+    let root = -1
+    // A pair with a side before this slot's first segment (or none, −1) comes earlier.
     for (let i = 0; i < 3; i++) {
+      if (firstSides[i] < first) continue
       for (let j = 0; j < 3; j++) {
-        if (firstSides[i] < 0 || secondSides[j] < 0) continue
+        if (secondSides[j] < first) continue
         const other = laterSlotOfPair(slot, firstSides[i], secondSides[j])
-        if (other >= 0) parent[find(other)] = find(slot)
+        if (other < 0) continue
+        if (root < 0) root = find(slot)
+        parent[find(other)] = root
       }
     }
   }

@@ -217,10 +217,12 @@ function scanPairs(geometry: CheckGeometry, params: AnalysisParams): PairScan {
         // The other chunk came within the reach of this chunk, not necessarily of this segment: one box test can skip all its segments.
         const o = 4 * other
         if (chunkBox[o] > maxX || chunkBox[o + 1] > maxY || chunkBox[o + 2] < minX || chunkBox[o + 3] < minY) continue
+        // A chunk lies on one contour.
+        const sameContour = contourOf[chunkStart[other]] === contour
         for (let second = Math.max(first + 1, chunkStart[other]); second < chunkStart[other + 1]; second++) {
           const c = 4 * second
           if (box[c] > maxX || box[c + 1] > maxY || box[c + 2] < minX || box[c + 3] < minY) continue
-          if (contourOf[second] === contour && isCornerOfOneContour(first, second)) continue
+          if (sameContour && isCornerOfOneContour(first, second)) continue
           visit(first, second)
         }
       }
