@@ -50,7 +50,7 @@ export class CutSegments {
   constructor(geometry: CheckGeometry) {
     const { contours } = geometry
     this.contours = contours
-    const cutIds = [...Array(contours.count).keys()].filter((id) => contours.operation[id] === OPERATION_CODES.cut)
+    const cutIds = cutContourIds(contours)
     this.count = cutIds.reduce((sum, id) => sum + contours.pointsOf(id) - 1, 0)
     this.firstPoint = new Uint32Array(this.count)
     this.contourOf = new Uint32Array(this.count)
@@ -269,6 +269,12 @@ export interface ChunkNeighbours {
   reachMm: number
   from: Uint32Array
   chunks: Uint32Array
+}
+
+function cutContourIds(contours: PolylineSet): number[] {
+  const ids: number[] = []
+  for (let id = 0; id < contours.count; id++) if (contours.operation[id] === OPERATION_CODES.cut) ids.push(id)
+  return ids
 }
 
 /** Neighbours of the `count` segments of one contour from segment `first` on: a closed contour of two or more segments wraps round. */
