@@ -17,7 +17,10 @@ export function checkOpenContours(geometry: CheckGeometry, params: AnalysisParam
     if (contours.operation[contour] !== OPERATION_CODES.cut || contours.closed[contour] === 1) continue
     const first = 2 * contours.start[contour]
     const last = 2 * contours.start[contour + 1] - 2
-    const [startX, startY, endX, endY] = [contours.xy[first], contours.xy[first + 1], contours.xy[last], contours.xy[last + 1]]
+    const startX = contours.xy[first]
+    const startY = contours.xy[first + 1]
+    const endX = contours.xy[last]
+    const endY = contours.xy[last + 1]
     const gapMm = Math.hypot(endX - startX, endY - startY)
     findings.push(
       gapMm < NEARLY_CLOSED_GAP_MM && contours.lengthMm[contour] > NEARLY_CLOSED_LENGTH_PER_GAP * gapMm

@@ -48,7 +48,10 @@ function holeSizeMm(geometry: CheckGeometry, contour: number, chordToleranceMm: 
   const slackMm = ROUNDING_RELATIVE * circle.radiusMm
   const { xy } = contours
   for (let point = contours.start[contour]; point < contours.start[contour + 1] - 1; point++) {
-    const [x, y, nextX, nextY] = [xy[2 * point], xy[2 * point + 1], xy[2 * point + 2], xy[2 * point + 3]]
+    const x = xy[2 * point]
+    const y = xy[2 * point + 1]
+    const nextX = xy[2 * point + 2]
+    const nextY = xy[2 * point + 3]
     if (Math.abs(Math.hypot(x - circle.x, y - circle.y) - circle.radiusMm) > slackMm) return boxSideMm
     if (Math.hypot((x + nextX) / 2 - circle.x, (y + nextY) / 2 - circle.y) < circle.radiusMm - chordToleranceMm - slackMm) return boxSideMm
   }
