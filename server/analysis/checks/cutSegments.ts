@@ -14,10 +14,10 @@ import { planarLength } from '../distance'
  * Segment k runs from point `firstPoint[k]` to the next.
  *
  * Consecutive segments of one contour are grouped into chunks (at most
- * `SEGMENTS_PER_CHUNK`, box side at most `CHUNK_SIDE_MM`) and the chunk boxes
- * go into one flatbush index: a search per chunk instead of per segment, and
- * the segments of matched chunks are then compared in a plain loop over their
- * boxes, in segment order.
+ * `SEGMENTS_PER_CHUNK`, box side at most `CHUNK_SIDE_MM`) and the chunks near
+ * each chunk are found from their boxes (`chunksWithin`): a query per chunk
+ * instead of per segment, and the segments of matched chunks are then
+ * compared in a plain loop over their boxes, in segment order.
  */
 export class CutSegments {
   readonly contours: PolylineSet
