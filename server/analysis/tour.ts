@@ -65,6 +65,9 @@ class StopEndGrid {
   private readonly liveInCell: Uint32Array
   private readonly endInSlot: Uint32Array
   private readonly slotOfEnd: Uint32Array
+  /** The search in progress: the nearest live end so far (fields, not an object per query). */
+  private bestEnd = -1
+  private bestDistanceSquared = Infinity
 
   constructor(stops: TourStops, count: number) {
     const endCount = 2 * count
@@ -121,7 +124,8 @@ class StopEndGrid {
     const centreColumn = this.column(x)
     const centreRow = this.row(y)
     const widestRing = Math.max(centreColumn, this.columns - 1 - centreColumn, centreRow, this.rows - 1 - centreRow)
-    const best = { end: -1, distanceSquared: Infinity }
+    this.bestEnd = -1
+    this.bestDistanceSquared = Infinity
     for (let ring = 0; ring <= widestRing; ring++) {
       if (ring > 0) {
         // Every cell of this ring lies outside the block of the rings inside it.
@@ -131,7 +135,7 @@ class StopEndGrid {
         const bottom = this.minY + (centreRow + ring) * this.cellSizeMm
         const inside = x >= left && x <= right && y >= top && y <= bottom
         const ringDistance = inside ? Math.min(x - left, right - x, y - top, bottom - y) : 0
-        if (best.distanceSquared < ringDistance * ringDistance) break
+        if (this.bestDistanceSquared < ringDistance * ringDistance) break
       }
       const firstRow = Math.max(0, centreRow - ring)
       const lastRow = Math.min(this.rows - 1, centreRow + ring)
@@ -139,11 +143,11 @@ class StopEndGrid {
         const onEdgeRow = row === centreRow - ring || row === centreRow + ring
         const step = onEdgeRow || ring === 0 ? 1 : 2 * ring
         for (let column = centreColumn - ring; column <= centreColumn + ring; column += step) {
-          if (column >= 0 && column < this.columns) this.searchCell(this.cellIndex(column, row), x, y, best)
+          if (column >= 0 && column < this.columns) this.searchCell(this.cellIndex(column, row), x, y)
         }
       }
     }
-    return best.end
+    return this.bestEnd
   }
 
   remove(stop: number): void {
@@ -159,7 +163,7 @@ class StopEndGrid {
     }
   }
 
-  private searchCell(cell: number, x: number, y: number, best: { end: number; distanceSquared: number }): void {
+  private searchCell(cell: number, x: number, y: number): void {
     const first = this.cellStart[cell]
     const end = first + this.liveInCell[cell]
     for (let slot = first; slot < end; slot++) {
@@ -167,9 +171,9 @@ class StopEndGrid {
       const dx = this.endX[candidate] - x
       const dy = this.endY[candidate] - y
       const distanceSquared = dx * dx + dy * dy
-      if (distanceSquared < best.distanceSquared || (distanceSquared === best.distanceSquared && candidate < best.end)) {
-        best.end = candidate
-        best.distanceSquared = distanceSquared
+      if (distanceSquared < this.bestDistanceSquared || (distanceSquared === this.bestDistanceSquared && candidate < this.bestEnd)) {
+        this.bestEnd = candidate
+        this.bestDistanceSquared = distanceSquared
       }
     }
   }
@@ -194,7 +198,7 @@ class StopEndGrid {
  */
 function improveWithTwoOpt(stops: TourStops, order: Int32Array, startX: number, startY: number): void {
   const count = order.length
-  const ends = TourEnds.of(stops, order)
+  const ends = TourEnds.of(stops, order, startX, startY)
   const { inX, inY, outX, outY, moveMm } = ends
   // settled[p]: trying p as `from` reversed nothing, and nothing that try reads has changed since, so trying again would reverse nothing.
   const settled = new Uint8Array(count)
@@ -203,10 +207,10 @@ function improveWithTwoOpt(stops: TourStops, order: Int32Array, startX: number, 
     for (let from = 0; from < count; from++) {
       if (settled[from] === 1) continue
       settled[from] = 1
-      const previousX = from > 0 ? outX[from - 1] : startX
-      const previousY = from > 0 ? outY[from - 1] : startY
+      const previousX = ends.previousX(from)
+      const previousY = ends.previousY(from)
       const last = Math.min(count, from + TWO_OPT_WINDOW) - 1
-      let moveIn = ends.moveInto(from, startX, startY)
+      let moveIn = ends.moveInto(from)
       for (let to = from; to <= last; to++) {
         // The last position's move out is 0 (there is none), so `before` needs no test for it.
         const worthAfter = moveIn + moveMm[to] - 1e-9
@@ -217,7 +221,7 @@ function improveWithTwoOpt(stops: TourStops, order: Int32Array, startX: number, 
         const after = distance(newMoveInX, newMoveInY) + (to + 1 < count ? distance(inX[to + 1] - inX[from], inY[to + 1] - inY[from]) : 0)
         if (after < worthAfter) {
           ends.reverseRun(order, from, to)
-          moveIn = ends.moveInto(from, startX, startY)
+          moveIn = ends.moveInto(from)
           // A try from p reads positions p − 1 … p + window and the moves between them.
           settled.fill(0, Math.max(0, from - TWO_OPT_WINDOW), to + 2)
           improved = true
@@ -234,9 +238,10 @@ function distance(dx: number, dy: number): number {
 }
 
 /**
- * Where the head enters and leaves each tour position, and the travel move
- * from each position to the next, kept in step with the order as runs are
- * reversed (a reversed run keeps its inner moves, in reverse order).
+ * Where the head starts, where it enters and leaves each tour position, and
+ * the travel move from each position to the next, kept in step with the order
+ * as runs are reversed (a reversed run keeps its inner moves, in reverse
+ * order).
  */
 class TourEnds {
   private constructor(
@@ -246,11 +251,13 @@ class TourEnds {
     readonly outY: Float64Array,
     /** moveMm[p]: from position p's exit to position p + 1's entry; 0 for the last position. */
     readonly moveMm: Float64Array,
+    /** The start (x, y), in a typed array so that reading it next to the others stays unboxed arithmetic. */
+    private readonly start: Float64Array,
   ) {}
 
-  static of(stops: TourStops, order: Int32Array): TourEnds {
+  static of(stops: TourStops, order: Int32Array, startX: number, startY: number): TourEnds {
     const count = order.length
-    const ends = new TourEnds(new Float64Array(count), new Float64Array(count), new Float64Array(count), new Float64Array(count), new Float64Array(count))
+    const ends = new TourEnds(new Float64Array(count), new Float64Array(count), new Float64Array(count), new Float64Array(count), new Float64Array(count), Float64Array.of(startX, startY))
     for (let position = 0; position < count; position++) {
       const entry = order[position]
       const stop = entry >= 0 ? entry : -1 - entry
@@ -263,9 +270,18 @@ class TourEnds {
     return ends
   }
 
-  /** The move into position `from`: from the one before it, or from the start for the first. */
-  moveInto(from: number, startX: number, startY: number): number {
-    return from > 0 ? this.moveMm[from - 1] : distance(this.inX[0] - startX, this.inY[0] - startY)
+  /** Where the head is before position `from`: the exit of the one before it, or the start for the first. */
+  previousX(from: number): number {
+    return from > 0 ? this.outX[from - 1] : this.start[0]
+  }
+
+  previousY(from: number): number {
+    return from > 0 ? this.outY[from - 1] : this.start[1]
+  }
+
+  /** The move into position `from`. */
+  moveInto(from: number): number {
+    return from > 0 ? this.moveMm[from - 1] : distance(this.inX[0] - this.start[0], this.inY[0] - this.start[1])
   }
 
   private measureMove(position: number): void {
@@ -292,26 +308,31 @@ class TourEnds {
       outX[right] = leftInX
       outY[right] = leftInY
     }
-    this.moveMm.subarray(from, to).reverse()
+    for (let left = from, right = to - 1; left < right; left++, right--) {
+      const leftMove = this.moveMm[left]
+      this.moveMm[left] = this.moveMm[right]
+      this.moveMm[right] = leftMove
+    }
     if (from > 0) this.measureMove(from - 1)
     if (to + 1 < order.length) this.measureMove(to)
   }
 }
 
-/** Total straight travel of a tour from the start, plus each travel move's length via `onMove`. */
-export function tourTravel(stops: TourStops, order: Int32Array, startX: number, startY: number, onMove: (lengthMm: number) => void): { travelMm: number; endX: number; endY: number } {
+/** Each travel move of a tour from the start (moveMm[p]: into position p), their total, and where the head ends. */
+export function tourTravel(stops: TourStops, order: Int32Array, startX: number, startY: number): { travelMm: number; moveMm: Float64Array; endX: number; endY: number } {
+  const moveMm = new Float64Array(order.length)
   let x = startX
   let y = startY
   let travelMm = 0
-  for (const entry of order) {
+  for (let position = 0; position < order.length; position++) {
+    const entry = order[position]
     const stop = entry >= 0 ? entry : -1 - entry
     const inX = entry >= 0 ? stops.entryX[stop] : stops.exitX[stop]
     const inY = entry >= 0 ? stops.entryY[stop] : stops.exitY[stop]
-    const moveMm = hypot(inX - x, inY - y)
-    travelMm += moveMm
-    onMove(moveMm)
+    moveMm[position] = hypot(inX - x, inY - y)
+    travelMm += moveMm[position]
     x = entry >= 0 ? stops.exitX[stop] : stops.entryX[stop]
     y = entry >= 0 ? stops.exitY[stop] : stops.entryY[stop]
   }
-  return { travelMm, endX: x, endY: y }
+  return { travelMm, moveMm, endX: x, endY: y }
 }

@@ -45,10 +45,41 @@ describe('tour', () => {
         }
         const order = planTour(stops, list.length, startX, startY)
         expect(new Set(Array.from(order, (entry) => (entry >= 0 ? entry : -1 - entry))).size).toBe(list.length)
-        const { travelMm } = tourTravel(stops, order, startX, startY, () => {})
+        const { travelMm } = tourTravel(stops, order, startX, startY)
         expect(travelMm).toBeLessThanOrEqual(exhaustiveNearestNeighbourTravel(stops, list.length, startX, startY) + 1e-9)
       }),
       { numRuns: 300 },
     )
   })
+
+  // Recorded from the tour as first written (nearest neighbour, then windowed 2-opt, every window tried in every pass): faster versions must keep every choice, ties included.
+  it('keeps the recorded orders and travel on fixed scattered sets', () => {
+    let checksum = 0
+    let travelMm = 0
+    for (const count of [40, 300, 600]) {
+      for (let seed = 1; seed <= 20; seed++) {
+        const stops = scatteredStops(count, seed)
+        const order = planTour(stops, count, 3, 4)
+        checksum = order.reduce((sum, entry, position) => (sum + Math.imul(entry, position + 1)) | 0, checksum)
+        travelMm += tourTravel(stops, order, 3, 4).travelMm
+      }
+    }
+    expect(checksum).toBe(346413772)
+    expect(travelMm).toBe(21699.741642811055)
+  })
 })
+
+/** Stops on a half-millimetre grid (equal distances are common), half of them closed, from a fixed linear congruential sequence. */
+function scatteredStops(count: number, seed: number): TourStops {
+  let state = seed
+  const next = () => (state = (Math.imul(state, 1103515245) + 12345) >>> 0) / 2 ** 32
+  const stops: TourStops = { entryX: new Float64Array(count), entryY: new Float64Array(count), exitX: new Float64Array(count), exitY: new Float64Array(count) }
+  for (let stop = 0; stop < count; stop++) {
+    stops.entryX[stop] = Math.floor(next() * 60) / 2
+    stops.entryY[stop] = Math.floor(next() * 60) / 2
+    const closed = next() < 0.5
+    stops.exitX[stop] = closed ? stops.entryX[stop] : Math.floor(next() * 60) / 2
+    stops.exitY[stop] = closed ? stops.entryY[stop] : Math.floor(next() * 60) / 2
+  }
+  return stops
+}
