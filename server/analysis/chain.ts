@@ -12,7 +12,6 @@ export function chainPolylines(pieces: PolylineSet, toleranceMm: number): Polyli
   const contours = new PolylineSet()
   // The contours never hold more points than the pieces (joints are shared), so their point array is sized once and copyPiece writes into it directly.
   contours.xy = new Float64Array(Math.max(contours.xy.length, 2 * pieces.pointCount))
-  const chainable = (index: number) => pieces.closed[index] === 0 && pieces.operation[index] !== OPERATION_CODES.engrave
   // Endpoint ids: 2·piece is a piece's start, 2·piece + 1 its end.
   const endpointX = new Float64Array(2 * pieces.count)
   const endpointY = new Float64Array(2 * pieces.count)
@@ -23,7 +22,7 @@ export function chainPolylines(pieces: PolylineSet, toleranceMm: number): Polyli
     endpointY[2 * index] = pieces.xy[2 * pieces.start[index] + 1]
     endpointX[2 * index + 1] = pieces.xy[2 * pieces.start[index + 1] - 2]
     endpointY[2 * index + 1] = pieces.xy[2 * pieces.start[index + 1] - 1]
-    if (!chainable(index)) continue
+    if (!isChainable(pieces, index)) continue
     gridded[griddedCount++] = 2 * index
     gridded[griddedCount++] = 2 * index + 1
   }
@@ -36,7 +35,7 @@ export function chainPolylines(pieces: PolylineSet, toleranceMm: number): Polyli
   for (let index = 0; index < pieces.count; index++) {
     if (used[index]) continue
     used[index] = 1
-    if (!chainable(index)) {
+    if (!isChainable(pieces, index)) {
       copyPiece(pieces, index, false, contours, true)
       contours.end(pieces.closed[index] === 1, pieces.lengthMm[index])
       continue
@@ -60,6 +59,11 @@ export function chainPolylines(pieces: PolylineSet, toleranceMm: number): Polyli
     contours.end(closeIfEndsMeet(contours, toleranceMm), lengthMm)
   }
   return contours
+}
+
+/** Open cut and score pieces chain; closed and engrave ones pass through as they are. */
+function isChainable(pieces: PolylineSet, index: number): boolean {
+  return pieces.closed[index] === 0 && pieces.operation[index] !== OPERATION_CODES.engrave
 }
 
 /** Follows partners from `endpoint`, marking their pieces used and listing them in `partners`; returns how many. */
