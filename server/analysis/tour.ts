@@ -216,7 +216,7 @@ function improveWithTwoOpt(stops: TourStops, order: Int32Array, startX: number, 
         const worthAfter = moveIn + moveMm[to] - 1e-9
         const newMoveInX = outX[to] - previousX
         const newMoveInY = outY[to] - previousY
-        // Mostly the new move in alone is already too long: a squared test, with a margin far above rounding, settles that without a root.
+        // `after` is at least the new move in, and mostly that alone is too long already: a squared test (its margin far above rounding) rules those out without a root.
         if (!(worthAfter > 0) || newMoveInX * newMoveInX + newMoveInY * newMoveInY > worthAfter * worthAfter * (1 + 1e-6)) continue
         const after = distance(newMoveInX, newMoveInY) + (to + 1 < count ? distance(inX[to + 1] - inX[from], inY[to + 1] - inY[from]) : 0)
         if (after < worthAfter) {
