@@ -1,4 +1,4 @@
-import { hypot } from './motion'
+import { hypot } from './distance'
 import { OPERATION_CODES, PolylineSet } from './polylines'
 
 /**

@@ -5,7 +5,7 @@ import { AnalysisInputError } from './errors'
 import type { Matrix } from './matrix'
 import type { PolylineSet } from './polylines'
 import { CURVE_STRIDE, PathSteps, STEP_CLOSE, STEP_CURVE, STEP_MOVE } from './pathSteps'
-import { planarLength } from './distance'
+import { hypot } from './distance'
 
 // Beyond a kilometre a coordinate is a drawing mistake (or 1e300), and sums of squares would overflow.
 const MAX_COORDINATE_MM = 1e6
@@ -163,7 +163,7 @@ class SubpathWriter {
 
   lineTo(toX: number, toY: number): void {
     this.ensureOpen()
-    this.lengthMm += planarLength(toX - this.x, toY - this.y)
+    this.lengthMm += hypot(toX - this.x, toY - this.y)
     addPoint(this.target, toX, toY)
     this.x = toX
     this.y = toY
@@ -188,7 +188,7 @@ class SubpathWriter {
     if (!this.open) return
     const closed = closedByCommand || this.forceClosed
     if (closed && (this.x !== this.startX || this.y !== this.startY)) {
-      this.lengthMm += planarLength(this.startX - this.x, this.startY - this.y)
+      this.lengthMm += hypot(this.startX - this.x, this.startY - this.y)
       addPoint(this.target, this.startX, this.startY)
     }
     this.target.end(closed, this.lengthMm)
@@ -224,7 +224,7 @@ function chordCount(secondDifference: number, degree: number, toleranceMm: numbe
 
 /** Adds the chords after (x0, y0) and returns their total length. */
 function addCubic(target: PolylineSet, x0: number, y0: number, x1: number, y1: number, x2: number, y2: number, x3: number, y3: number, toleranceMm: number): number {
-  const secondDifference = Math.max(planarLength(x0 - 2 * x1 + x2, y0 - 2 * y1 + y2), planarLength(x1 - 2 * x2 + x3, y1 - 2 * y2 + y3))
+  const secondDifference = Math.max(hypot(x0 - 2 * x1 + x2, y0 - 2 * y1 + y2), hypot(x1 - 2 * x2 + x3, y1 - 2 * y2 + y3))
   const chords = chordCount(secondDifference, 3, toleranceMm)
   let chordsMm = 0
   for (let step = 1; step <= chords; step++) {
@@ -240,7 +240,7 @@ function addCubic(target: PolylineSet, x0: number, y0: number, x1: number, y1: n
 }
 
 function addQuadratic(target: PolylineSet, x0: number, y0: number, x1: number, y1: number, x2: number, y2: number, toleranceMm: number): number {
-  const chords = chordCount(planarLength(x0 - 2 * x1 + x2, y0 - 2 * y1 + y2), 2, toleranceMm)
+  const chords = chordCount(hypot(x0 - 2 * x1 + x2, y0 - 2 * y1 + y2), 2, toleranceMm)
   let chordsMm = 0
   for (let step = 1; step <= chords; step++) {
     const t = step / chords
@@ -251,7 +251,7 @@ function addQuadratic(target: PolylineSet, x0: number, y0: number, x1: number, y
 }
 
 function addChordTo(target: PolylineSet, x: number, y: number): number {
-  const lengthMm = planarLength(x - target.xy[2 * target.pointCount - 2], y - target.xy[2 * target.pointCount - 1])
+  const lengthMm = hypot(x - target.xy[2 * target.pointCount - 2], y - target.xy[2 * target.pointCount - 1])
   addPoint(target, x, y)
   return lengthMm
 }

@@ -1,3 +1,5 @@
+import { hypot } from './distance'
+
 /**
  * Constant-acceleration motion: time to cover `lengthMm` starting at
  * `entrySpeed` and ending at `exitSpeed` (mm/s), never faster than `maxSpeed`,
@@ -36,22 +38,6 @@ export function junctionSpeed(ux1: number, uy1: number, ux2: number, uy2: number
   if (deviationMm <= 0 || sinHalfTheta <= 0) return 0
   if (sinHalfTheta >= 1) return maxSpeed
   return Math.min(maxSpeed, Math.sqrt((accel * deviationMm * sinHalfTheta) / (1 - sinHalfTheta)))
-}
-
-/**
- * Math.hypot(dx, dy), bit for bit: the same arithmetic as the runtime's
- * builtin for two finite arguments (both scaled by the larger, which makes
- * that one exactly 1, then the root of the sum of squares, times the larger),
- * without the builtin's call, which costs several times the arithmetic in the
- * per-point loops. Zero, infinite and NaN arguments go to the builtin.
- */
-export function hypot(dx: number, dy: number): number {
-  const absX = Math.abs(dx)
-  const absY = Math.abs(dy)
-  const larger = absX > absY ? absX : absY
-  if (!(larger > 0 && larger < Infinity)) return Math.hypot(dx, dy)
-  const ratio = (absX > absY ? absY : absX) / larger
-  return Math.sqrt(1 + ratio * ratio) * larger
 }
 
 /** Reusable scratch space for the planner, so a contour costs no allocation per point. */

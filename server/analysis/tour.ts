@@ -1,4 +1,4 @@
-import { hypot } from './motion'
+import { hypot } from './distance'
 
 /** Where each contour of a tour is entered and left (the same point for a closed one); any contour may be run backwards. */
 export interface TourStops {
