@@ -1,4 +1,5 @@
 import { svgPathProperties } from 'svg-path-properties'
+import { CURVE_ARC, curveNumberCount } from './pathSteps'
 
 // Drawings repeat the same holes, reliefs and rounded corners thousands of
 // times; past this many distinct curves the memory starts afresh.
@@ -12,14 +13,6 @@ const ROUNDINGS_PER_MM = 1e9
 // Past this a number is no cut-file curve (such coordinates are refused later); measure it as it is.
 const MAX_ROUNDED_MM = 1e6
 
-const COMMAND_CUBIC = 0x43 // C
-const COMMAND_QUADRATIC = 0x51 // Q
-const COMMAND_ARC = 0x41 // A
-
-/** Numbers of each absolute curve command, as svgpath writes them. */
-function numberCountOf(command: number): number {
-  return command === COMMAND_CUBIC ? 6 : command === COMMAND_QUADRATIC ? 4 : 7
-}
 
 /**
  * Remembered lengths by shape: the command, its rounded numbers and the
@@ -37,7 +30,7 @@ const shape = new Float64Array(8)
  * at (fromX, fromY).
  */
 export function measuredCurveLength(fromX: number, fromY: number, command: number, numbers: ArrayLike<number>, offset: number): number {
-  const count = numberCountOf(command)
+  const count = curveNumberCount(command)
   if (!roundShape(fromX, fromY, command, numbers, offset, count)) return lengthAsDrawn(fromX, fromY, command, numbers, offset, count)
   const hash = shapeHash(count)
   const row = rememberedRow(rememberedByHash.get(hash), count)
@@ -69,7 +62,7 @@ function lengthAsDrawn(fromX: number, fromY: number, command: number, numbers: A
  * nanometres into `shape`; false when a number is too large to round.
  */
 function roundShape(fromX: number, fromY: number, command: number, numbers: ArrayLike<number>, offset: number, count: number): boolean {
-  const isArc = command === COMMAND_ARC
+  const isArc = command === CURVE_ARC
   shape[0] = command
   for (let position = 1; position <= count; position++) {
     // Only an arc's end point is a position; its radii, rotation and flags stay as they are (flags round to themselves).

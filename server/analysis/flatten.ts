@@ -4,7 +4,7 @@ import { measuredCurveLength } from './curveLength'
 import { AnalysisInputError } from './errors'
 import type { Matrix } from './matrix'
 import type { PolylineSet } from './polylines'
-import { CURVE_STRIDE, PathSteps, STEP_CLOSE, STEP_CURVE, STEP_MOVE } from './pathSteps'
+import { CURVE_ARC, CURVE_CUBIC, CURVE_STRIDE, PathSteps, STEP_CLOSE, STEP_CURVE, STEP_MOVE } from './pathSteps'
 import { hypot } from './distance'
 
 // Beyond a kilometre a coordinate is a drawing mistake (or 1e300), and sums of squares would overflow.
@@ -95,16 +95,13 @@ function flattenWithSvgpath(pathData: string, matrix: Matrix, chordToleranceMm: 
 // One svgpath segment's numbers, in the layout of PathSteps' curves.
 const svgpathCurve = new Float64Array(CURVE_STRIDE)
 
-const COMMAND_CUBIC = 0x43 // C
-const COMMAND_ARC = 0x41 // A
-
 /** One absolute C, Q or A segment (its numbers at numbers[offset …]) from the current point: its chords, and its exact length. */
 function flattenCurve(command: number, numbers: Float64Array, offset: number, chordToleranceMm: number, subpaths: SubpathWriter): void {
   const { target } = subpaths
   subpaths.ensureOpen()
   const { x, y } = subpaths
-  if (command !== COMMAND_ARC) {
-    const isCubic = command === COMMAND_CUBIC
+  if (command !== CURVE_ARC) {
+    const isCubic = command === CURVE_CUBIC
     const chordsMm = isCubic
       ? addCubic(target, x, y, numbers[offset], numbers[offset + 1], numbers[offset + 2], numbers[offset + 3], numbers[offset + 4], numbers[offset + 5], chordToleranceMm)
       : addQuadratic(target, x, y, numbers[offset], numbers[offset + 1], numbers[offset + 2], numbers[offset + 3], chordToleranceMm)

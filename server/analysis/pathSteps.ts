@@ -16,8 +16,18 @@ export const STEP_CLOSE = 2
 /** A C, Q or A segment: see `curveCommand` and `curveNumbers`. */
 export const STEP_CURVE = 3
 
+/** Curve commands as char codes (absolute, as svgpath's abs() writes them). */
+export const CURVE_CUBIC = 0x43 // C
+export const CURVE_QUADRATIC = 0x51 // Q
+export const CURVE_ARC = 0x41 // A
+
 /** Numbers kept per curve: C has 6, Q 4, A 7 (rx, ry, rotation, large-arc flag, sweep flag, x, y). */
 export const CURVE_STRIDE = 7
+
+/** How many of a curve's CURVE_STRIDE slots its command uses. */
+export function curveNumberCount(command: number): number {
+  return command === CURVE_CUBIC ? 6 : command === CURVE_QUADRATIC ? 4 : 7
+}
 
 const CHAR_SPACE = 0x20
 const CHAR_TAB = 0x09
