@@ -1,4 +1,5 @@
 import Flatbush from 'flatbush'
+import { oncePerGeometry } from './memo'
 import { OPERATION_CODES, type PolylineSet } from './polylines'
 
 /**
@@ -81,12 +82,8 @@ export interface CutNesting {
   depth: Int32Array
 }
 
-const cutNestingByContours = new WeakMap<PolylineSet, { bounds: Float64Array; nesting: CutNesting }>()
-
 /** The nesting of a contour set's cuts, found once (the design-rule checks and the time model both need it). */
-export function cutNesting(contours: PolylineSet, bounds: Float64Array): CutNesting {
-  const cached = cutNestingByContours.get(contours)
-  if (cached !== undefined && cached.bounds === bounds) return cached.nesting
+export const cutNesting = oncePerGeometry<void, CutNesting>(() => '', ({ contours, bounds }) => {
   const cutIds: number[] = []
   const closedCutIds: number[] = []
   for (let id = 0; id < contours.count; id++) {
@@ -95,7 +92,5 @@ export function cutNesting(contours: PolylineSet, bounds: Float64Array): CutNest
     if (contours.closed[id] === 1) closedCutIds.push(id)
   }
   const parentOf = findContainers(contours, bounds, closedCutIds, cutIds)
-  const nesting = { parentOf, depth: nestingDepths(parentOf, cutIds) }
-  cutNestingByContours.set(contours, { bounds, nesting })
-  return nesting
-}
+  return { parentOf, depth: nestingDepths(parentOf, cutIds) }
+})

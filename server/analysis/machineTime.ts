@@ -19,7 +19,7 @@ export interface MachineTime {
  * through the constant-acceleration motion model.
  */
 export function estimateMachineTime(contours: PolylineSet, bounds: Float64Array, engraveAreaMm2: number, params: AnalysisParams): MachineTime {
-  const { runOrder, travelMm, travelS } = tourLevelsInRunOrder(contours, tourLevels(contours, cutNesting(contours, bounds).depth), params)
+  const { runOrder, travelMm, travelS } = tourLevelsInRunOrder(contours, tourLevels(contours, cutNesting({ contours, bounds }).depth), params)
   const { cutS, scoreS, cutCount } = contourRunTimes(contours, params)
   // Raster engraving sweeps the area line by line (common practice, no source); turnarounds are not modelled.
   const engraveS = engraveAreaMm2 > 0 ? engraveAreaMm2 / ((params.engraveSpeedMmPerMin / 60) * params.engraveLineSpacingMm) : 0

@@ -1,7 +1,9 @@
 import { AnalysisInputError } from './errors'
 
-// The SVG/CSS number grammar; anything else (NaN, Infinity, "1,5") is refused rather than guessed.
-const NUMBER_PATTERN = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/
+/** The SVG/CSS number grammar (sign, digits with an optional point, optional exponent), as regular-expression source. */
+export const NUMBER_GRAMMAR = String.raw`[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?`
+// One whole number of that grammar; anything else (NaN, Infinity, "1,5") is refused rather than guessed.
+export const NUMBER_PATTERN = new RegExp(`^${NUMBER_GRAMMAR}$`)
 
 /** A finite number from an attribute, `fallback` when absent, a member-readable error when invalid. */
 export function parseNumberAttribute(value: string | undefined, attributeName: string, fallback: number): number {
@@ -13,7 +15,7 @@ export function parseNumberAttribute(value: string | undefined, attributeName: s
 }
 
 // One number of that grammar, then the separators after it (sticky: matched where the scan is, never searched for).
-const LIST_ITEM_PATTERN = /([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)(?:[\s,]+|$)/y
+const LIST_ITEM_PATTERN = new RegExp(`(${NUMBER_GRAMMAR})(?:[\\s,]+|$)`, 'y')
 const SEPARATORS_PATTERN = /[\s,]*/y
 
 /**

@@ -3,7 +3,7 @@ import { parseColour, toHex } from './colour'
 import { ColourMapper } from './colourMapping'
 import { AnalysisInputError } from './errors'
 import { applyX, applyY, type Matrix, multiply, parseTransform, translation } from './matrix'
-import { parseNumberAttribute } from './numbers'
+import { NUMBER_GRAMMAR, parseNumberAttribute } from './numbers'
 import type { AnalysisParams } from './params'
 import type { DrawnOperation } from './polylines'
 import type { Finding } from './result'
@@ -199,8 +199,10 @@ function firstNumberOf(value: string | undefined): number {
   return Number.isFinite(number) ? number : 0
 }
 
+const NUMBERS_ANYWHERE = new RegExp(NUMBER_GRAMMAR, 'g')
+
 function firstCoordinates(pathData: string): [number, number] {
-  const numbers = pathData.match(/[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?/g) ?? []
+  const numbers = pathData.match(NUMBERS_ANYWHERE) ?? []
   return [firstNumberOf(numbers[0]), firstNumberOf(numbers[1])]
 }
 

@@ -1,5 +1,5 @@
 import { AnalysisInputError } from './errors'
-import { parseNumberAttribute, shorten } from './numbers'
+import { NUMBER_GRAMMAR, parseNumberAttribute, shorten } from './numbers'
 
 // CSS Values and Units Level 3, §6.2 absolute lengths: 1in = 2.54cm = 96px, 1pt = 1/72in, 1pc = 12pt, 1Q = 1/4mm.
 const MM_PER_INCH = 25.4
@@ -12,7 +12,7 @@ const ABSOLUTE_UNIT_MM: Record<string, number> = {
   pc: MM_PER_INCH / 6,
 }
 
-const LENGTH_PATTERN = /^\s*([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*([a-zA-Z%]*)\s*$/
+const LENGTH_PATTERN = new RegExp(String.raw`^\s*(${NUMBER_GRAMMAR})\s*([a-zA-Z%]*)\s*$`)
 
 export function mmPerPixel(dpi: number): number {
   return MM_PER_INCH / dpi

@@ -1,4 +1,5 @@
-import { type AnalysisParams, type AnalysisResult, analyzeSvg, withDefaults } from '../../server/analysis/index'
+import { expect } from 'vitest'
+import { AnalysisInputError, type AnalysisParams, type AnalysisResult, analyzeSvg, withDefaults } from '../../server/analysis/index'
 
 export const CUT = '#c2185b'
 export const SCORE = '#00897b'
@@ -20,4 +21,19 @@ export function analyze(svg: string, overrides: Partial<AnalysisParams> = {}): A
 export function ramanujanPerimeter(a: number, b: number): number {
   const h = (a - b) ** 2 / (a + b) ** 2
   return Math.PI * (a + b) * (1 + (3 * h) / (10 + Math.sqrt(4 - 3 * h)))
+}
+
+/** `analyse` must refuse its file with a typed, member-readable error of this kind and status, and in bounded time (a generous bound: the point is "no hang", not a speed target). */
+export function expectRefused(analyse: () => unknown, kind: string, status: number): void {
+  const started = performance.now()
+  try {
+    analyse()
+    expect.unreachable('should have been refused')
+  } catch (error) {
+    expect(error).toBeInstanceOf(AnalysisInputError)
+    expect((error as AnalysisInputError).kind).toBe(kind)
+    expect((error as AnalysisInputError).status).toBe(status)
+    expect((error as AnalysisInputError).message.length).toBeGreaterThan(20)
+  }
+  expect(performance.now() - started).toBeLessThan(5000)
 }

@@ -3,7 +3,7 @@ import { cutNesting } from '../containment'
 import { BoxGrid } from './boxGrid'
 import { OPERATION_CODES, type PolylineSet } from '../polylines'
 import type { CheckGeometry } from './index'
-import { oncePerGeometry } from './memo'
+import { oncePerGeometry } from '../memo'
 import type { ClosestPoints } from './segmentGeometry'
 import { hypot } from '../distance'
 
@@ -330,11 +330,11 @@ const CHUNK_SIDE_MM = 4
  * outermost closed cuts are holes in that sheet.
  */
 function materialSides(geometry: CheckGeometry, cutIds: number[]): Int8Array {
-  const { contours, bounds } = geometry
+  const { contours } = geometry
   const sides = new Int8Array(contours.count)
   const closedIds = cutIds.filter((id) => contours.closed[id] === 1)
   if (closedIds.length === 0) return sides
-  const { parentOf, depth } = cutNesting(contours, bounds)
+  const { parentOf, depth } = cutNesting(geometry)
   const sheetIsUndrawn = cutIds.some((id) => contours.closed[id] === 0 && parentOf[id] < 0)
   for (const id of closedIds) {
     const insideIsMaterial = (depth[id] + (sheetIsUndrawn ? 1 : 0)) % 2 === 0

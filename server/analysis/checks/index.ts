@@ -1,4 +1,4 @@
-import type { AnalysedGeometry } from '../index'
+import type { ContourGeometry } from '../memo'
 import type { AnalysisParams } from '../params'
 import type { Finding } from '../result'
 import { cutTimeS } from './cutTime'
@@ -34,7 +34,7 @@ export interface DesignRuleSummary {
   duplicateCutTimeS: number
 }
 
-export type CheckGeometry = Pick<AnalysedGeometry, 'contours' | 'bounds'>
+export type CheckGeometry = ContourGeometry
 export type DesignRuleCheck = (geometry: CheckGeometry, params: AnalysisParams) => Finding[]
 
 const CHECKS: DesignRuleCheck[] = [

@@ -1,7 +1,7 @@
 import type { AnalysisParams } from '../params'
 import { type ChunkNeighbours, type CutSegments, cutSegmentsOf, grownBox } from './cutSegments'
 import type { CheckGeometry } from './index'
-import { oncePerGeometry } from './memo'
+import { oncePerGeometry } from '../memo'
 import { contourPairKey, type NearCutList, pairScanOf, pairScanSignature } from './pairScan'
 import { repeatedCutsOf } from './repeatedCuts'
 import { crossingOnFirstAt } from './segmentGeometry'

@@ -3,7 +3,7 @@ import type { PolylineSet } from '../polylines'
 import { hypot } from '../distance'
 import { type ChunkNeighbours, type CutSegments, cutSegmentsOf, grownBox } from './cutSegments'
 import type { CheckGeometry } from './index'
-import { oncePerGeometry } from './memo'
+import { oncePerGeometry } from '../memo'
 import { type ClosestPoints, closestPointsAt, emptyClosestPoints, stretchWithin } from './segmentGeometry'
 
 /**

@@ -1,7 +1,7 @@
 import type { AnalysisParams } from '../params'
 import { cutSegmentsOf } from './cutSegments'
 import type { CheckGeometry } from './index'
-import { oncePerGeometry } from './memo'
+import { oncePerGeometry } from '../memo'
 import { contourPairKey, pairScanOf, pairScanSignature, type RepeatedStretch } from './pairScan'
 
 /** Where cuts repeat each other: the machine would cut the same line twice. */

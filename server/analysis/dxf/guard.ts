@@ -1,5 +1,5 @@
 import { AnalysisInputError } from '../errors'
-import { shorten } from '../numbers'
+import { NUMBER_PATTERN, shorten } from '../numbers'
 
 /**
  * Group-code value types as the DXF reference lists them ("Group code value
@@ -10,7 +10,6 @@ const REAL_CODE_RANGES: ReadonlyArray<readonly [number, number]> = [[10, 59], [1
 const INTEGER_CODE_RANGES: ReadonlyArray<readonly [number, number]> = [[60, 99], [160, 179], [270, 289], [370, 389], [400, 409], [420, 429], [440, 459], [1060, 1071]]
 const LARGEST_GROUP_CODE = 1071
 
-const REAL_PATTERN = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/
 const INTEGER_PATTERN = /^[+-]?\d+$/
 const GROUP_CODE_PATTERN = /^\d{1,4}$/
 
@@ -48,7 +47,8 @@ export function assertReadableDxf(lines: readonly string[]): void {
 }
 
 function assertFiniteReal(value: string, lineNumber: number): void {
-  if (!REAL_PATTERN.test(value)) {
+  // Reals are read in the number grammar the SVG reader accepts.
+  if (!NUMBER_PATTERN.test(value)) {
     throw new AnalysisInputError('badNumber', `Line ${lineNumber} of the DXF file should hold a number but holds "${shorten(value)}". Save the file again from your CAD program.`)
   }
   if (!Number.isFinite(Number(value))) {
