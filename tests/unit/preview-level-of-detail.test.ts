@@ -37,7 +37,6 @@ function recorder(width = 1000, height = 1000) {
     lines: {
       moveTo: (x, y) => lines.push([[x, y]]),
       lineTo: (x, y) => lines.at(-1)!.push([x, y]),
-      closePath: () => lines.at(-1)!.push(lines.at(-1)![0]!),
     },
     dots: { rect: (x, y) => dots.push([x, y]) },
     grid: dotGrid(width, height),

@@ -1,6 +1,7 @@
 // Finding sites as markers: every site of every group, gathered per cell of a screen-space grid so that at a
 // low zoom a crowd of sites shows as one badge with a count, and separates into single markers as one zooms in.
-// The sites go once into a static R-tree; a view visits only the sites in it. O(log n + k) per view.
+// The sites go once into a static R-tree; a view visits only the sites in it, O(log n + k), on typed arrays
+// of one slot per cell (a few hundred on a screen).
 import Flatbush from 'flatbush'
 import type { FindingGroup, FindingSites, Severity } from '#shared/finding-groups'
 import type { Box, Viewport } from './viewport'
@@ -58,7 +59,7 @@ export interface MarkerCluster {
 }
 
 /** The side of a grid cell in CSS pixels: about the size of a badge, so badges rarely overlap. */
-export const CLUSTER_CELL_PX = 44
+export const CLUSTER_CELL_PX = 56
 
 /**
  * Gathers the sites in view into grid cells of `cellPx` screen pixels. `exceptRow` (the selected site) is left
@@ -75,44 +76,55 @@ export function clusterSites(
 ): MarkerCluster[] {
   if (!index.tree) return []
   const cellMm = cellPx / view.scale
-  const cells = new Map<number, MarkerCluster & { sumX: number; sumY: number }>()
   const gridX0 = Math.floor(visible[0] / cellMm)
   const gridY0 = Math.floor(visible[1] / cellMm)
   const columns = Math.floor(visible[2] / cellMm) - gridX0 + 1
-  const found = index.tree.search(visible[0], visible[1], visible[2], visible[3])
-  for (const k of found) {
-    const row = index.rows[k]!
+  const cellCount = columns * (Math.floor(visible[3] / cellMm) - gridY0 + 1)
+  // Per cell: site count, sums for the mean, worst rank and its row, and the box round the sites.
+  const count = new Int32Array(cellCount)
+  const sum = new Float64Array(2 * cellCount)
+  const best = new Int32Array(cellCount)
+  const box = new Float32Array(4 * cellCount)
+  const { xy } = sites
+  const { rankOfRow, rows } = index
+  // A view that holds every site walks the rows as they are rather than asking the tree for all of them.
+  const tree = index.tree
+  const everything = visible[0] <= tree.minX && visible[1] <= tree.minY && visible[2] >= tree.maxX && visible[3] >= tree.maxY
+  const found: ArrayLike<number> = everything ? rows : tree.search(visible[0], visible[1], visible[2], visible[3]).map((k) => rows[k]!)
+  for (let k = 0; k < found.length; k++) {
+    const row = found[k]!
     if (row === exceptRow) continue
-    const x = sites.xy[2 * row]!
-    const y = sites.xy[2 * row + 1]!
-    const key = (Math.floor(y / cellMm) - gridY0) * columns + (Math.floor(x / cellMm) - gridX0)
-    const rank = index.rankOfRow[row]!
-    const cell = cells.get(key)
-    if (!cell) {
-      cells.set(key, { x: 0, y: 0, count: 1, rank, row, box: [x, y, x, y], sumX: x, sumY: y })
-      continue
+    const x = xy[2 * row]!
+    const y = xy[2 * row + 1]!
+    const cell = (Math.floor(y / cellMm) - gridY0) * columns + (Math.floor(x / cellMm) - gridX0)
+    if (count[cell]! === 0) {
+      best[cell] = row
+      box[4 * cell] = box[4 * cell + 2] = x
+      box[4 * cell + 1] = box[4 * cell + 3] = y
+    } else {
+      const rank = rankOfRow[row]!
+      const bestRank = rankOfRow[best[cell]!]!
+      if (rank < bestRank || (rank === bestRank && row < best[cell]!)) best[cell] = row
+      if (x < box[4 * cell]!) box[4 * cell] = x
+      if (y < box[4 * cell + 1]!) box[4 * cell + 1] = y
+      if (x > box[4 * cell + 2]!) box[4 * cell + 2] = x
+      if (y > box[4 * cell + 3]!) box[4 * cell + 3] = y
     }
-    cell.count++
-    cell.sumX += x
-    cell.sumY += y
-    if (rank < cell.rank || (rank === cell.rank && row < cell.row)) {
-      cell.rank = rank
-      cell.row = row
-    }
-    if (x < cell.box[0]) cell.box[0] = x
-    if (y < cell.box[1]) cell.box[1] = y
-    if (x > cell.box[2]) cell.box[2] = x
-    if (y > cell.box[3]) cell.box[3] = y
+    count[cell]!++
+    sum[2 * cell] += x
+    sum[2 * cell + 1] += y
   }
   const clusters: MarkerCluster[] = []
-  for (const cell of cells.values()) {
+  for (let cell = 0; cell < cellCount; cell++) {
+    const n = count[cell]!
+    if (n === 0) continue
     clusters.push({
-      x: (cell.sumX / cell.count - view.originX) * view.scale,
-      y: (cell.sumY / cell.count - view.originY) * view.scale,
-      count: cell.count,
-      rank: cell.rank,
-      row: cell.row,
-      box: cell.box,
+      x: (sum[2 * cell]! / n - view.originX) * view.scale,
+      y: (sum[2 * cell + 1]! / n - view.originY) * view.scale,
+      count: n,
+      rank: rankOfRow[best[cell]!]!,
+      row: best[cell]!,
+      box: [box[4 * cell]!, box[4 * cell + 1]!, box[4 * cell + 2]!, box[4 * cell + 3]!],
     })
   }
   // Worst drawn last, so it lies on top.

@@ -55,7 +55,6 @@ export function contoursInView(index: ContourIndex, view: Box): ArrayLike<number
 export interface PathSink {
   moveTo(x: number, y: number): void
   lineTo(x: number, y: number): void
-  closePath(): void
 }
 
 /** Where the dots go: a Path2D or context to fill, or a recorder in tests. */
@@ -154,7 +153,8 @@ export function traceContours(
     let lastY = (xy[2 * first + 1]! - originY) * scale
     sink.moveTo(lastX, lastY)
     counts.points++
-    // A closed contour repeats its first point last: closePath draws that side. An open one keeps its end.
+    // A closed contour repeats its first point last and is traced back to it with lineTo: Chromium's closePath
+    // costs time growing with the subpaths before it (80 000 closed triangles: 15 s against 36 ms).
     const end = closed ? last - 1 : last
     const keptEnd = closed ? -1 : end
     for (let p = first + 1; p <= end; p++) {
@@ -168,7 +168,10 @@ export function traceContours(
       lastX = x
       lastY = y
     }
-    if (closed) sink.closePath()
+    if (closed) {
+      sink.lineTo((xy[2 * first]! - originX) * scale, (xy[2 * first + 1]! - originY) * scale)
+      counts.points++
+    }
   }
   return counts
 }

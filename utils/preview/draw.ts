@@ -146,8 +146,19 @@ function drawPin(ctx: CanvasRenderingContext2D, x: number, y: number, colour: st
 
 function drawSingle(ctx: CanvasRenderingContext2D, x: number, y: number, severity: Severity, state: 'plain' | 'hover' | 'selected'): void {
   const colour = PREVIEW_COLOURS.severity[severity]
+  if (state === 'selected') {
+    // A wide copper halo round the site, hollow, so the gap inside stays visible.
+    ctx.beginPath()
+    ctx.arc(x, y, RING_RADIUS + 9, 0, 2 * Math.PI)
+    ctx.lineWidth = 6
+    ctx.strokeStyle = PREVIEW_COLOURS.halo
+    ctx.stroke()
+    ctx.lineWidth = 3
+    ctx.strokeStyle = PREVIEW_COLOURS.highlight
+    ctx.stroke()
+  }
   const [headX, headY] = drawPin(ctx, x, y, state === 'selected' ? PREVIEW_COLOURS.highlight : colour, state !== 'plain')
-  const r = state === 'plain' ? HEAD_RADIUS : HEAD_RADIUS + 2
+  const r = state === 'plain' ? HEAD_RADIUS : HEAD_RADIUS + 3
   traceShape(ctx, severity, headX, headY, r)
   ctx.fillStyle = colour
   ctx.fill()
@@ -156,35 +167,45 @@ function drawSingle(ctx: CanvasRenderingContext2D, x: number, y: number, severit
   ctx.stroke()
 }
 
+const BADGE_HEIGHT = 20
+
+function badgeLabel(count: number): string {
+  return count > 9999 ? `${Math.round(count / 1000)}k` : String(count)
+}
+
+function badgeWidth(count: number): number {
+  return 24 + 7 * badgeLabel(count).length
+}
+
+/** A cluster is a badge centred on its sites' mean, a shape and a count: it stands for a crowd, not for one gap. */
 function drawCluster(ctx: CanvasRenderingContext2D, cluster: MarkerCluster, hover: boolean): void {
   const severity = SEVERITY_BY_RANK[cluster.rank]!
   const colour = PREVIEW_COLOURS.severity[severity]
-  const [headX, headY] = drawPin(ctx, cluster.x, cluster.y, colour, hover)
-  const label = cluster.count > 9999 ? `${Math.round(cluster.count / 1000)}k` : String(cluster.count)
-  const width = 22 + 7 * label.length
-  const left = headX - 9
-  const top = headY - 10
+  const width = badgeWidth(cluster.count)
+  const left = cluster.x - width / 2
   ctx.beginPath()
-  ctx.roundRect(left, top, width, 20, 10)
+  ctx.roundRect(left, cluster.y - BADGE_HEIGHT / 2, width, BADGE_HEIGHT, BADGE_HEIGHT / 2)
   ctx.fillStyle = PREVIEW_COLOURS.halo
   ctx.fill()
-  ctx.lineWidth = hover ? 2.5 : 1.5
+  ctx.lineWidth = hover ? 3 : 1.5
   ctx.strokeStyle = colour
   ctx.stroke()
-  traceShape(ctx, severity, left + 10, headY, 5.5)
+  traceShape(ctx, severity, left + 11, cluster.y, 5.5)
   ctx.fillStyle = colour
   ctx.fill()
   ctx.fillStyle = '#1c1917'
-  ctx.fillText(label, left + 18, headY + 0.5)
+  ctx.fillText(badgeLabel(cluster.count), left + 19, cluster.y + 0.5)
 }
 
-/** The head's box of a marker or cluster at screen point (x, y), for hit testing, in CSS pixels. */
-export function headBox(cluster: Pick<MarkerCluster, 'x' | 'y' | 'count'>): Box {
-  const headX = cluster.x + HEAD_OFFSET.x
-  const headY = cluster.y + HEAD_OFFSET.y
-  if (cluster.count === 1) return [headX - HEAD_RADIUS - 3, headY - HEAD_RADIUS - 3, headX + HEAD_RADIUS + 3, headY + HEAD_RADIUS + 3]
-  const label = cluster.count > 9999 ? 3 : String(cluster.count).length
-  return [headX - 10, headY - 11, headX - 9 + 22 + 7 * label + 1, headY + 11]
+/** The box a marker answers clicks in, in CSS pixels: a single site's head and ring, or a cluster's badge. */
+export function hitBox(marker: Pick<MarkerCluster, 'x' | 'y' | 'count'>): Box {
+  if (marker.count > 1) {
+    const half = badgeWidth(marker.count) / 2
+    return [marker.x - half, marker.y - BADGE_HEIGHT / 2, marker.x + half, marker.y + BADGE_HEIGHT / 2]
+  }
+  const headX = marker.x + HEAD_OFFSET.x
+  const headY = marker.y + HEAD_OFFSET.y
+  return [Math.min(marker.x, headX) - HEAD_RADIUS - 3, headY - HEAD_RADIUS - 3, headX + HEAD_RADIUS + 3, marker.y + RING_RADIUS + 3]
 }
 
 export function drawMarkers(ctx: CanvasRenderingContext2D, frame: MarkerFrame): void {
@@ -217,10 +238,13 @@ export function drawMarkers(ctx: CanvasRenderingContext2D, frame: MarkerFrame): 
   ctx.font = '700 11px Manrope, system-ui, sans-serif'
   ctx.textBaseline = 'middle'
   ctx.lineCap = 'round'
+  // With a site selected the other markers step back, so the selected one is found at a glance.
   for (const cluster of clusters) {
+    ctx.globalAlpha = selected && cluster.row !== hoverRow ? 0.55 : 1
     if (cluster.count > 1) drawCluster(ctx, cluster, cluster.row === hoverRow)
     else drawSingle(ctx, cluster.x, cluster.y, SEVERITY_BY_RANK[cluster.rank]!, cluster.row === hoverRow ? 'hover' : 'plain')
   }
+  ctx.globalAlpha = 1
   if (selected) {
     const x = (sites.xy[2 * selected.row]! - view.originX) * view.scale
     const y = (sites.xy[2 * selected.row + 1]! - view.originY) * view.scale
