@@ -15,7 +15,7 @@ const PLANS: Partial<Record<TransitionRecord['action'], MailPlan>> = {
   submit: {
     toStaff: true,
     subject: (t) => `New job to review: ${t}`,
-    lines: (t, m) => [`${m} submitted "${t}" for review.`],
+    lines: (t, m, c) => [`${m} submitted "${t}" for review.`, c],
   },
   approve: {
     subject: (t) => `Approved: ${t}`,
