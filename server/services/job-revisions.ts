@@ -1,5 +1,6 @@
 import type { Knex } from 'knex'
 import { addCounts, countGroups, emptyCounts, worstSeverity, type FindingCounts, type FindingGroup, type Severity } from '#shared/finding-groups'
+import { findingTitle } from '#shared/analysis-view'
 import type { SessionUser } from '#shared/roles'
 import { NotFound } from '../utils/errors'
 import { jobForViewer } from './jobs'
@@ -135,4 +136,16 @@ export async function revisionPayload(db: Knex, viewer: SessionUser, jobId: numb
   const payload = await db('revision_payloads').where({ file_revision_id: row.id }).first(kind === 'geometry' ? 'geometry_gz as bytes' : 'sites_gz as bytes')
   if (!payload) throw new NotFound('This revision has no stored preview.')
   return { gzipped: payload.bytes as Buffer, etag: `"${kind}-${row.id}-${row.sha256.slice(0, 16)}"` }
+}
+
+/** "Bridge too narrow, 12 places in side-panel (revision 2)": a staff pointer at a group, in words; null when it names nothing of the job. */
+export async function findingRefLabel(db: Knex, jobId: number, ref: { fileId: number; revision: number; key?: string } | null): Promise<string | null> {
+  if (!ref?.key) return null
+  const row = await db('file_revisions as r')
+    .join('job_files as f', 'f.id', 'r.job_file_id')
+    .where({ 'f.job_id': jobId, 'f.id': ref.fileId, 'r.revision': ref.revision })
+    .first('f.name', 'r.analysis_json')
+  const group = row ? (JSON.parse(row.analysis_json) as StoredAnalysis).findingGroups?.find((g) => g.key === ref.key) : undefined
+  if (!group) return null
+  return `${findingTitle(group.code)}, ${group.count.toLocaleString('en')} ${group.count === 1 ? 'place' : 'places'} in ${row.name} (revision ${ref.revision})`
 }

@@ -13,7 +13,7 @@ import { estimateJob, type JobEstimate } from './job-estimate'
 import { timeCorrectionFor } from './time-calibration'
 import { availableActions, transitionJob, type JobAction, type TransitionRecord } from './job-states'
 import { acknowledgedGroups, recordAcknowledgements, unacknowledgedWarnings, type AcknowledgementInput } from './finding-acknowledgements'
-import { countFindings, currentFiles, currentFindingGroups, filesOfJobs, type JobFileView } from './job-revisions'
+import { countFindings, currentFiles, currentFindingGroups, filesOfJobs, findingRefLabel, type JobFileView } from './job-revisions'
 
 export { countFindings, currentFiles, type JobFileView } from './job-revisions'
 
@@ -136,14 +136,16 @@ export async function jobDetail(db: Knex, viewer: SessionUser, jobId: number) {
     findingGroups,
     warningGroups: await acknowledgedGroups(db, findingGroups),
     estimate: await jobEstimate(db, job, files),
-    events: events.map((e) => ({
-      at: e.created_at,
-      actorName: e.actor_name ?? 'Kerfbook',
-      from: e.from_state,
-      to: e.to_state,
-      comment: e.comment,
-      findingRef: e.finding_ref_json ? JSON.parse(e.finding_ref_json) : null,
-    })),
+    events: await Promise.all(
+      events.map(async (e) => ({
+        at: e.created_at,
+        actorName: e.actor_name ?? 'Kerfbook',
+        from: e.from_state,
+        to: e.to_state,
+        comment: e.comment,
+        finding: await findingRefLabel(db, jobId, e.finding_ref_json ? JSON.parse(e.finding_ref_json) : null),
+      })),
+    ),
     actions: availableActions(job.state, viewer, job.member_id),
   }
 }

@@ -3,7 +3,7 @@
 import { describe, expect, it } from 'vitest'
 import { decodeGeometry, decodeSites } from '../../shared/packed-analysis'
 import { plainPart, slitPairs } from '../fixtures/svg'
-import { signedIn } from './helpers'
+import { signedIn, waitForMail } from './helpers'
 
 const PAIRS = 12
 // Web between two slit centre-lines 1.0 mm apart less the demo laser's 0.2 mm kerf: 0.8 mm (the
@@ -109,6 +109,9 @@ describe('grouped findings', () => {
 
     // Sent back without a new revision: the reasons stand, nothing more is asked.
     expect((await staff.post(`/api/jobs/${jobId}/request-changes`, { comment: 'Please check the copies.', findingRef: { fileId, revision: 1, key: warningGroups[0].group.key } })).status).toBe(200)
+    const pointedAt = `${warningGroups[0].group.count} places in pairs (revision 1)`
+    expect((await member.get(`/api/jobs/${jobId}`)).body.events.at(-1).finding).toContain(pointedAt)
+    expect((await waitForMail('member@example.test', /Changes asked for: Reasons per group/)).text).toContain(pointedAt)
     expect((await member.post(`/api/jobs/${jobId}/submit`, {})).status).toBe(200)
   })
 
