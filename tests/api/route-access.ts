@@ -186,6 +186,7 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   'PATCH /api/admin/users/:id': { policy: adminOnly(), params: (w) => ({ id: w.otherMemberId }) },
   'GET /api/admin/users': { policy: adminOnly('ok') },
   'POST /api/analysis': { policy: signedInOnly('passes') },
+  'GET /api/analysis/queue': { policy: signedInOnly() },
 
   'POST /api/auth/forgot-password': { policy: PUBLIC },
   'POST /api/auth/reset-password': { policy: PUBLIC },
