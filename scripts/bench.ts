@@ -73,7 +73,8 @@ ${units.join('\n')}
 interface Figures {
   megabytes: number
   contours: number
-  findings: number
+  groups: number
+  sites: number
   engineMs: number
   parseMs: number
   /** Stage times of the fastest engine run. */
@@ -104,14 +105,15 @@ const THICK_PROCESS: AnalysisParams = { ...engine.DEFAULT_ANALYSIS_PARAMS, ...LA
  */
 function measure(unitsAcross: number, unitsDown: number, params: AnalysisParams): Figures {
   const svg = foldPattern(unitsAcross, unitsDown)
-  const figures: Figures = { megabytes: svg.length / 1e6, contours: 0, findings: 0, engineMs: Infinity, parseMs: Infinity, stageMs: {} }
+  const figures: Figures = { megabytes: svg.length / 1e6, contours: 0, groups: 0, sites: 0, engineMs: Infinity, parseMs: Infinity, stageMs: {} }
   for (let attempt = 0; attempt < REPEATS; attempt++) {
     const stages: Figures['stageMs'] = {}
     const engineStarted = performance.now()
     const result = engine.analyzeSvg(svg, params, { onStageTimed: (stage, elapsedMs) => (stages[stage] = elapsedMs) })
     const engineMs = performance.now() - engineStarted
     figures.contours = result.cut.pierces
-    figures.findings = result.findings.length
+    figures.groups = result.findingGroups.length
+    figures.sites = result.sites.count
     if (engineMs < figures.engineMs) {
       figures.engineMs = engineMs
       figures.stageMs = stages
@@ -125,7 +127,7 @@ function measure(unitsAcross: number, unitsDown: number, params: AnalysisParams)
 
 function report(label: string, figures: Figures): void {
   console.log(
-    `${label.padEnd(16)} ${figures.megabytes.toFixed(2)} MB  ${figures.contours} cut contours  ${figures.findings} findings  engine ${figures.engineMs.toFixed(0)} ms  svgson parse ${figures.parseMs.toFixed(0)} ms  ratio ${(figures.engineMs / figures.parseMs).toFixed(2)}×`,
+    `${label.padEnd(16)} ${figures.megabytes.toFixed(2)} MB  ${figures.contours} cut contours  ${figures.groups} finding groups of ${figures.sites} sites  engine ${figures.engineMs.toFixed(0)} ms  svgson parse ${figures.parseMs.toFixed(0)} ms  ratio ${(figures.engineMs / figures.parseMs).toFixed(2)}×`,
   )
   const stages = Object.entries(figures.stageMs).map(([stage, elapsedMs]) => `${stage} ${elapsedMs.toFixed(0)}`)
   console.log(`${''.padEnd(16)} stages (ms): ${stages.join(', ')}`)

@@ -1,4 +1,6 @@
 // What the pages show for the engine's findings: names in plain words, and the verdict above a preview.
+import type { FindingCounts } from './finding-groups'
+
 export type Severity = 'error' | 'warning' | 'info'
 
 export interface FindingView {
@@ -34,11 +36,14 @@ export function findingTitle(code: string): string {
   return FINDING_TITLES[code] ?? code
 }
 
-/** The sentence above the preview: ready, or how many problems stand in the way. */
-export function verdictOf(findings: Pick<FindingView, 'severity'>[]): { tone: 'ok' | 'warning' | 'error'; text: string } {
-  const errors = findings.filter((f) => f.severity === 'error').length
-  const warnings = findings.filter((f) => f.severity === 'warning').length
-  if (errors > 0) return { tone: 'error', text: `${errors} ${errors === 1 ? 'problem' : 'problems'} to fix before this can be cut` }
-  if (warnings > 0) return { tone: 'warning', text: `Ready once you confirm ${warnings} ${warnings === 1 ? 'warning' : 'warnings'}` }
+/** The sentence above a file's or a job's findings: ready, or what stands in the way, counted in groups. */
+export function verdictOf(counts: FindingCounts): { tone: 'ok' | 'warning' | 'error'; text: string } {
+  const places = (n: number) => `${n.toLocaleString('en')} ${n === 1 ? 'place' : 'places'}`
+  if (counts.errors > 0) {
+    return { tone: 'error', text: `${counts.errorGroups} ${counts.errorGroups === 1 ? 'kind of problem' : 'kinds of problem'} to fix before this can be cut (${places(counts.errors)})` }
+  }
+  if (counts.warnings > 0) {
+    return { tone: 'warning', text: `Ready once you give a reason for ${counts.warningGroups} ${counts.warningGroups === 1 ? 'group' : 'groups'} of warnings (${places(counts.warnings)})` }
+  }
   return { tone: 'ok', text: 'Ready to submit' }
 }
