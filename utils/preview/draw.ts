@@ -177,35 +177,50 @@ function badgeWidth(count: number): number {
   return 24 + 7 * badgeLabel(count).length
 }
 
-/** A cluster is a badge centred on its sites' mean, a shape and a count: it stands for a crowd, not for one gap. */
+/** Where a cluster's badge sits from the mean of its sites: above and to the right, held by a short leader. */
+const BADGE_OFFSET = { x: 6, y: -18 }
+
+/**
+ * A cluster is a badge with a shape and a count, held off its sites' mean by a leader to a small hollow ring:
+ * like a single marker, it never covers the place it points at.
+ */
 function drawCluster(ctx: CanvasRenderingContext2D, cluster: MarkerCluster, hover: boolean): void {
   const severity = SEVERITY_BY_RANK[cluster.rank]!
   const colour = PREVIEW_COLOURS.severity[severity]
-  const width = badgeWidth(cluster.count)
-  const left = cluster.x - width / 2
+  const left = cluster.x + BADGE_OFFSET.x
+  const middle = cluster.y + BADGE_OFFSET.y
   ctx.beginPath()
-  ctx.roundRect(left, cluster.y - BADGE_HEIGHT / 2, width, BADGE_HEIGHT, BADGE_HEIGHT / 2)
+  ctx.arc(cluster.x, cluster.y, 3, 0, 2 * Math.PI)
+  ctx.moveTo(cluster.x + 2, cluster.y - 2)
+  ctx.lineTo(left + 4, middle + BADGE_HEIGHT / 2 - 2)
+  ctx.lineWidth = 3
+  ctx.strokeStyle = PREVIEW_COLOURS.halo
+  ctx.stroke()
+  ctx.lineWidth = 1.25
+  ctx.strokeStyle = colour
+  ctx.stroke()
+  ctx.beginPath()
+  ctx.roundRect(left, middle - BADGE_HEIGHT / 2, badgeWidth(cluster.count), BADGE_HEIGHT, BADGE_HEIGHT / 2)
   ctx.fillStyle = PREVIEW_COLOURS.halo
   ctx.fill()
   ctx.lineWidth = hover ? 3 : 1.5
-  ctx.strokeStyle = colour
   ctx.stroke()
-  traceShape(ctx, severity, left + 11, cluster.y, 5.5)
+  traceShape(ctx, severity, left + 11, middle, 5.5)
   ctx.fillStyle = colour
   ctx.fill()
   ctx.fillStyle = '#1c1917'
-  ctx.fillText(badgeLabel(cluster.count), left + 19, cluster.y + 0.5)
+  ctx.fillText(badgeLabel(cluster.count), left + 19, middle + 0.5)
 }
 
-/** The box a marker answers clicks in, in CSS pixels: a single site's head and ring, or a cluster's badge. */
+/** The box a marker answers clicks in, in CSS pixels: from its site's ring to its head or badge. */
 export function hitBox(marker: Pick<MarkerCluster, 'x' | 'y' | 'count'>): Box {
   if (marker.count > 1) {
-    const half = badgeWidth(marker.count) / 2
-    return [marker.x - half, marker.y - BADGE_HEIGHT / 2, marker.x + half, marker.y + BADGE_HEIGHT / 2]
+    const top = marker.y + BADGE_OFFSET.y - BADGE_HEIGHT / 2
+    return [marker.x - 5, top, marker.x + BADGE_OFFSET.x + badgeWidth(marker.count), marker.y + 5]
   }
   const headX = marker.x + HEAD_OFFSET.x
   const headY = marker.y + HEAD_OFFSET.y
-  return [Math.min(marker.x, headX) - HEAD_RADIUS - 3, headY - HEAD_RADIUS - 3, headX + HEAD_RADIUS + 3, marker.y + RING_RADIUS + 3]
+  return [marker.x - RING_RADIUS - 3, headY - HEAD_RADIUS - 3, headX + HEAD_RADIUS + 3, marker.y + RING_RADIUS + 3]
 }
 
 export function drawMarkers(ctx: CanvasRenderingContext2D, frame: MarkerFrame): void {
