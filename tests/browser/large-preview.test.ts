@@ -6,6 +6,7 @@ import { describe, expect } from 'vitest'
 import { formatCount } from '../../shared/finding-messages'
 import { decodeSites } from '../../shared/packed-analysis'
 import { signedIn } from '../api/helpers'
+import { foldPanel, NARROW_PINCH_MM } from '../fixtures/fold-panel'
 import { svgDocument } from '../fixtures/svg'
 import { browserTest, checkAccessibility, screenshot, signInThroughForm } from './browser'
 
@@ -160,5 +161,27 @@ describe('the preview of a large fold pattern', () => {
     await expect.poll(() => announcer.textContent()).toContain(`site ${formatCount(lone! - revision.findingGroups[loneGroup]!.firstSite + 1)} of`)
     await screenshot(page, 'large-preview-picked-site')
     await checkAccessibility(page)
+  })
+
+  browserTest('on the check page, draws the packed preview that comes inline and points at the one narrow bridge', { timeout: 120_000 }, async ({ browser }) => {
+    const { page } = browser
+    await signInThroughForm(browser, 'member@example.test')
+    await browser.open('/check')
+    await page.getByLabel('Cutter').selectOption({ label: 'Heron — CO₂ laser' })
+    await page.getByLabel('Material').selectOption({ label: 'Birch plywood 3 mm' })
+    await page.locator('input[type=file]').setInputFiles({ name: 'lamp-panel.svg', mimeType: 'image/svg+xml', buffer: Buffer.from(foldPanel(NARROW_PINCH_MM)) })
+    await page.locator('[data-preview-state="ready"]').waitFor({ timeout: 60_000 })
+    const group = page.getByRole('button', { name: /Bridge too narrow/ })
+    await expect.poll(() => group.textContent()).toMatch(/1 bridge between cuts/)
+    const chosen = await andRedrawn(page, () => group.click())
+    expect(chosen.selected).toMatch(/^\d+:0$/)
+    // The pinched web is in the top-left corner, between the outline and the corner cut-out: both are highlighted.
+    expect(chosen.selectedAt[0]).toBeLessThan(NARROW_PINCH_MM + 1)
+    expect(chosen.selectedAt[1]).toBeLessThan(NARROW_PINCH_MM + 1)
+    expect(chosen.highlighted).toHaveLength(2)
+    expect(chosen.view[0] + chosen.view[2] / 2).toBeCloseTo(chosen.selectedAt[0]!, 2)
+    await expect.poll(() => page.locator('[data-site-announcer]').textContent()).toMatch(/^Bridge too narrow, site 1 of 1: /)
+    await checkAccessibility(page)
+    await screenshot(page, 'check-preview-narrow-bridge')
   })
 })
