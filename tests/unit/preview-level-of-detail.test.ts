@@ -58,7 +58,7 @@ describe('preview culling', () => {
         const viewBox = new Flatten.Box(...view)
         const expected = shapes.map((points, i) => (referenceBox(points).intersect(viewBox) ? i : -1)).filter((i) => i >= 0)
         const found = contoursInView(index, view)
-        expect(found === null ? shapes.map((_, i) => i) : [...found].sort((x, y) => x - y)).toEqual(expected)
+        expect(found === null ? shapes.map((_, i) => i) : Array.from(found).sort((x, y) => x - y)).toEqual(expected)
       }),
     )
   })

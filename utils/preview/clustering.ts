@@ -37,7 +37,8 @@ export function buildSiteIndex(groups: readonly FindingGroup[], sites: FindingSi
   const rows = Int32Array.from(kept)
   let tree: Flatbush | null = null
   if (rows.length > 0) {
-    tree = new Flatbush(rows.length)
+    // Float32 boxes, as the site table's own coordinates: half the memory of the default.
+    tree = new Flatbush(rows.length, 16, Float32Array)
     for (const row of rows) tree.add(sites.xy[2 * row]!, sites.xy[2 * row + 1]!, sites.xy[2 * row]!, sites.xy[2 * row + 1]!)
     tree.finish()
   }
@@ -110,9 +111,9 @@ export function clusterSites(
       if (x > box[4 * cell + 2]!) box[4 * cell + 2] = x
       if (y > box[4 * cell + 3]!) box[4 * cell + 3] = y
     }
-    count[cell]!++
-    sum[2 * cell] += x
-    sum[2 * cell + 1] += y
+    count[cell] = count[cell]! + 1
+    sum[2 * cell] = sum[2 * cell]! + x
+    sum[2 * cell + 1] = sum[2 * cell + 1]! + y
   }
   const clusters: MarkerCluster[] = []
   for (let cell = 0; cell < cellCount; cell++) {
