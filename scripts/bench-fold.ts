@@ -308,12 +308,13 @@ function analysedRevision(db: Db, jobId: number): RevisionRef | undefined {
   return { fileId: row.bench_file_id as number, revision: row.revision as number, rowId: row.id as number }
 }
 
-async function waitForAnalysis(databasePath: string, jobId: number, deadline: number): Promise<RevisionRef> {
+/** The analysed revision, and whether it was stored already when the upload's answer came (the analysis ran inside the request). */
+async function waitForAnalysis(databasePath: string, jobId: number, deadline: number): Promise<RevisionRef & { storedWithAnswer: boolean }> {
   const db = new Database(databasePath, { readonly: true, fileMustExist: true })
   try {
-    while (Date.now() < deadline) {
+    for (let poll = 0; Date.now() < deadline; poll++) {
       const found = analysedRevision(db, jobId)
-      if (found) return found
+      if (found) return { ...found, storedWithAnswer: poll === 0 }
       await sleep(100)
     }
   } finally {
@@ -422,7 +423,7 @@ async function uploadPart(context: Context): Promise<void> {
   const revision = await step('analysis stored', () => waitForAnalysis(app.databasePath, job.id, Date.now() + options.uploadMs))
   if (!revision) return
   context.revision = revision
-  figure('upload + analysis', seconds(performance.now() - started))
+  figure('upload + analysis', revision.storedWithAnswer ? `${seconds(answer.ms)} (stored when the upload answered)` : seconds(performance.now() - started))
   const stored = storedBytes(app.databasePath, revision)
   figure('stored analysis (this revision)', `${megabytes(stored.total)}: ${stored.parts.map(([name, bytes]) => `${name} ${megabytes(bytes)}`).join(', ')}`)
   const databaseBytes = ['', '-wal'].reduce((sum, suffix) => sum + (existsSync(app.databasePath + suffix) ? statSync(app.databasePath + suffix).size : 0), 0)
@@ -475,9 +476,11 @@ async function pagePart(context: Context): Promise<void> {
 }
 
 /** Waits in the page until the preview is drawn: the canvas preview's ready state, or the SVG preview's paths. */
-function previewReady(): 'canvas' | 'svg' | false {
+function previewReady(): 'canvas' | 'svg' | string | false {
   const root = document.querySelector('[data-preview-state]')
-  if (root) return root.getAttribute('data-preview-state') === 'ready' ? 'canvas' : false
+  const state = root?.getAttribute('data-preview-state')
+  if (state && /error|fail/i.test(state)) return `preview state "${state}"`
+  if (root) return state === 'ready' ? 'canvas' : false
   return document.querySelector('svg[aria-label^="Preview of the pattern"] path[d^="M"]') ? 'svg' : false
 }
 
@@ -536,7 +539,8 @@ async function browserPart(context: Context): Promise<void> {
     const mode = await step('preview ready', async () => {
       const remaining = Math.max(1000, options.previewMs - (Date.now() - started))
       const handle = await within(remaining + 5000, 'preview ready', page.waitForFunction(previewReady, undefined, { polling: 'raf', timeout: remaining }))
-      const found = (await handle.jsonValue()) as 'canvas' | 'svg'
+      const found = (await handle.jsonValue()) as string
+      if (found !== 'canvas' && found !== 'svg') throw new Error(found)
       figure('preview ready', `${seconds(Date.now() - started)} after navigation (${found === 'canvas' ? 'canvas, data-preview-state="ready"' : 'SVG preview with its paths'})`)
       const roundTrip = Date.now()
       await within(options.previewMs, 'page responds', page.evaluate(() => 1))
@@ -622,9 +626,10 @@ async function loadPart(context: Context): Promise<void> {
     members.map(async (member, i) => {
       try {
         const answer = await member.upload(`/api/jobs/${jobIds[i]}/files`, context.svg, context.filename, options.uploadMs)
+        const answered = performance.now() - started
         if (answer.status >= 400) return `HTTP ${answer.status}`
-        await waitForAnalysis(app.databasePath, jobIds[i]!, Date.now() + options.uploadMs)
-        return performance.now() - started
+        const revision = await waitForAnalysis(app.databasePath, jobIds[i]!, Date.now() + options.uploadMs)
+        return revision.storedWithAnswer ? answered : performance.now() - started
       } catch (error) {
         return error instanceof StepTimeout ? `> ${error.limitMs / 1000} s` : `failed: ${(error as Error).message.slice(0, 100)}`
       }
@@ -633,19 +638,22 @@ async function loadPart(context: Context): Promise<void> {
   reading = false
   await readLoop
   figure('uploads + analyses (from the common start)', uploads.map((u) => (typeof u === 'number' ? seconds(u) : u)).join(', '))
-  figure('calendar reads during the uploads', `${latencies.length}: median ${seconds(median(latencies))}, worst ${seconds(Math.max(...latencies))}`)
+  const p95 = [...latencies].sort((a, b) => a - b)[Math.max(0, Math.ceil(0.95 * latencies.length) - 1)] ?? NaN
+  figure('calendar reads during the uploads', `${latencies.length}: median ${seconds(median(latencies))}, p95 ${seconds(p95)}, worst ${seconds(Math.max(...latencies))}`)
   figure('calendar read errors', errors.size ? [...errors].map(([kind, count]) => `${kind} × ${count}`).join(', ') : 'none')
   figure('server RSS before / peak during', `${rssText(rssBefore)} / ${rssText(rssPeak)}`)
   await sleep(options.settleMs)
   clearInterval(sampler)
   figure(`server RSS ${options.settleMs / 1000} s after`, rssText(rssKb(app.pid)))
+  const staff = await step('staff sign-in', () => signIn(app, 'staff@example.test', PASSWORD, options.stepMs))
+  if (staff) await timedGets(context, staff, `GET /api/jobs?scope=all (staff, ${jobIds.length + (context.jobId ? 1 : 0)} large jobs)`, '/api/jobs?scope=all', 3)
 }
 
 // ——— the run ———
 
 function ensureBuild(rebuild: boolean): void {
   if (existsSync('.output/server/index.mjs') && !rebuild) {
-    console.log('Reusing .output (pass --rebuild to build again).')
+    console.log(`Reusing .output built ${statSync('.output/server/index.mjs').mtime.toISOString()} (pass --rebuild to build again).`)
     return
   }
   console.log('Building with `nuxt build`…')
@@ -657,7 +665,10 @@ async function main(): Promise<void> {
   const options = readOptions(process.argv.slice(2))
   const sheet = foldSheet({ unitsAcross: options.across, unitsDown: options.down, pitchMm: options.pitchMm, jitterSeed: options.seed })
   if (options.saveSvg) writeFileSync(options.saveSvg, sheet.svg)
-  const commit = spawnSync('git', ['log', '-1', '--format=%h %<(60,trunc)%s'], { encoding: 'utf8' }).stdout.trim()
+  const git = (...args: string[]) => spawnSync('git', args, { encoding: 'utf8' }).stdout.trim()
+  // The app measured is the code outside the bench's own files.
+  const appCommit = git('log', '-1', '--format=%h %<(70,trunc)%s', '--', '.', ':(exclude)scripts/bench-fold.ts', ':(exclude)scripts/lib/fold-sheet.ts', ':(exclude)package.json')
+  const commit = `${appCommit} (HEAD ${git('rev-parse', '--short', 'HEAD')}${git('status', '--porcelain', '--untracked-files=no') ? ', with uncommitted changes' : ''})`
   console.log(`Kerfbook fold benchmark — ${new Date().toISOString()}`)
   console.log(`Commit: ${commit}`)
   console.log(`Machine: ${cpus().length} CPUs (${cpus()[0]?.model.trim()}), ${(totalmem() / 1024 ** 3).toFixed(1)} GB memory, Node ${process.version}`)
