@@ -10,7 +10,7 @@
 import { spawnSync } from 'node:child_process'
 import { cpSync, existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs'
 import { request as httpRequest } from 'node:http'
-import { cpus, tmpdir, totalmem } from 'node:os'
+import { cpus, loadavg, tmpdir, totalmem } from 'node:os'
 import { join } from 'node:path'
 import { parseArgs } from 'node:util'
 import { brotliDecompressSync, gunzipSync, inflateSync } from 'node:zlib'
@@ -125,7 +125,11 @@ function section(title: string): void {
   figures.push([`— ${title}`, ''])
   console.log(`\n${title}`)
 }
+/** Other work on the machine skews every figure: the 1, 5 and 15 minute load averages, said next to them. */
+const loadText = () => loadavg().map((load) => load.toFixed(1)).join(' / ')
+
 function printTable(): void {
+  figures.push(['load average at the end (1 / 5 / 15 min)', `${loadText()} on ${cpus().length} CPUs`])
   const width = Math.max(...figures.map(([label]) => label.length))
   console.log('\n' + '═'.repeat(width + 30))
   for (const [label, value] of figures) console.log(value === '' ? label : `${label.padEnd(width)}  ${value}`)
@@ -337,7 +341,8 @@ function storedBytes(databasePath: string, revision: RevisionRef): { total: numb
         if (bytes > 0) parts.push([`${table}.${column}`, bytes])
       }
     }
-    measure('file_revisions', columnsOf(db, 'file_revisions').map((c) => c.name).filter((name) => STORED_COLUMN.test(name)), 'id = ?', [revision.rowId])
+    // Every text or blob of the revision's row, whatever the columns are called now (names, hashes and dates add a few bytes).
+    measure('file_revisions', columnsOf(db, 'file_revisions').map((c) => c.name), 'id = ?', [revision.rowId])
     for (const table of tablesOf(db)) {
       if (table === 'file_revisions') continue
       const columns = columnsOf(db, table)
@@ -349,7 +354,7 @@ function storedBytes(databasePath: string, revision: RevisionRef): { total: numb
       const payload = columns.filter((c) => c.name !== pointer && !/(^id|_id|_at)$/.test(c.name) && (/text|blob|json|char/i.test(c.type) || c.type === '' || STORED_COLUMN.test(c.name)))
       measure(table, payload.map((c) => c.name), where, parameters)
     }
-    return { total: parts.reduce((sum, [, bytes]) => sum + bytes, 0), parts }
+    return { total: parts.reduce((sum, [, bytes]) => sum + bytes, 0), parts: parts.filter(([, bytes]) => bytes >= 1000) }
   } finally {
     db.close()
   }
@@ -439,7 +444,7 @@ async function apiPart(context: Context): Promise<void> {
   const detail = await timedGets(context, member, `GET /api/jobs/:id (detail)`, `/api/jobs/${jobId}`, 3)
   if (detail && detail.status < 400) {
     const findings = (JSON.parse(detail.body.toString('utf8')) as { findings?: Record<string, unknown> }).findings
-    if (findings) figure('findings on the job', JSON.stringify(findings))
+    if (findings) figure('findings on the job', JSON.stringify(findings).slice(0, 200))
   }
   const base = `/api/jobs/${jobId}/files/${revision.fileId}/revisions/${revision.revision}`
   await timedGets(context, member, 'GET …/revisions/:n (preview data)', base, 3)
@@ -671,7 +676,7 @@ async function main(): Promise<void> {
   const commit = `${appCommit} (HEAD ${git('rev-parse', '--short', 'HEAD')}${git('status', '--porcelain', '--untracked-files=no') ? ', with uncommitted changes' : ''})`
   console.log(`Kerfbook fold benchmark — ${new Date().toISOString()}`)
   console.log(`Commit: ${commit}`)
-  console.log(`Machine: ${cpus().length} CPUs (${cpus()[0]?.model.trim()}), ${(totalmem() / 1024 ** 3).toFixed(1)} GB memory, Node ${process.version}`)
+  console.log(`Machine: ${cpus().length} CPUs (${cpus()[0]?.model.trim()}), ${(totalmem() / 1024 ** 3).toFixed(1)} GB memory, Node ${process.version}, load average ${loadText()}`)
   console.log(
     `Pattern: ${options.across} × ${options.down} units of ${options.pitchMm} mm${options.seed === undefined ? '' : `, non-repeating (seed ${options.seed})`}: ${megabytes(sheet.svg.length)}, ${sheet.contours} contours (${sheet.slits} slits, ${sheet.reliefs} reliefs), ${sheet.hinges} narrow hinges by design, ${sheet.widthMm} × ${sheet.heightMm} mm`,
   )
@@ -700,7 +705,7 @@ async function main(): Promise<void> {
     const plywood = laser?.materials.find((m) => m.name === 'Birch plywood' && m.thicknessMm === 3)
     if (!laser || !plywood) throw new Error('the demo laser or its 3 mm birch plywood is missing from the catalog')
     console.log(`Process: ${laser.name}, ${plywood.name} ${plywood.thicknessMm} mm`)
-    figures.push(['commit', commit], ['pattern', `${options.across} × ${options.down} units, ${megabytes(sheet.svg.length)}, ${sheet.contours} contours${options.seed === undefined ? '' : ', non-repeating'}`])
+    figures.push(['commit', commit], ['load average at the start (1 / 5 / 15 min)', `${loadText()} on ${cpus().length} CPUs`], ['pattern', `${options.across} × ${options.down} units, ${megabytes(sheet.svg.length)}, ${sheet.contours} contours${options.seed === undefined ? '' : ', non-repeating'}`])
     const context: Context = { app, options, svg: sheet.svg, filename: `fold-sheet-${options.across}x${options.down}.svg`, cutterId: laser.cutterId, materialId: plywood.materialId }
     if (options.parts.has('upload')) await uploadPart(context)
     if (options.parts.has('api')) await apiPart(context)
