@@ -132,7 +132,8 @@ export class FindingCollector {
         if (y < box[1]) box[1] = y
         if (x > box[2]) box[2] = x
         if (y > box[3]) box[3] = y
-        if (!Number.isNaN(list.value[site])) values[measured++] = list.value[site]
+        // Statistics of the values as the site table stores them, so they agree with the sites a page reads.
+        if (!Number.isNaN(list.value[site])) values[measured++] = Math.fround(list.value[site])
       }
       const { spec } = list
       const facts: Record<string, number | string> = { ...spec.facts }
@@ -175,7 +176,11 @@ function worstFirstOrder(list: SiteList): Uint32Array | null {
   return order.sort((a, b) => sign * (value[a] - value[b]) || a - b)
 }
 
-/** Minimum, median (the mean of the middle two of an even count), maximum and an equal-width histogram of ~10 bins. */
+/**
+ * Minimum, median (the mean of the middle two of an even count), maximum and
+ * a histogram of ~10 equal-width bins: bin i holds the values from
+ * min + i·width up to the next bin's edge, the last one up to and with max.
+ */
 export function findingStats(values: Float64Array): FindingStats {
   const sorted = Float64Array.from(values).sort()
   const count = sorted.length
@@ -186,9 +191,9 @@ export function findingStats(values: Float64Array): FindingStats {
   const bins = max > min ? HISTOGRAM_BINS : 1
   const counts = new Array<number>(bins).fill(0)
   const width = (max - min) / bins
+  let bin = 0
   for (let index = 0; index < count; index++) {
-    // The top edge belongs to the last bin.
-    const bin = width > 0 ? Math.min(bins - 1, Math.floor((sorted[index] - min) / width)) : 0
+    while (bin < bins - 1 && sorted[index] >= min + width * (bin + 1)) bin++
     counts[bin]++
   }
   return { min, median, max, histogram: { fromMm: min, toMm: max, counts } }
