@@ -59,8 +59,8 @@ export interface MarkerCluster {
   box: [number, number, number, number]
 }
 
-/** The side of a grid cell in CSS pixels: about the size of a badge, so badges rarely overlap. */
-export const CLUSTER_CELL_PX = 56
+/** The side of a grid cell in CSS pixels: a little more than a four-digit badge, so neighbouring badges rarely overlap. */
+export const CLUSTER_CELL_PX = 64
 
 /**
  * Gathers the sites in view into grid cells of `cellPx` screen pixels. `exceptRow` (the selected site) is left
