@@ -3,6 +3,7 @@ import { readFileSync } from 'node:fs'
 import { parseArgs } from 'node:util'
 import { migrateLatest, openDatabase } from '../db/index'
 import { analysisParamsFor } from '../server/services/analysis-profile'
+import { describeGroup, describeSite, formatRangeMm } from '../shared/finding-messages'
 import { AnalysisInputError, type AnalysisParams, type AnalysisResult, analyzeCutFile, DEFAULT_ANALYSIS_PARAMS, withDefaults } from '../server/analysis/index'
 
 const NUMBER_OPTIONS = {
@@ -21,7 +22,8 @@ const NUMBER_OPTIONS = {
 const HELP = `Usage: npm run analyze -- FILE.svg|FILE.dxf [--json] [options]
 
 Measures an SVG or ASCII DXF cut pattern (the content, not the name, tells which) and estimates machine time, price and sheet fit.
-With --json, prints exactly the result JSON on stdout.
+Findings are printed as groups (one per kind, cause and limit) with their count, range and first sites.
+With --json, prints exactly the result JSON on stdout (the site table's typed arrays as plain arrays).
 
 Options (each overrides the default profile shown in brackets):
   --speed MM_PER_MIN    cut speed [${DEFAULT_ANALYSIS_PARAMS.cutSpeedMmPerMin}]
@@ -66,7 +68,7 @@ async function main(argv: string[]): Promise<number> {
   const params = { ...base, ...overridesFrom(values as Record<string, string | undefined>) }
   try {
     const result = analyzeCutFile(readFileSync(positionals[0], 'utf8'), params)
-    process.stdout.write(values.json ? `${JSON.stringify(result)}\n` : readableReport(result))
+    process.stdout.write(values.json ? `${JSON.stringify(result, (_key, value: unknown) => (ArrayBuffer.isView(value) ? Array.from(value as Float32Array) : value))}\n` : readableReport(result))
     return 0
   } catch (error) {
     if (!(error instanceof AnalysisInputError)) throw error
@@ -120,8 +122,24 @@ function readableReport(result: AnalysisResult): string {
     ['Sheet', result.sheet.fits ? `fits${result.sheet.rotated ? ' turned 90°' : ''}, ${result.sheet.copies} per sheet` : 'does not fit'],
   ]
   const width = Math.max(...rows.map(([label]) => label.length))
-  const findings = result.findings.map((finding) => `  ${finding.severity.padEnd(7)} ${finding.code} at (${mm(finding.x)}, ${mm(finding.y)}): ${finding.message}`)
+  const findings = result.findingGroups.flatMap((group) => groupLines(result, group))
   return `${rows.map(([label, value]) => `${label.padEnd(width)}  ${value}`).join('\n')}\n${findings.length ? `Findings:\n${findings.join('\n')}\n` : 'No findings.\n'}`
+}
+
+// The first few sites of a group, worst first; the rest are counted.
+const SITES_SHOWN = 3
+
+function groupLines(result: AnalysisResult, group: AnalysisResult['findingGroups'][number]): string[] {
+  const { title, headline, advice } = describeGroup(group)
+  const { sites } = result
+  const lines = [`  ${group.severity.padEnd(7)} ${title} [${group.key}]: ${headline}. ${advice}`]
+  if (group.stats) lines.push(`          median ${mm(group.stats.median)}, histogram ${formatRangeMm(group.stats.histogram.fromMm, group.stats.histogram.toMm)}: ${group.stats.histogram.counts.join(' ')}`)
+  for (let row = group.firstSite; row < group.firstSite + Math.min(group.count, SITES_SHOWN); row++) {
+    const line = describeSite(group, sites.value[row])
+    lines.push(`          at (${mm(sites.xy[2 * row])}, ${mm(sites.xy[2 * row + 1])})${line ? `: ${line}` : ''}`)
+  }
+  if (group.count > SITES_SHOWN) lines.push(`          … and ${group.count - SITES_SHOWN} more`)
+  return lines
 }
 
 function mm(value: number): string {

@@ -1,37 +1,36 @@
 import { chainPolylines } from './chain'
-import { runDesignRuleChecks, sortBySeverity } from './checks/index'
+import { runDesignRuleChecks } from './checks/index'
 import { type CutFileFormat, detectCutFileFormat } from './dxf/format'
 import { parseDxf } from './dxf/parseDxf'
 import { readDxfDocument } from './dxf/readDxf'
 import { AnalysisInputError } from './errors'
+import { FindingCollector } from './findings'
 import { flattenPath } from './flatten'
 import { estimateMachineTime } from './machineTime'
 import { measureContours } from './measure'
 import type { AnalysisParams } from './params'
 import { parseSvgXml } from './parseXml'
-import { OPERATION_BY_CODE, OPERATION_CODES, PolylineSet } from './polylines'
+import { OPERATION_CODES, PolylineSet } from './polylines'
 import { billableMinutes, priceMinor } from './pricing'
 import { type ReadDrawing, readSvgDocument } from './readSvg'
-import type { AnalysisResult, PreviewContour } from './result'
+import type { AnalysisResult } from './result'
 import { fitOnSheet } from './sheetFit'
 import { type AnalysisStage, type StageTimeListener, stageTimer } from './stageTimer'
 
 export { AnalysisInputError, type AnalysisInputErrorKind } from './errors'
 export { DEFAULT_ANALYSIS_PARAMS, withDefaults, type AnalysisParams, type ColourRule, type DxfLayerRule, type Operation } from './params'
-export type { AnalysisResult, Finding, PreviewContour, Severity } from './result'
-export type { DesignRuleSummary } from './checks/index'
+export type { AnalysisResult, DesignRuleSummary, FindingGroup, FindingSites, FindingStats, Severity } from './result'
 export type { AnalysisStage, StageTimeListener } from './stageTimer'
 export { detectCutFileFormat, type CutFileFormat } from './dxf/format'
 
 export interface AnalyzeOptions {
-  /** Adds `contours` (polylines in mm with their operation) for a preview. */
-  includeContours?: boolean
   /** Receives each stage's wall time in ms as it finishes (the benchmark prints them). */
   onStageTimed?: StageTimeListener
 }
 
-/** The engine's geometry after chaining, for stages (and checks) that work on segments. */
+/** The engine's geometry after chaining, for stages (and checks) that work on segments, and for the preview. */
 export interface AnalysedGeometry {
+  /** The contours the sites' contour ids index (encode with `encodeGeometry` of shared/packed-analysis.ts). */
   contours: PolylineSet
   /** [minX, minY, maxX, maxY] per contour. */
   bounds: Float64Array
@@ -51,7 +50,8 @@ export function analyzeSvg(svgText: string, params: AnalysisParams, options: Ana
 
 export function analyzeSvgWithGeometry(svgText: string, params: AnalysisParams, options: AnalyzeOptions = {}): { result: AnalysisResult; geometry: AnalysedGeometry } {
   const lap = stageTimer(options.onStageTimed)
-  return analyzeDrawing(readSvgText(svgText, params, lap), params, options, lap)
+  const findings = new FindingCollector()
+  return analyzeDrawing(readSvgText(svgText, params, findings, lap), params, findings, lap)
 }
 
 /**
@@ -59,10 +59,10 @@ export function analyzeSvgWithGeometry(svgText: string, params: AnalysisParams, 
  * svgson tree (millions of small strings) is garbage, and the collector no
  * longer walks it during the later stages.
  */
-function readSvgText(svgText: string, params: AnalysisParams, lap: (stage: AnalysisStage) => void): ReadDrawing {
+function readSvgText(svgText: string, params: AnalysisParams, findings: FindingCollector, lap: (stage: AnalysisStage) => void): ReadDrawing {
   const root = parseSvgXml(svgText)
   lap('parse')
-  const drawing = readSvgDocument(root, params)
+  const drawing = readSvgDocument(root, params, findings)
   lap('read')
   return drawing
 }
@@ -74,20 +74,26 @@ export function analyzeDxf(dxfText: string, params: AnalysisParams, options: Ana
 
 export function analyzeDxfWithGeometry(dxfText: string, params: AnalysisParams, options: AnalyzeOptions = {}): { result: AnalysisResult; geometry: AnalysedGeometry } {
   const lap = stageTimer(options.onStageTimed)
+  const findings = new FindingCollector()
   const dxf = parseDxf(dxfText)
   lap('parse')
-  const drawing = readDxfDocument(dxf, params)
+  const drawing = readDxfDocument(dxf, params, findings)
   lap('read')
-  return analyzeDrawing(drawing, params, options, lap)
+  return analyzeDrawing(drawing, params, findings, lap)
 }
 
 /** SVG or DXF, as `format` says or, without it, as the text's content shows. */
 export function analyzeCutFile(text: string, params: AnalysisParams, options: AnalyzeOptions & { format?: CutFileFormat } = {}): AnalysisResult {
-  const format = options.format ?? detectCutFileFormat(text)
-  return format === 'dxf' ? analyzeDxf(text, params, options) : analyzeSvg(text, params, options)
+  return analyzeCutFileWithGeometry(text, params, options).result
 }
 
-function analyzeDrawing(drawing: ReadDrawing, params: AnalysisParams, options: AnalyzeOptions, lap: (stage: AnalysisStage) => void): { result: AnalysisResult; geometry: AnalysedGeometry } {
+/** The same, with the geometry the sites' contour ids index (the analysis worker encodes it for the preview). */
+export function analyzeCutFileWithGeometry(text: string, params: AnalysisParams, options: AnalyzeOptions & { format?: CutFileFormat } = {}): { result: AnalysisResult; geometry: AnalysedGeometry } {
+  const format = options.format ?? detectCutFileFormat(text)
+  return format === 'dxf' ? analyzeDxfWithGeometry(text, params, options) : analyzeSvgWithGeometry(text, params, options)
+}
+
+function analyzeDrawing(drawing: ReadDrawing, params: AnalysisParams, findings: FindingCollector, lap: (stage: AnalysisStage) => void): { result: AnalysisResult; geometry: AnalysedGeometry } {
   const pieces = new PolylineSet()
   drawing.elements.forEach((element, elementIndex) => {
     flattenPath(element.pathData, element.matrix, params.chordToleranceMm, pieces, OPERATION_CODES[element.operation], elementIndex, element.filled)
@@ -95,11 +101,11 @@ function analyzeDrawing(drawing: ReadDrawing, params: AnalysisParams, options: A
   lap('flatten')
   const contours = chainPolylines(pieces, params.chainToleranceMm)
   lap('chain')
-  if (contours.count === 0) throw emptyDrawingError(drawing.findings.length > 0)
+  if (contours.count === 0) throw emptyDrawingError(findings.siteCount > 0)
   const bounds = contours.bounds()
   const measurement = measureContours(contours, bounds, drawing.elements)
   lap('measure')
-  const checks = runDesignRuleChecks({ contours, bounds }, params)
+  const checks = runDesignRuleChecks({ contours, bounds }, params, findings)
   lap('checks')
   const machine = estimateMachineTime(contours, bounds, measurement.engrave.areaMm2, params)
   lap('time')
@@ -121,10 +127,9 @@ function analyzeDrawing(drawing: ReadDrawing, params: AnalysisParams, options: A
       marginMm: params.marginMm,
       spacingMm: params.kerfMm + params.partGapMm,
     }),
-    findings: sortBySeverity([...drawing.findings, ...checks.findings]),
-    checks: checks.summary,
+    ...findings.finish(),
+    checks,
   }
-  if (options.includeContours) result.contours = previewContours(contours)
   lap('result')
   return { result, geometry: { contours, bounds, runOrder: machine.runOrder } }
 }
@@ -132,12 +137,4 @@ function analyzeDrawing(drawing: ReadDrawing, params: AnalysisParams, options: A
 function emptyDrawingError(hasFindings: boolean): AnalysisInputError {
   const hint = hasFindings ? ' It contains only text or images; convert them to paths.' : ''
   return new AnalysisInputError('empty', `The drawing has no visible lines or shapes to cut, score or engrave.${hint}`)
-}
-
-function previewContours(contours: PolylineSet): PreviewContour[] {
-  return Array.from({ length: contours.count }, (_, index) => ({
-    operation: OPERATION_BY_CODE[contours.operation[index]],
-    closed: contours.closed[index] === 1,
-    points: Array.from(contours.xy.subarray(2 * contours.start[index], 2 * contours.start[index + 1]), (value) => Math.round(value * 1000) / 1000),
-  }))
 }

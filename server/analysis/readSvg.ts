@@ -2,11 +2,11 @@ import type { INode } from 'svgson'
 import { parseColour, toHex } from './colour'
 import { ColourMapper } from './colourMapping'
 import { AnalysisInputError } from './errors'
+import type { FindingCollector, SiteList } from './findings'
 import { applyX, applyY, type Matrix, multiply, parseTransform, translation } from './matrix'
 import { NUMBER_GRAMMAR, parseNumberAttribute } from './numbers'
 import type { AnalysisParams } from './params'
 import type { DrawnOperation } from './polylines'
-import type { Finding } from './result'
 import { shapeToPathData } from './shapes'
 import { type ComputedStyle, computeStyle, INITIAL_STYLE } from './style'
 import { StyleSheet } from './stylesheet'
@@ -24,7 +24,6 @@ export interface DrawnElement {
 
 export interface ReadDrawing {
   elements: DrawnElement[]
-  findings: Finding[]
 }
 
 // Common practice, no source: no drawing program nests groups this deep; deeper files are machine-made or hostile.
@@ -47,14 +46,14 @@ interface Pending {
 /**
  * Walks the svgson tree without recursion and lists what a renderer would
  * paint, with each stroke's operation from the colour mapping. Text and
- * raster images become findings, as do stroke colours the mapping lacks.
+ * raster images become findings (a site each), as do stroke colours the
+ * mapping lacks (a group per colour, its site at the first such line).
  */
-export function readSvgDocument(root: INode, params: AnalysisParams): ReadDrawing {
+export function readSvgDocument(root: INode, params: AnalysisParams, findings: FindingCollector): ReadDrawing {
   const { byId, styleSheet } = indexDocument(root)
   const mapper = new ColourMapper(params.colourMapping)
   const elements: DrawnElement[] = []
-  const findings: Finding[] = []
-  const reportedColours = new Set<string>()
+  const unmappedColours = new Map<string, SiteList>()
   // Thousands of shapes share a handful of colours: each colour text is parsed once.
   const paints = new Map<string, Paint>()
   const stack: Pending[] = []
@@ -90,12 +89,12 @@ export function readSvgDocument(root: INode, params: AnalysisParams): ReadDrawin
       const pathData = shapeToPathData(node)
       if (pathData) paintShape(pathData, matrix, style)
     } else if (node.name === 'text') {
-      findings.push(elementFinding('text-not-outlined', 'Text that is not converted to paths is not cut. Convert the text to outlines (paths) in your drawing program.', node, matrix))
+      addElementSite(findings.group({ code: 'text-not-outlined', severity: 'warning', facts: { format: 'svg' } }), node, matrix)
     } else if (node.name === 'image') {
-      findings.push(elementFinding('raster-image', 'A raster image is not cut or engraved. Trace it into paths, or remove it if it is only a reference.', node, matrix))
+      addElementSite(findings.group({ code: 'raster-image', severity: 'warning', facts: { format: 'svg' } }), node, matrix)
     }
   }
-  return { elements, findings }
+  return { elements }
 
   function resolvePaint(value: string, style: ComputedStyle): Paint {
     if (value === 'none') return NO_PAINT
@@ -125,16 +124,14 @@ export function readSvgDocument(root: INode, params: AnalysisParams): ReadDrawin
   }
 
   function reportUnmappedColour(label: string, pathData: string, matrix: Matrix): void {
-    if (reportedColours.has(label)) return
-    reportedColours.add(label)
-    const [x, y] = firstCoordinates(pathData)
-    findings.push({
-      code: 'unmapped-colour',
-      severity: 'warning',
-      message: `Lines drawn in ${label} are not in the workshop's colour mapping; they are counted as "${params.unmappedStrokeOperation}". Use one of the workshop's colours to choose cut, score or engrave.`,
-      x: applyX(matrix, x, y),
-      y: applyY(matrix, x, y),
-    })
+    let sites = unmappedColours.get(label)
+    if (sites === undefined) {
+      sites = findings.group({ code: 'unmapped-colour', severity: 'warning', cause: label, facts: { format: 'svg', colour: label, countedAs: params.unmappedStrokeOperation } })
+      unmappedColours.set(label, sites)
+      const [x, y] = firstCoordinates(pathData)
+      sites.add(applyX(matrix, x, y), applyY(matrix, x, y))
+    }
+    sites.addToFact('lines', 1)
   }
 }
 
@@ -144,10 +141,10 @@ const NO_PAINT: Paint = { kind: 'none' }
 
 function paintOfColour(colourText: string): Paint {
   const colour = parseColour(colourText)
-  if (!colour) return { kind: 'other', label: `"${colourText.slice(0, 40)}"`, alpha: 1 }
+  if (!colour) return { kind: 'other', label: colourText.slice(0, 40), alpha: 1 }
   if (colour.a === 0) return NO_PAINT
   const hex = toHex(colour)
-  return { kind: 'colour', colour, hex, label: `colour ${hex}`, alpha: colour.a }
+  return { kind: 'colour', colour, hex, label: hex, alpha: colour.a }
 }
 
 function expandUse(node: INode, matrix: Matrix, style: ComputedStyle, useDepth: number, byId: IdIndex, styleSheet: StyleSheet, stack: Pending[]): void {
@@ -188,10 +185,10 @@ function nestedViewportMatrix(node: INode): Matrix {
   return multiply(offset, viewBoxMatrix(viewBox, width, height, node.attributes.preserveAspectRatio))
 }
 
-function elementFinding(code: string, message: string, node: INode, matrix: Matrix): Finding {
+function addElementSite(sites: SiteList, node: INode, matrix: Matrix): void {
   const x = firstNumberOf(node.attributes.x)
   const y = firstNumberOf(node.attributes.y)
-  return { code, severity: 'warning', message, x: applyX(matrix, x, y), y: applyY(matrix, x, y) }
+  sites.add(applyX(matrix, x, y), applyY(matrix, x, y))
 }
 
 function firstNumberOf(value: string | undefined): number {

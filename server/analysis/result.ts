@@ -1,23 +1,16 @@
-import type { Operation } from './params'
+import type { FindingGroup, FindingSites } from '../../shared/finding-groups'
 
-export type Severity = 'error' | 'warning' | 'info'
+export type { FindingGroup, FindingSites, FindingStats, Severity } from '../../shared/finding-groups'
 
-/** Something the engine noticed, located in mm in the drawing's frame. */
-export interface Finding {
-  code: string
-  severity: Severity
-  message: string
-  x: number
-  y: number
-  valueMm?: number
-  limitMm?: number
-}
-
-/** A contour for the preview: a polyline in mm; closed ones repeat their first point at the end. */
-export interface PreviewContour {
-  operation: Exclude<Operation, 'ignore'>
-  closed: boolean
-  points: number[]
+/** What the design-rule checks add up over their sites. */
+export interface DesignRuleSummary {
+  narrowBridgeSites: number
+  /** Narrowest web left between cuts, when any bridge is below the minimum. */
+  narrowestBridgeMm: number | null
+  /** Length the machine would cut a second time. */
+  duplicateCutLengthMm: number
+  /** That length at cut speed. */
+  duplicateCutTimeS: number
 }
 
 export interface AnalysisResult {
@@ -30,7 +23,9 @@ export interface AnalysisResult {
   billableMinutes: number
   price: { amount: number; currency: string }
   sheet: { fits: boolean; rotated: boolean; copies: number; fitsBed: boolean }
-  findings: Finding[]
-  /** Only with `{ includeContours: true }`. */
-  contours?: PreviewContour[]
+  /** Errors, then warnings, then notes; messages come from shared/finding-messages.ts. */
+  findingGroups: FindingGroup[]
+  /** Every group's sites, group by group, worst first (contour ids index the analysed geometry's contours). */
+  sites: FindingSites
+  checks: DesignRuleSummary
 }

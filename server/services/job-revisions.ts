@@ -1,6 +1,6 @@
 import type { Knex } from 'knex'
 import { addCounts, countGroups, emptyCounts, worstSeverity, type FindingCounts, type FindingGroup, type Severity } from '#shared/finding-groups'
-import { findingTitle } from '#shared/analysis-view'
+import { findingTitle, formatCount } from '#shared/finding-messages'
 import type { SessionUser } from '#shared/roles'
 import { NotFound } from '../utils/errors'
 import { jobForViewer } from './jobs'
@@ -147,5 +147,5 @@ export async function findingRefLabel(db: Knex, jobId: number, ref: { fileId: nu
     .first('f.name', 'r.analysis_json')
   const group = row ? (JSON.parse(row.analysis_json) as StoredAnalysis).findingGroups?.find((g) => g.key === ref.key) : undefined
   if (!group) return null
-  return `${findingTitle(group.code)}, ${group.count.toLocaleString('en')} ${group.count === 1 ? 'place' : 'places'} in ${row.name} (revision ${ref.revision})`
+  return `${findingTitle(group.code)}, ${formatCount(group.count)} ${group.count === 1 ? 'place' : 'places'} in ${row.name} (revision ${ref.revision})`
 }

@@ -1,12 +1,13 @@
 import { describe, expect, it } from 'vitest'
 import type { AnalysisResult } from '../../server/analysis/index'
 import { analyze, CUT, cutPath, mmDocument, SCORE } from './helpers'
+import { groupOf, sitesOf } from './sites'
 
-/** The codes the reader itself reports (readSvg.ts); the design-rule checks add their own findings to the same list. */
+/** The codes the reader itself reports (readSvg.ts); the design-rule checks add their own groups to the same list. */
 const READER_CODES = new Set(['text-not-outlined', 'raster-image', 'unmapped-colour'])
 
-function readerFindings(result: AnalysisResult): AnalysisResult['findings'] {
-  return result.findings.filter((finding) => READER_CODES.has(finding.code))
+function readerFindings(result: AnalysisResult) {
+  return sitesOf(result).filter((site) => READER_CODES.has(site.code))
 }
 
 describe('what is drawn and how', () => {
@@ -60,13 +61,14 @@ describe('what is drawn and how', () => {
     expect(result.cut.lengthMm).toBe(0)
   })
 
-  it('matches colours within the mapping tolerance and reports unmapped ones once', () => {
+  it('matches colours within the mapping tolerance and reports unmapped ones once, counting their lines', () => {
     const nearCut = '#c51a5e'
     const result = analyze(mmDocument(`${cutPath('M0 0H10', `stroke="${nearCut}"`).replace(`stroke="${CUT}" `, '')}<path d="M0 10H10" stroke="#123456"/><path d="M0 20H10" stroke="#123456"/>`))
     expect(result.cut.lengthMm).toBeCloseTo(30, 9)
-    const unmapped = result.findings.filter((finding) => finding.code === 'unmapped-colour')
+    const unmapped = sitesOf(result, 'unmapped-colour')
     expect(unmapped).toHaveLength(1)
-    expect(unmapped[0]).toMatchObject({ x: 0, y: 10 })
+    expect(unmapped[0]).toMatchObject({ x: 0, y: 10, cause: '#123456' })
+    expect(groupOf(result, 'unmapped-colour')?.facts).toMatchObject({ colour: '#123456', lines: 2, countedAs: 'cut' })
     expect(analyze(mmDocument('<path d="M0 0H10" stroke="#9e9e9e"/>' + cutPath('M0 5H5'))).cut.lengthMm).toBeCloseTo(5, 9)
   })
 

@@ -1,6 +1,7 @@
+import type { FindingCollector } from '../findings'
 import type { ContourGeometry } from '../memo'
 import type { AnalysisParams } from '../params'
-import type { Finding } from '../result'
+import type { DesignRuleSummary } from '../result'
 import { cutTimeS } from './cutTime'
 import { checkDuplicateCuts } from './duplicateCut'
 import { checkMaterialAllowed } from './materialNotAllowed'
@@ -13,29 +14,11 @@ import { checkSmallHoles } from './smallHole'
 import { checkTinySegments } from './tinySegment'
 import { checkThickness } from './tooThick'
 
-/** The design-rule checks' additions to the engine's result types (additive, optional fields). */
-declare module '../result' {
-  interface Finding {
-    /** Contour ids (indexes into the engine's contours and the preview's `contours`) the finding concerns. */
-    contours?: number[]
-  }
-  interface AnalysisResult {
-    checks?: DesignRuleSummary
-  }
-}
-
-export interface DesignRuleSummary {
-  narrowBridgeSites: number
-  /** Narrowest web left between cuts, when any bridge is below the minimum. */
-  narrowestBridgeMm: number | null
-  /** Length the machine would cut a second time. */
-  duplicateCutLengthMm: number
-  /** That length at cut speed. */
-  duplicateCutTimeS: number
-}
+export type { DesignRuleSummary } from '../result'
 
 export type CheckGeometry = ContourGeometry
-export type DesignRuleCheck = (geometry: CheckGeometry, params: AnalysisParams) => Finding[]
+/** A check adds its sites to the groups of the collector (one group per code, severity, cause and limit). */
+export type DesignRuleCheck = (geometry: CheckGeometry, params: AnalysisParams, findings: FindingCollector) => void
 
 const CHECKS: DesignRuleCheck[] = [
   checkMaterialAllowed,
@@ -50,25 +33,22 @@ const CHECKS: DesignRuleCheck[] = [
   checkOpenContours,
 ]
 
-/** Runs every design-rule check on the chained geometry. */
-export function runDesignRuleChecks(geometry: CheckGeometry, params: AnalysisParams): { findings: Finding[]; summary: DesignRuleSummary } {
-  const findings = CHECKS.flatMap((check) => check(geometry, params))
-  return { findings, summary: summarise(findings, params) }
+/** Runs every design-rule check on the chained geometry, adding to the analysis's findings, and sums up. */
+export function runDesignRuleChecks(geometry: CheckGeometry, params: AnalysisParams, findings: FindingCollector): DesignRuleSummary {
+  for (const check of CHECKS) check(geometry, params, findings)
+  return summarise(findings, params)
 }
 
-const SEVERITY_RANK = { error: 0, warning: 1, info: 2 } as const
-
-/** Errors first, then warnings, then notes; the order within a severity is kept (narrow bridges stay narrowest first). */
-export function sortBySeverity(findings: Finding[]): Finding[] {
-  return [...findings].sort((a, b) => SEVERITY_RANK[a.severity] - SEVERITY_RANK[b.severity])
-}
-
-function summarise(findings: Finding[], params: AnalysisParams): DesignRuleSummary {
-  const bridges = findings.filter((finding) => finding.code === 'narrow-bridge')
-  const duplicateCutLengthMm = findings.filter((finding) => finding.code === 'duplicate-cut').reduce((sum, finding) => sum + (finding.valueMm ?? 0), 0)
+function summarise(findings: FindingCollector, params: AnalysisParams): DesignRuleSummary {
+  let narrowestBridgeMm: number | null = null
+  for (const list of findings.listsOf('narrow-bridge')) {
+    for (let site = 0; site < list.count; site++) narrowestBridgeMm = narrowestBridgeMm === null ? list.value[site] : Math.min(narrowestBridgeMm, list.value[site])
+  }
+  let duplicateCutLengthMm = 0
+  for (const list of findings.listsOf('duplicate-cut')) for (let site = 0; site < list.count; site++) duplicateCutLengthMm += list.value[site]
   return {
-    narrowBridgeSites: bridges.length,
-    narrowestBridgeMm: bridges.reduce<number | null>((narrowest, finding) => (narrowest === null ? finding.valueMm! : Math.min(narrowest, finding.valueMm!)), null),
+    narrowBridgeSites: findings.countOf('narrow-bridge'),
+    narrowestBridgeMm,
     duplicateCutLengthMm,
     duplicateCutTimeS: cutTimeS(duplicateCutLengthMm, params),
   }

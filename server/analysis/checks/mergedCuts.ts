@@ -1,7 +1,6 @@
+import type { FindingCollector } from '../findings'
 import type { AnalysisParams } from '../params'
-import type { Finding } from '../result'
 import { cutSegmentsOf } from './cutSegments'
-import { formatMm } from './format'
 import type { CheckGeometry } from './index'
 import { nearCutsOf } from './nearCuts'
 import { contourPairKey, NEAR_KIND } from './pairScan'
@@ -9,11 +8,11 @@ import { contourPairKey, NEAR_KIND } from './pairScan'
 /**
  * Separate cuts that cross or meet, or that come within the kerf of each
  * other across the piece that drops out: after cutting they are one cut the
- * drawing did not mean. One finding per pair of contours, where they come
+ * drawing did not mean. One site per pair of contours, where they come
  * closest. (Within the kerf across material is a burnt-away bridge, reported
  * by the narrow-bridge check; exact repeats by the duplicate-cut check.)
  */
-export function checkMergedCuts(geometry: CheckGeometry, params: AnalysisParams): Finding[] {
+export function checkMergedCuts(geometry: CheckGeometry, params: AnalysisParams, findings: FindingCollector): void {
   const segments = cutSegmentsOf(geometry)
   const nearCuts = nearCutsOf(geometry, params)
   const { kind, distanceMm } = nearCuts
@@ -25,20 +24,13 @@ export function checkMergedCuts(geometry: CheckGeometry, params: AnalysisParams)
     const best = closestOfPair.get(key)
     if (best === undefined || distanceMm[slot] < distanceMm[best]) closestOfPair.set(key, slot)
   }
-  return [...closestOfPair.values()].map((slot) => {
+  const facts = { kerfMm: params.kerfMm }
+  // Crossing or meeting centre lines, or within the kerf across the piece that drops out.
+  const touching = findings.group({ code: 'merged-cuts', severity: 'error', cause: 'touch', limitMm: 0, facts, worstFirst: 'smallest' })
+  const withinKerf = findings.group({ code: 'merged-cuts', severity: 'error', cause: 'within-kerf', limitMm: 0, facts, worstFirst: 'smallest' })
+  for (const slot of closestOfPair.values()) {
     const { px, py, qx, qy } = nearCuts.closest(slot)
-    return {
-    code: 'merged-cuts',
-    severity: 'error',
-    message:
-      kind[slot] === NEAR_KIND.touch
-        ? 'Two separate cuts cross or meet here, so the piece between them may drop out. Join them into one outline or move them apart.'
-        : `Two separate cuts come ${formatMm(distanceMm[slot])} apart, within the kerf (${formatMm(params.kerfMm)}): after cutting they run into each other.`,
-    x: (px + qx) / 2,
-    y: (py + qy) / 2,
-    valueMm: distanceMm[slot] - params.kerfMm,
-    limitMm: 0,
-    contours: [segments.contourOf[nearCuts.first[slot]], segments.contourOf[nearCuts.second[slot]]],
+    const sites = kind[slot] === touch ? touching : withinKerf
+    sites.add((px + qx) / 2, (py + qy) / 2, distanceMm[slot] - params.kerfMm, segments.contourOf[nearCuts.first[slot]], segments.contourOf[nearCuts.second[slot]])
   }
-  })
 }

@@ -1,7 +1,6 @@
+import type { FindingCollector, SiteList } from '../findings'
 import type { AnalysisParams } from '../params'
-import type { Finding } from '../result'
 import { type CutSegments, cutSegmentsOf } from './cutSegments'
-import { formatMm } from './format'
 import type { CheckGeometry } from './index'
 import { isScreened, nearCutsOf } from './nearCuts'
 import { NEAR_KIND, type NearCutList, pairScanOf } from './pairScan'
@@ -13,7 +12,7 @@ import { NEAR_KIND, type NearCutList, pairScanOf } from './pairScan'
  * find over the pairs); each bridge is reported once, at its narrowest pair
  * that no other cut screens, narrowest bridge first.
  */
-export function checkNarrowBridges(geometry: CheckGeometry, params: AnalysisParams): Finding[] {
+export function checkNarrowBridges(geometry: CheckGeometry, params: AnalysisParams, findings: FindingCollector): void {
   const segments = cutSegmentsOf(geometry)
   const nearCuts = nearCutsOf(geometry, params)
   const { neighbours } = pairScanOf(geometry, params)
@@ -55,8 +54,8 @@ export function checkNarrowBridges(geometry: CheckGeometry, params: AnalysisPara
     const unscreened = othersOfScreened.get(site)!.sort((a, b) => distanceMm[a] - distanceMm[b]).find((other) => !isScreened(segments, neighbours, narrow, other, params.chainToleranceMm))
     if (unscreened !== undefined) reported.push(unscreened)
   }
-  const wording = bridgeWording(params)
-  return reported.sort((a, b) => distanceMm[a] - distanceMm[b]).map((slot) => bridgeFinding(narrow, slot, segments.contourOf, params, wording))
+  const groups = bridgeGroups(findings, params)
+  for (const slot of reported.sort((a, b) => distanceMm[a] - distanceMm[b])) addBridgeSite(narrow, slot, segments.contourOf, params, groups)
 }
 
 /**
@@ -117,34 +116,25 @@ function bridgeSites(segments: CutSegments, narrow: NearCutList): Int32Array {
   return parent
 }
 
-/** The parts of the bridge messages that depend only on the params, formatted once for all findings. */
-interface BridgeWording {
-  kerf: string
-  minimum: string
+/**
+ * The four groups of bridges: between two cuts or across a neck of one cut,
+ * narrow (a warning, limit the minimum bridge) or burnt away (an error: the
+ * web is not wider than 0 once the kerf is taken).
+ */
+function bridgeGroups(findings: FindingCollector, params: AnalysisParams): SiteList[] {
+  const facts = { kerfMm: params.kerfMm, thicknessMm: params.thicknessMm, minBridgeMm: params.minBridgeMm }
+  const group = (cause: BridgeCause, burnsAway: boolean) =>
+    findings.group({ code: 'narrow-bridge', severity: burnsAway ? 'error' : 'warning', cause, limitMm: burnsAway ? 0 : params.minBridgeMm, facts, worstFirst: 'smallest' })
+  // Indexed by 2 × (same contour) + (burns away).
+  return [group('between-cuts', false), group('between-cuts', true), group('neck', false), group('neck', true)]
 }
 
-function bridgeWording(params: AnalysisParams): BridgeWording {
-  return { kerf: formatMm(params.kerfMm), minimum: formatMm(params.minBridgeMm) }
-}
+type BridgeCause = 'between-cuts' | 'neck'
 
-function bridgeFinding(narrow: NearCutList, slot: number, contourOf: Uint32Array, params: AnalysisParams, wording: BridgeWording): Finding {
-  const distanceMm = narrow.distanceMm[slot]
-  const widthMm = distanceMm - params.kerfMm
-  const burnsAway = widthMm <= 0
-  const message = burnsAway
-    ? `The cuts here are ${formatMm(distanceMm)} apart, no more than the kerf (${wording.kerf}): the bridge between them burns away and the piece comes loose.`
-    : `The bridge between these cuts is ${formatMm(widthMm)} wide after the kerf; the minimum for this material and cutter is ${wording.minimum}. It may tear or burn through.`
+function addBridgeSite(narrow: NearCutList, slot: number, contourOf: Uint32Array, params: AnalysisParams, groups: SiteList[]): void {
+  const widthMm = narrow.distanceMm[slot] - params.kerfMm
+  const sameContour = narrow.sameContour[slot] === 1
   const { px, py, qx, qy } = narrow.closest(slot)
   const first = contourOf[narrow.first[slot]]
-  const second = contourOf[narrow.second[slot]]
-  return {
-    code: 'narrow-bridge',
-    severity: burnsAway ? 'error' : 'warning',
-    message,
-    x: (px + qx) / 2,
-    y: (py + qy) / 2,
-    valueMm: widthMm,
-    limitMm: params.minBridgeMm,
-    contours: narrow.sameContour[slot] === 1 ? [first] : [first, second],
-  }
+  groups[2 * Number(sameContour) + Number(widthMm <= 0)].add((px + qx) / 2, (py + qy) / 2, widthMm, first, sameContour ? -1 : contourOf[narrow.second[slot]])
 }

@@ -1,7 +1,6 @@
+import type { FindingCollector } from '../findings'
 import type { AnalysisParams } from '../params'
-import type { Finding } from '../result'
 import { cutSegmentsOf } from './cutSegments'
-import { formatMm } from './format'
 import type { CheckGeometry } from './index'
 
 /**
@@ -9,26 +8,16 @@ import type { CheckGeometry } from './index'
  * the diameter when the hole is a circle, otherwise the smaller side of its
  * bounding box.
  */
-export function checkSmallHoles(geometry: CheckGeometry, params: AnalysisParams): Finding[] {
+export function checkSmallHoles(geometry: CheckGeometry, params: AnalysisParams, findings: FindingCollector): void {
   const segments = cutSegmentsOf(geometry)
-  const findings: Finding[] = []
+  const holes = findings.group({ code: 'small-hole', severity: 'warning', limitMm: params.minHoleMm, facts: { thicknessMm: params.thicknessMm }, worstFirst: 'smallest' })
+  const { bounds } = geometry
   for (let contour = 0; contour < geometry.contours.count; contour++) {
     if (segments.materialSide[contour] === 0 || !segments.isHole(contour)) continue
     const sizeMm = holeSizeMm(geometry, contour, params.chordToleranceMm)
     if (sizeMm >= params.minHoleMm) continue
-    const { bounds } = geometry
-    findings.push({
-      code: 'small-hole',
-      severity: 'warning',
-      message: `This hole is ${formatMm(sizeMm)} across; the smallest hole for this material and cutter is ${formatMm(params.minHoleMm)}. It may come out misshapen or not cut through.`,
-      x: (bounds[4 * contour] + bounds[4 * contour + 2]) / 2,
-      y: (bounds[4 * contour + 1] + bounds[4 * contour + 3]) / 2,
-      valueMm: sizeMm,
-      limitMm: params.minHoleMm,
-      contours: [contour],
-    })
+    holes.add((bounds[4 * contour] + bounds[4 * contour + 2]) / 2, (bounds[4 * contour + 1] + bounds[4 * contour + 3]) / 2, sizeMm, contour)
   }
-  return findings
 }
 
 // Rounding slack, relative to the radius, when telling whether points lie on one circle.

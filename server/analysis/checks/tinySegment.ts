@@ -1,7 +1,6 @@
+import type { FindingCollector } from '../findings'
 import type { AnalysisParams } from '../params'
 import { OPERATION_CODES } from '../polylines'
-import type { Finding } from '../result'
-import { formatMm } from './format'
 import type { CheckGeometry } from './index'
 
 /**
@@ -13,22 +12,12 @@ function tinySegmentLimitMm(params: AnalysisParams): number {
   return 2 * params.kerfMm
 }
 
-export function checkTinySegments(geometry: CheckGeometry, params: AnalysisParams): Finding[] {
+export function checkTinySegments(geometry: CheckGeometry, params: AnalysisParams, findings: FindingCollector): void {
   const { contours, bounds } = geometry
   const limitMm = tinySegmentLimitMm(params)
-  const findings: Finding[] = []
+  const dots = findings.group({ code: 'tiny-segment', severity: 'warning', limitMm, facts: { kerfMm: params.kerfMm }, worstFirst: 'smallest' })
   for (let contour = 0; contour < contours.count; contour++) {
     if (contours.operation[contour] === OPERATION_CODES.engrave || contours.lengthMm[contour] >= limitMm) continue
-    findings.push({
-      code: 'tiny-segment',
-      severity: 'warning',
-      message: `A line only ${formatMm(contours.lengthMm[contour])} long: it burns a dot and costs a pierce. Delete it unless it is meant.`,
-      x: (bounds[4 * contour] + bounds[4 * contour + 2]) / 2,
-      y: (bounds[4 * contour + 1] + bounds[4 * contour + 3]) / 2,
-      valueMm: contours.lengthMm[contour],
-      limitMm,
-      contours: [contour],
-    })
+    dots.add((bounds[4 * contour] + bounds[4 * contour + 2]) / 2, (bounds[4 * contour + 1] + bounds[4 * contour + 3]) / 2, contours.lengthMm[contour], contour)
   }
-  return findings
 }

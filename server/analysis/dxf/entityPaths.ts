@@ -5,8 +5,11 @@ import { drawSpline, type SplineDefinition, splineProblem } from './spline'
 
 const FULL_TURN_RAD = 2 * Math.PI
 
-/** What one drawing entity becomes: path data in its own coordinates (with a caveat the member should hear), or why it has none. */
-export type EntityPath = { pathData: string; caveat?: string } | { problem: string } | undefined
+/** Why an entity of a type the reader draws has no path: a LINE without both ends, a 3D mesh, a SPLINE whose numbers describe no curve (`detail` says which). */
+export type EntityProblem = { problem: 'line-without-ends' | '3d-mesh' | 'bad-spline'; detail?: string }
+
+/** What one drawing entity becomes: path data in its own coordinates (`fitPointsOnly`: a SPLINE drawn straight through its fit points, which the member should hear), or why it has none. */
+export type EntityPath = { pathData: string; fitPointsOnly?: boolean } | EntityProblem | undefined
 
 /**
  * Path data for the entity types that draw lines, in the entity's
@@ -19,7 +22,7 @@ export function entityPathData(entity: IEntity, toleranceUnits: number, mirrorX:
   switch (entity.type) {
     case 'LINE': {
       const [start, end] = (entity as ILineEntity).vertices
-      if (!start || !end) return { problem: 'a LINE without both ends' }
+      if (!start || !end) return { problem: 'line-without-ends' }
       path.moveTo(start.x, start.y)
       path.lineTo(end.x, end.y)
       break
@@ -31,7 +34,7 @@ export function entityPathData(entity: IEntity, toleranceUnits: number, mirrorX:
     }
     case 'POLYLINE': {
       const polyline = entity as IPolylineEntity
-      if (polyline.is3dPolygonMesh || polyline.isPolyfaceMesh) return { problem: 'a 3D mesh' }
+      if (polyline.is3dPolygonMesh || polyline.isPolyfaceMesh) return { problem: '3d-mesh' }
       // A spline-fit polyline lists its frame's control points too; the curve is the fitted vertices.
       drawVertices(polyline.vertices.filter((vertex) => !vertex.splineControlPoint), polyline.shape, path)
       break
@@ -99,10 +102,10 @@ function splinePath(entity: RawGroupEntity, toleranceUnits: number, path: PathDa
   }
   if (spline.controlPoints.length === 0 && fitPoints.length >= 2) {
     drawVertices(fitPoints, false, path)
-    return { pathData: path.toString(), caveat: 'A SPLINE given only by fit points is measured as straight lines through them. Export splines with their control points (or as polylines) for an exact length.' }
+    return { pathData: path.toString(), fitPointsOnly: true }
   }
   const problem = splineProblem(spline)
-  if (problem) return { problem: `a SPLINE whose numbers do not describe a curve (${problem})` }
+  if (problem) return { problem: 'bad-spline', detail: problem }
   drawSpline(spline, toleranceUnits, path)
   return { pathData: path.toString() }
 }

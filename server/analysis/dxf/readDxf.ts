@@ -1,9 +1,9 @@
 import type { IDxf, IEntity, IInsertEntity, IPoint } from 'dxf-parser'
 import { AnalysisInputError } from '../errors'
+import type { FindingCollector, GroupSpec, SiteList } from '../findings'
 import { applyX, applyY, type Matrix, multiply, scaling, translation } from '../matrix'
 import type { AnalysisParams } from '../params'
 import type { DrawnElement, ReadDrawing } from '../readSvg'
-import type { Finding } from '../result'
 import { entityPathData } from './entityPaths'
 import { DxfLayers, effectiveLayer, entityColour } from './layers'
 import { colourHex, DxfOperationMapper } from './operationMapping'
@@ -18,12 +18,12 @@ const MAX_VISITED_ENTITIES = 1_000_000
 const PLANAR_EXTRUSION_Z = 1 - 1e-9
 
 /** What DXF entities that draw no cut lines are reported as, like text and images in SVG. */
-const NOT_CUT: Readonly<Record<string, { code: string; message: string }>> = {
-  TEXT: { code: 'text-not-outlined', message: 'Text is not cut. Explode it into lines or polylines in your CAD program (or delete it if it is a note).' },
-  MTEXT: { code: 'text-not-outlined', message: 'Text is not cut. Explode it into lines or polylines in your CAD program (or delete it if it is a note).' },
-  DIMENSION: { code: 'dxf-dimension', message: 'Dimensions are not cut. Delete them, or put them on a layer that is turned off, before exporting.' },
-  HATCH: { code: 'dxf-hatch', message: 'Hatch fills are not cut or engraved. Draw the outline you want cut as lines, or delete the hatch.' },
-  IMAGE: { code: 'raster-image', message: 'A raster image is not cut or engraved. Trace it into lines, or remove it if it is only a reference.' },
+const NOT_CUT: Readonly<Record<string, string>> = {
+  TEXT: 'text-not-outlined',
+  MTEXT: 'text-not-outlined',
+  DIMENSION: 'dxf-dimension',
+  HATCH: 'dxf-hatch',
+  IMAGE: 'raster-image',
 }
 
 interface Pending {
@@ -49,16 +49,17 @@ interface BlockChain {
  * $INSUNITS and mirrors Y (DXF's Y points up, the engine's — like SVG's —
  * down), so a DXF point (x, y) lands at (x, −y) mm: the picture the member
  * drew, not its mirror image, in the SVG frame. INSERTs are expanded with an
- * explicit stack (no recursion), at most MAX_INSERT_DEPTH deep.
+ * explicit stack (no recursion), at most MAX_INSERT_DEPTH deep. What is not
+ * cut is reported as a group per kind with a site per entity; a layer and
+ * colour the mappings lack as a group with a site at its first line.
  */
-export function readDxfDocument(dxf: IDxf, params: AnalysisParams): ReadDrawing {
+export function readDxfDocument(dxf: IDxf, params: AnalysisParams, findings: FindingCollector): ReadDrawing {
   const units = drawingUnits(dxf.header?.$INSUNITS)
   const layers = new DxfLayers(dxf.tables)
   const mapper = new DxfOperationMapper(params)
   const elements: DrawnElement[] = []
-  const findings: Finding[] = units.finding ? [units.finding] : []
-  const notCut = new Map<string, { finding: Finding; count: number }>()
-  const reportedMappings = new Set<string>()
+  if (units.assumed) findings.group({ code: 'dxf-units-assumed', severity: 'warning' }).add(0, 0)
+  const reportedMappings = new Map<string, SiteList>()
   const stack: Pending[] = []
   const pushEntities = (entities: IEntity[] | undefined, matrix: Matrix, context: Omit<Pending, 'entity' | 'matrix'>) => {
     for (let index = (entities?.length ?? 0) - 1; index >= 0; index--) stack.push({ entity: entities![index], matrix, ...context })
@@ -79,7 +80,7 @@ export function readDxfDocument(dxf: IDxf, params: AnalysisParams): ReadDrawing 
     const findingMatrix = matrix ?? parentMatrix
     const at = (point: IPoint | undefined): [number, number] => [applyX(findingMatrix, point?.x ?? 0, point?.y ?? 0), applyY(findingMatrix, point?.x ?? 0, point?.y ?? 0)]
     if (!matrix) {
-      if (!layer.frozen) reportNotCut('dxf-not-planar', 'Entities drawn outside the drawing plane (tilted in 3D) are not cut. Flatten the drawing onto the XY plane in your CAD program.', ...at(firstPointOf(entity)))
+      if (!layer.frozen) reportNotCut({ code: 'dxf-not-planar' }, ...at(firstPointOf(entity)))
       continue
     }
     if (entity.type === 'INSERT') {
@@ -88,30 +89,30 @@ export function readDxfDocument(dxf: IDxf, params: AnalysisParams): ReadDrawing 
       continue
     }
     if (layer.frozen || layer.off) continue
-    const notCutKind = NOT_CUT[entity.type]
-    if (notCutKind) {
-      reportNotCut(notCutKind.code, notCutKind.message, ...at(firstPointOf(entity)))
+    const notCutCode = NOT_CUT[entity.type]
+    if (notCutCode) {
+      reportNotCut({ code: notCutCode }, ...at(firstPointOf(entity)))
       continue
     }
     // A mirroring matrix (DXF's Y flip, a mirrored block or extrusion) is undone in the path data: see PathDataWriter.
     const mirrored = matrix[0] * matrix[3] - matrix[1] * matrix[2] < 0
     const drawn = entityPathData(entity, params.chordToleranceMm / linearScale(matrix), mirrored)
     if (drawn === undefined) {
-      reportNotCut('dxf-entity-not-read', `DXF ${entity.type.slice(0, 20)} entities are not read, so not cut. Explode them into lines, arcs or polylines in your CAD program.`, ...at(firstPointOf(entity)))
+      const entityType = entity.type.slice(0, 20)
+      reportNotCut({ code: 'dxf-entity-not-read', cause: `unsupported-${entityType.toLowerCase()}`, facts: { entityType } }, ...at(firstPointOf(entity)))
       continue
     }
     if ('problem' in drawn) {
-      reportNotCut('dxf-entity-not-read', `The drawing has ${drawn.problem}, which is not cut. Redraw it as lines, arcs or polylines.`, ...at(firstPointOf(entity)))
+      reportNotCut({ code: 'dxf-entity-not-read', cause: drawn.problem, facts: drawn.detail === undefined ? undefined : { detail: drawn.detail } }, ...at(firstPointOf(entity)))
       continue
     }
-    if (drawn.caveat) reportNotCut('dxf-spline-fit-points', drawn.caveat, ...at(firstPointOf(entity)))
+    if (drawn.fitPointsOnly) reportNotCut({ code: 'dxf-spline-fit-points' }, ...at(firstPointOf(entity)))
     const operation = mapper.operationFor(layerName, colour)
     if (operation === undefined) reportUnmapped(layerName, colour, ...at(firstPointOf(entity)))
     const effective = operation ?? params.unmappedStrokeOperation
     if (effective !== 'ignore') elements.push({ pathData: drawn.pathData, matrix: mirrored ? multiply(matrix, scaling(-1, 1)) : matrix, operation: effective, filled: false, fillRule: 'nonzero' })
   }
-  for (const { finding, count } of notCut.values()) findings.push(count > 1 ? { ...finding, message: `${finding.message} (${count} such entities.)` } : finding)
-  return { elements, findings }
+  return { elements }
 
   function expandInsert(insert: IInsertEntity, matrix: Matrix, layerName: string, colour: number, outer: BlockChain | undefined): void {
     const block = dxf.blocks?.[insert.name]
@@ -134,23 +135,21 @@ export function readDxfDocument(dxf: IDxf, params: AnalysisParams): ReadDrawing 
     }
   }
 
-  function reportNotCut(code: string, message: string, x: number, y: number): void {
-    const seen = notCut.get(message)
-    if (seen) seen.count++
-    else notCut.set(message, { finding: { code, severity: 'warning', message, x, y }, count: 1 })
+  function reportNotCut(kind: Pick<GroupSpec, 'code' | 'cause' | 'facts'>, x: number, y: number): void {
+    findings.group({ ...kind, severity: 'warning', facts: { format: 'dxf', ...kind.facts } }).add(x, y)
   }
 
   function reportUnmapped(layerName: string, colour: number, x: number, y: number): void {
-    const label = `layer "${layerName.slice(0, 40)}" in colour ${colourHex(colour)}`
-    if (reportedMappings.has(label)) return
-    reportedMappings.add(label)
-    findings.push({
-      code: 'unmapped-colour',
-      severity: 'warning',
-      message: `Lines on ${label} are in neither the workshop's layer mapping nor its colour mapping; they are counted as "${params.unmappedStrokeOperation}". Use one of the workshop's layer names or colours to choose cut, score or engrave.`,
-      x,
-      y,
-    })
+    const layer = layerName.slice(0, 40)
+    const hex = colourHex(colour)
+    const label = `${layer} ${hex}`
+    let sites = reportedMappings.get(label)
+    if (sites === undefined) {
+      sites = findings.group({ code: 'unmapped-colour', severity: 'warning', cause: label, facts: { format: 'dxf', layer, colour: hex, countedAs: params.unmappedStrokeOperation } })
+      reportedMappings.set(label, sites)
+      sites.add(x, y)
+    }
+    sites.addToFact('lines', 1)
   }
 }
 

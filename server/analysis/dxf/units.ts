@@ -1,5 +1,4 @@
 import { AnalysisInputError } from '../errors'
-import type { Finding } from '../result'
 
 // The international yard and pound agreement (1959): 1 in = 25.4 mm exactly; a foot is 12 in, a yard 36 in, a mil 1/1000 in.
 const MM_PER_INCH = 25.4
@@ -24,27 +23,18 @@ const UNITLESS = 0
 
 export interface DrawingUnits {
   mmPerUnit: number
-  /** Said to the member when the file does not state its units. */
-  finding?: Finding
+  /** The file does not state its units, so millimetres are assumed (the member hears of it). */
+  assumed: boolean
 }
 
-/** The size of one drawing unit in mm from the header's $INSUNITS; unitless or absent counts as mm, with a finding that says so. */
+/** The size of one drawing unit in mm from the header's $INSUNITS; unitless or absent counts as mm (`assumed`). */
 export function drawingUnits(insUnits: unknown): DrawingUnits {
   if (insUnits === undefined || insUnits === UNITLESS) {
-    return {
-      mmPerUnit: 1,
-      finding: {
-        code: 'dxf-units-assumed',
-        severity: 'warning',
-        message: 'The DXF file does not say which units it is drawn in ($INSUNITS is unset), so Kerfbook reads it in millimetres. If it is drawn in inches, set the drawing units in your CAD program and export again.',
-        x: 0,
-        y: 0,
-      },
-    }
+    return { mmPerUnit: 1, assumed: true }
   }
   const mmPerUnit = typeof insUnits === 'number' ? MM_PER_INSUNITS_CODE[insUnits] : undefined
   if (mmPerUnit === undefined) {
     throw new AnalysisInputError('badUnit', `The DXF file is drawn in units Kerfbook does not cut in ($INSUNITS = ${String(insUnits).slice(0, 12)}). Set the drawing units to millimetres, centimetres, metres or inches and export again.`)
   }
-  return { mmPerUnit }
+  return { mmPerUnit, assumed: false }
 }

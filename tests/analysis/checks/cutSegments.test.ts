@@ -47,7 +47,7 @@ describe('near cuts of long diagonal cuts', () => {
     const slits = Array.from({ length: 5 }, (_, index) => `M${10 + index * offsetMm} 10L${110 + index * offsetMm} 110`)
     const bridges = findingsOf('narrow-bridge', slits)
     expect(bridges).toHaveLength(4)
-    for (const bridge of bridges) expect(bridge.valueMm).toBeCloseTo(0.3, 9)
+    for (const bridge of bridges) expect(bridge.valueMm).toBeCloseTo(0.3, 6)
     expect(bridges.map((bridge) => bridge.contours!.join('-')).sort()).toEqual(['0-1', '1-2', '2-3', '3-4'])
   })
 })

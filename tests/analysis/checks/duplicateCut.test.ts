@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest'
+import { sitesOf } from '../sites'
 import { analyse, findingsOf, rectanglePath } from './helpers'
 
 // Hand-worked: a line drawn twice is cut twice; the extra time is its length at cut speed (length ÷ speed).
@@ -7,14 +8,16 @@ const cutSpeed = { kerfMm: 0.2, cutSpeedMmPerMin: 600 }
 describe('duplicate-cut', () => {
   it('reports a 100 mm square drawn twice: 400 mm cut again, 40 s at 600 mm/min', () => {
     const { result } = analyse([rectanglePath(0, 0, 100, 100), rectanglePath(0, 0, 100, 100)], cutSpeed)
-    const duplicates = result.findings.filter((finding) => finding.code === 'duplicate-cut')
+    const duplicates = sitesOf(result, 'duplicate-cut')
     expect(duplicates).toHaveLength(1)
+    expect(duplicates[0].facts.lengthMm).toBeCloseTo(400, 6)
+    expect(duplicates[0].facts.seconds).toBeCloseTo(40, 6)
     expect(duplicates[0].valueMm).toBeCloseTo(400, 6)
     expect(duplicates[0].contours).toEqual([0, 1])
-    expect(result.checks?.duplicateCutLengthMm).toBeCloseTo(400, 6)
-    expect(result.checks?.duplicateCutTimeS).toBeCloseTo(40, 6)
+    expect(result.checks.duplicateCutLengthMm).toBeCloseTo(400, 6)
+    expect(result.checks.duplicateCutTimeS).toBeCloseTo(40, 6)
     // The copies touch everywhere; that is the repeat, not two cuts running into each other.
-    expect(result.findings.filter((finding) => finding.code === 'merged-cuts' || finding.code === 'narrow-bridge')).toEqual([])
+    expect([...sitesOf(result, 'merged-cuts'), ...sitesOf(result, 'narrow-bridge')]).toEqual([])
   })
 
   it('counts a line drawn three times as two extra passes', () => {

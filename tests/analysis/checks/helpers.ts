@@ -1,12 +1,13 @@
-import { analyzeSvgWithGeometry, type AnalysisParams, type Finding, withDefaults } from '../../../server/analysis/index'
+import { analyzeSvgWithGeometry, type AnalysisParams, withDefaults } from '../../../server/analysis/index'
 import { cutPath, mmDocument } from '../helpers'
+import { type SiteRecord, sitesOf } from '../sites'
 
 /** Kerf and limits for the hand-worked cases: 0.2 mm kerf, 1 mm minimum bridge. */
 export const HAND_PARAMS: Partial<AnalysisParams> = { kerfMm: 0.2, minBridgeMm: 1 }
 
-/** Findings of one code for a drawing of cut paths in a 1 mm user-unit document. */
-export function findingsOf(code: string, paths: string[], overrides: Partial<AnalysisParams> = HAND_PARAMS): Finding[] {
-  return analyse(paths, overrides).result.findings.filter((finding) => finding.code === code)
+/** Sites of one code for a drawing of cut paths in a 1 mm user-unit document. */
+export function findingsOf(code: string, paths: string[], overrides: Partial<AnalysisParams> = HAND_PARAMS): SiteRecord[] {
+  return sitesOf(analyse(paths, overrides).result, code)
 }
 
 export function analyse(paths: string[], overrides: Partial<AnalysisParams> = HAND_PARAMS) {

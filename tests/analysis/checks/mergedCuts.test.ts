@@ -7,7 +7,7 @@ describe('merged-cuts', () => {
   it('reports two overlapping rectangles once, naming both', () => {
     const findings = findingsOf('merged-cuts', [rectanglePath(0, 0, 100, 100), rectanglePath(50, 50, 100, 100)])
     expect(findings).toHaveLength(1)
-    expect(findings[0]).toMatchObject({ severity: 'error', contours: [0, 1] })
+    expect(findings[0]).toMatchObject({ severity: 'error', cause: 'touch', contours: [0, 1] })
   })
 
   it('reports a slit that runs into a hole', () => {
@@ -17,7 +17,8 @@ describe('merged-cuts', () => {
   it('reports two parts drawn 0.1 mm apart with a 0.2 mm kerf: web 0.1 − 0.2 = −0.1 mm', () => {
     const [finding, ...rest] = findingsOf('merged-cuts', [rectanglePath(0, 0, 20, 20), rectanglePath(20.1, 0, 20, 20)])
     expect(rest).toEqual([])
-    expect(finding.valueMm).toBeCloseTo(-0.1, 9)
+    expect(finding).toMatchObject({ cause: 'within-kerf', limitMm: 0 })
+    expect(finding.valueMm).toBeCloseTo(-0.1, 6)
   })
 
   it('leaves parts 0.5 mm apart alone (the gap between parts is not a bridge), and does not also report a burnt-away bridge', () => {

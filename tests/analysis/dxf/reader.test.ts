@@ -4,6 +4,7 @@ import { describe, expect, it } from 'vitest'
 import { ACI_RGB } from '../../../server/analysis/dxf/aciColours'
 import { analyzeCutFile, analyzeDxf, analyzeSvg, withDefaults } from '../../../server/analysis/index'
 import { CUT, cutPath, mmDocument } from '../helpers'
+import { groupOf, sitesOf } from '../sites'
 import { arc, circle, dxfDocument, type Group, insert, line, lwPolyline } from './dxfText'
 
 const MM = 4
@@ -30,12 +31,12 @@ describe('$INSUNITS against the exact inch (1 in = 25.4 mm, international yard a
   it.each([[1, 25.4], [4, 1], [5, 10], [6, 1000], [2, 304.8]])('code %d: one unit is %d mm', (code, mmPerUnit) => {
     const result = unitSquare(code)
     expect(result.cut.lengthMm).toBeCloseTo(4 * mmPerUnit, 9)
-    expect(result.findings.some((finding) => finding.code === 'dxf-units-assumed')).toBe(false)
+    expect(groupOf(result, 'dxf-units-assumed')).toBeUndefined()
   })
   it('unitless or unset reads as mm and says so', () => {
     for (const result of [unitSquare(0), unitSquare(undefined)]) {
       expect(result.cut.lengthMm).toBeCloseTo(4, 9)
-      expect(result.findings.find((finding) => finding.code === 'dxf-units-assumed')?.message).toMatch(/millimetres/)
+      expect(groupOf(result, 'dxf-units-assumed')).toMatchObject({ severity: 'warning', count: 1 })
     }
   })
 })
@@ -65,7 +66,7 @@ describe('blocks, layers, colours and what is not cut', () => {
     const result = analyzeDxf(dxfDocument({ insUnits: MM, layers, entities }), mapped)
     expect(result.score.lengthMm).toBeCloseTo(40, 9)
     expect(result.cut.lengthMm).toBeCloseTo(20, 9)
-    expect(result.findings.some((finding) => finding.code === 'unmapped-colour')).toBe(false)
+    expect(groupOf(result, 'unmapped-colour')).toBeUndefined()
   })
 
   it('TEXT, MTEXT, DIMENSION, HATCH and IMAGE become findings, not cuts', () => {
@@ -79,9 +80,11 @@ describe('blocks, layers, colours and what is not cut', () => {
     ]
     const result = analyzeDxf(dxfDocument({ insUnits: MM, entities }), params)
     expect(Math.abs(result.cut.lengthMm / (2 * Math.PI * 10) - 1)).toBeLessThan(1e-5)
-    const codes = result.findings.map((finding) => finding.code)
+    const codes = result.findingGroups.map((group) => group.code)
     for (const code of ['text-not-outlined', 'dxf-dimension', 'dxf-hatch', 'raster-image']) expect(codes).toContain(code)
-    expect(result.findings.find((finding) => finding.code === 'raster-image')).toMatchObject({ x: 5, y: -5 })
+    // TEXT and MTEXT: one group, a site each.
+    expect(groupOf(result, 'text-not-outlined')).toMatchObject({ count: 2, facts: { format: 'dxf' } })
+    expect(sitesOf(result, 'raster-image')).toMatchObject([{ x: 5, y: -5 }])
   })
 
   it('every ACI colour matches the one dxf-parser itself gives an entity', () => {

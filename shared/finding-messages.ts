@@ -1,0 +1,239 @@
+// What a member reads about a finding group: made at display time from the group's code, cause, count,
+// statistics and facts (the engine stores numbers, never sentences), so one wording serves every page.
+import type { FindingGroup } from './finding-groups'
+
+export const FINDING_TITLES: Record<string, string> = {
+  'narrow-bridge': 'Bridge too narrow',
+  'merged-cuts': 'Cuts run into each other',
+  'small-hole': 'Hole too small',
+  'duplicate-cut': 'Cut twice',
+  'open-contour': 'Open line',
+  'tiny-segment': 'Tiny segment',
+  'self-intersection': 'Line crosses itself',
+  'outside-sheet': 'Outside the sheet',
+  'text-not-outlined': 'Text not converted to paths',
+  'raster-image': 'Picture in the file',
+  'unmapped-colour': 'Unknown line colour',
+  'material-not-allowed': 'Material not allowed',
+  'too-thick': 'Material too thick',
+  'dxf-units-assumed': 'Drawing units not stated',
+  'dxf-dimension': 'Dimensions in the file',
+  'dxf-hatch': 'Hatch fill in the file',
+  'dxf-entity-not-read': 'Drawing element not read',
+  'dxf-spline-fit-points': 'Curve given by fit points',
+  'dxf-not-planar': 'Drawn outside the flat plane',
+}
+
+export function findingTitle(code: string): string {
+  return FINDING_TITLES[code] ?? code
+}
+
+export interface GroupDescription {
+  title: string
+  /** One sentence: how many, what, and the measured range against the limit. */
+  headline: string
+  /** What it means and what to do. */
+  advice: string
+}
+
+type Described = Pick<FindingGroup, 'code' | 'cause' | 'count' | 'facts' | 'stats'>
+
+/** A length as members read it: two decimals and the unit. */
+export function formatMm(valueMm: number): string {
+  return `${valueMm.toFixed(2)} mm`
+}
+
+/** A count with its thousands set apart by a no-break space (22 500). */
+export function formatCount(count: number): string {
+  return String(Math.round(count)).replace(/\B(?=(\d{3})+(?!\d))/g, '\u00a0')
+}
+
+/** "1.50–1.62 mm", or one length when both ends read the same. */
+export function formatRangeMm(fromMm: number, toMm: number): string {
+  const from = fromMm.toFixed(2)
+  const to = toMm.toFixed(2)
+  return from === to ? `${from} mm` : `${from}–${to} mm`
+}
+
+/** "1 bridge", "22 500 bridges". */
+function counted(count: number, singular: string, plural: string): string {
+  return `${formatCount(count)} ${count === 1 ? singular : plural}`
+}
+
+const isOrAre = (count: number) => (count === 1 ? 'is' : 'are')
+
+/** Message, headline and advice of a group in plain words, from its facts. */
+export function describeGroup(group: Described): GroupDescription {
+  const title = findingTitle(group.code)
+  const words = WORDING[group.code]?.(group, new Facts(group)) ?? { headline: `${formatCount(group.count)} × ${title}`, advice: '' }
+  return { title, ...words }
+}
+
+/** The line for one site of a group: its measured value in the group's terms, or '' when the site has none (no words that are not a number). */
+export function describeSite(group: Pick<FindingGroup, 'code' | 'cause' | 'facts'>, value: number): string {
+  if (!Number.isFinite(value)) return ''
+  const facts = new Facts(group)
+  switch (group.code) {
+    case 'narrow-bridge':
+      return value <= 0 ? `${formatMm(value + facts.number('kerfMm'))} apart (kerf ${formatMm(facts.number('kerfMm'))})` : `${formatMm(value)} wide (limit ${formatMm(facts.number('limitMm'))})`
+    case 'merged-cuts':
+      return `${formatMm(Math.max(0, value + facts.number('kerfMm')))} apart (kerf ${formatMm(facts.number('kerfMm'))})`
+    case 'small-hole':
+      return `${formatMm(value)} across (limit ${formatMm(facts.number('limitMm'))})`
+    case 'tiny-segment':
+      return `${formatMm(value)} long (limit ${formatMm(facts.number('limitMm'))})`
+    case 'duplicate-cut':
+      return `${formatMm(value)} drawn twice`
+    case 'open-contour':
+      return `ends ${formatMm(value)} apart`
+    case 'outside-sheet':
+      return `${formatMm(value)} (usable ${formatMm(facts.number('limitMm'))})`
+    case 'too-thick':
+      return `${formatMm(value)} thick (limit ${formatMm(facts.number('limitMm'))})`
+    default:
+      return formatMm(value)
+  }
+}
+
+/** Reads a group's facts; a missing number reads NaN, so a wrong fact shows rather than hides. */
+class Facts {
+  constructor(private readonly group: Pick<FindingGroup, 'facts'>) {}
+  number(name: string): number {
+    const value = this.group.facts[name]
+    return typeof value === 'number' ? value : Number.NaN
+  }
+  mm(name: string): string {
+    return formatMm(this.number(name))
+  }
+  text(name: string): string {
+    const value = this.group.facts[name]
+    return value === undefined ? '' : String(value)
+  }
+}
+
+type Wording = (group: Described, facts: Facts) => Omit<GroupDescription, 'title'>
+
+/** The measured range of the group's values, shifted (a web plus the kerf is the distance between the cuts). */
+function range(group: Described, shiftMm = 0): string {
+  return group.stats ? formatRangeMm(group.stats.min + shiftMm, group.stats.max + shiftMm) : ''
+}
+
+const dxfOrSvg = (facts: Facts, svg: string, dxf: string) => (facts.text('format') === 'dxf' ? dxf : svg)
+
+const WORDING: Record<string, Wording> = {
+  'narrow-bridge': (group, facts) => {
+    const { count } = group
+    const what = group.cause === 'neck' ? counted(count, 'neck within one cut', 'necks within single cuts') : counted(count, 'bridge between cuts', 'bridges between cuts')
+    if (facts.number('limitMm') === 0) {
+      return {
+        headline: `${what} ${count === 1 ? 'burns' : 'burn'} away: the cuts are ${range(group, facts.number('kerfMm'))} apart, no more than the kerf (${facts.mm('kerfMm')})`,
+        advice: `The material between them is cut away and the piece comes loose. Keep the cuts at least ${formatMm(facts.number('kerfMm') + facts.number('minBridgeMm'))} apart (kerf plus the minimum bridge).`,
+      }
+    }
+    return {
+      headline: `${what} ${isOrAre(count)} ${range(group)} wide after the kerf (limit ${facts.mm('limitMm')})`,
+      advice: `The minimum bridge for ${facts.mm('thicknessMm')} material on this cutter is ${facts.mm('limitMm')}; narrower ones may tear or burn through. Move the cuts apart, or choose the thinner material the pattern may be drawn for.`,
+    }
+  },
+  'merged-cuts': (group, facts) =>
+    group.cause === 'touch'
+      ? {
+          headline: `${counted(group.count, 'pair', 'pairs')} of separate cuts cross or meet`,
+          advice: 'The piece between them may drop out. Join them into one outline or move them apart.',
+        }
+      : {
+          headline: `${counted(group.count, 'pair', 'pairs')} of separate cuts come ${range(group, facts.number('kerfMm'))} apart, within the kerf (${facts.mm('kerfMm')})`,
+          advice: 'After cutting they run into each other. Move them apart or join them into one outline.',
+        },
+  'self-intersection': (group) => ({
+    headline: `${counted(group.count, 'cut crosses or touches itself', 'cuts cross or touch themselves')}`,
+    advice: 'The machine follows them as drawn, but which piece drops out is unclear. Redraw each as one outline that does not cross.',
+  }),
+  'duplicate-cut': (group, facts) => ({
+    headline: `${counted(group.count, 'line is', 'lines are')} drawn twice: ${facts.mm('lengthMm')} in all, about ${facts.number('seconds').toFixed(1)} s more cutting`,
+    advice: `Lines within ${facts.mm('toleranceMm')} of each other are cut twice, which leaves burn marks. Delete the copies.`,
+  }),
+  'small-hole': (group, facts) => ({
+    headline: `${counted(group.count, 'hole', 'holes')} ${isOrAre(group.count)} ${range(group)} across (smallest for ${facts.mm('thicknessMm')} material: ${facts.mm('limitMm')})`,
+    advice: 'Holes this small may come out misshapen or not cut through. Make them larger or leave them out.',
+  }),
+  'tiny-segment': (group, facts) => ({
+    headline: `${counted(group.count, 'line is', 'lines are')} only ${range(group)} long (under ${facts.mm('limitMm')}, twice the kerf)`,
+    advice: 'Each burns a dot and costs a pierce. Delete them unless they are meant.',
+  }),
+  'open-contour': (group, facts) =>
+    group.cause === 'nearly-closed'
+      ? {
+          headline: `${counted(group.count, 'outline is', 'outlines are')} open, ${group.count === 1 ? 'its' : 'their'} ends only ${range(group)} apart`,
+          advice: `An open outline is cut as a line and nothing drops out. Close it if it should be a shape (ends closer than ${facts.mm('chainToleranceMm')} are joined).`,
+        }
+      : {
+          headline: `${counted(group.count, 'open cut', 'open cuts')} (slits)`,
+          advice: 'Cut as lines; nothing drops out. That is usual for slits and fold patterns.',
+        },
+  'outside-sheet': (group, facts) => ({
+    headline: `The drawing is ${facts.mm('drawingWidthMm')} × ${facts.mm('drawingHeightMm')}; ${group.cause === 'beyond-bed' ? "the cutter's bed" : 'the chosen sheet'} leaves ${facts.mm('usableWidthMm')} × ${facts.mm('usableHeightMm')} after the ${facts.mm('marginMm')} margin`,
+    advice: `It does not fit either way round: ${counted(facts.number('linesOutside'), 'line lies', 'lines lie')} beyond. Make the drawing smaller or split it${group.cause === 'beyond-bed' ? '' : ', or choose a larger sheet'}.`,
+  }),
+  'material-not-allowed': (_group, facts) => ({
+    headline: 'This material may not be cut on this cutter',
+    advice: facts.text('reason'),
+  }),
+  'too-thick': (_group, facts) => ({
+    headline: `The material is ${facts.mm('thicknessMm')} thick; this cutter cuts at most ${facts.mm('limitMm')}`,
+    advice: 'Choose thinner material or another cutter.',
+  }),
+  'text-not-outlined': (group, facts) => ({
+    headline: `${dxfOrSvg(facts, counted(group.count, 'text element', 'text elements'), counted(group.count, 'text entity', 'text entities'))} not converted to ${dxfOrSvg(facts, 'paths', 'lines')}`,
+    advice: dxfOrSvg(facts, 'Text is not cut. Convert the text to outlines (paths) in your drawing program.', 'Text is not cut. Explode it into lines or polylines in your CAD program (or delete it if it is a note).'),
+  }),
+  'raster-image': (group, facts) => ({
+    headline: `${counted(group.count, 'raster image', 'raster images')} in the file`,
+    advice: `A raster image is not cut or engraved. Trace it into ${dxfOrSvg(facts, 'paths', 'lines')}, or remove it if it is only a reference.`,
+  }),
+  'unmapped-colour': (_group, facts) => {
+    const lines = facts.number('lines')
+    const countedAs = `They are counted as "${facts.text('countedAs')}".`
+    if (facts.text('format') === 'dxf') {
+      return {
+        headline: `${counted(lines, 'line', 'lines')} on layer "${facts.text('layer')}" in colour ${facts.text('colour')} ${lines === 1 ? 'is' : 'are'} in neither the workshop's layer mapping nor its colour mapping`,
+        advice: `${countedAs} Use one of the workshop's layer names or colours to choose cut, score or engrave.`,
+      }
+    }
+    const colour = facts.text('colour')
+    return {
+      headline: `${counted(lines, 'line', 'lines')} drawn in ${colour.startsWith('#') ? `colour ${colour}` : `"${colour}"`} ${lines === 1 ? 'is' : 'are'} not in the workshop's colour mapping`,
+      advice: `${countedAs} Use one of the workshop's colours to choose cut, score or engrave.`,
+    }
+  },
+  'dxf-units-assumed': () => ({
+    headline: 'The DXF file does not say which units it is drawn in, so it is read in millimetres',
+    advice: 'If it is drawn in inches, set the drawing units in your CAD program ($INSUNITS) and export again.',
+  }),
+  'dxf-dimension': (group) => ({
+    headline: `${counted(group.count, 'dimension', 'dimensions')} not cut`,
+    advice: 'Delete them, or put them on a layer that is turned off, before exporting.',
+  }),
+  'dxf-hatch': (group) => ({
+    headline: `${counted(group.count, 'hatch fill', 'hatch fills')} not cut or engraved`,
+    advice: 'Draw the outline you want cut as lines, or delete the hatch.',
+  }),
+  'dxf-entity-not-read': (group, facts) => {
+    const redraw = 'Redraw them as lines, arcs or polylines.'
+    if (group.cause === 'line-without-ends') return { headline: `${counted(group.count, 'LINE', 'LINEs')} without both ends, not cut`, advice: redraw }
+    if (group.cause === '3d-mesh') return { headline: `${counted(group.count, '3D mesh', '3D meshes')} not cut`, advice: redraw }
+    if (group.cause === 'bad-spline') return { headline: `${counted(group.count, 'SPLINE', 'SPLINEs')} whose numbers do not describe a curve (${facts.text('detail')}), not cut`, advice: redraw }
+    return {
+      headline: `${counted(group.count, `DXF ${facts.text('entityType')} entity`, `DXF ${facts.text('entityType')} entities`)} not read, so not cut`,
+      advice: 'Explode them into lines, arcs or polylines in your CAD program.',
+    }
+  },
+  'dxf-spline-fit-points': (group) => ({
+    headline: `${counted(group.count, 'SPLINE is', 'SPLINEs are')} given only by fit points and measured as straight lines through them`,
+    advice: 'Export splines with their control points (or as polylines) for an exact length.',
+  }),
+  'dxf-not-planar': (group) => ({
+    headline: `${counted(group.count, 'entity is', 'entities are')} drawn outside the drawing plane (tilted in 3D) and not cut`,
+    advice: 'Flatten the drawing onto the XY plane in your CAD program.',
+  }),
+}

@@ -1,0 +1,103 @@
+import { describe, expect, it } from 'vitest'
+import type { FindingGroup } from '../../shared/finding-groups'
+import { describeGroup, describeSite, FINDING_TITLES, findingTitle, formatCount, formatRangeMm } from '../../shared/finding-messages'
+import { analyzeSvg, withDefaults } from '../../server/analysis/index'
+import { cutPath, mmDocument } from '../analysis/helpers'
+
+const NBSP = '\u00a0'
+
+function group(fields: Partial<FindingGroup> & Pick<FindingGroup, 'code'>): FindingGroup {
+  return { key: '', severity: 'warning', cause: '', count: 1, facts: {}, stats: null, box: [0, 0, 0, 0], firstSite: 0, ...fields }
+}
+
+const stats = (min: number, max: number) => ({ min, median: (min + max) / 2, max, histogram: { fromMm: min, toMm: max, counts: [1] } })
+
+describe('numbers in messages', () => {
+  it('sets thousands apart and gives a range, or one length when both ends read the same', () => {
+    expect(formatCount(22500)).toBe(`22${NBSP}500`)
+    expect(formatCount(1234567)).toBe(`1${NBSP}234${NBSP}567`)
+    expect(formatCount(999)).toBe('999')
+    expect(formatRangeMm(1.5, 1.62)).toBe('1.50–1.62 mm')
+    expect(formatRangeMm(0.6, 0.6001)).toBe('0.60 mm')
+  })
+})
+
+describe('describeGroup', () => {
+  it('says how many bridges, how wide after the kerf and the limit', () => {
+    const bridges = group({ code: 'narrow-bridge', cause: 'between-cuts', count: 22500, facts: { limitMm: 3, kerfMm: 0.2, thicknessMm: 6, minBridgeMm: 3 }, stats: stats(1.5, 1.62) })
+    const { title, headline, advice } = describeGroup(bridges)
+    expect(title).toBe('Bridge too narrow')
+    expect(headline).toBe(`22${NBSP}500 bridges between cuts are 1.50–1.62 mm wide after the kerf (limit 3.00 mm)`)
+    expect(advice).toContain('6.00 mm material')
+  })
+
+  it('uses the singular for one, and tells a neck from a bridge between cuts', () => {
+    const neck = group({ code: 'narrow-bridge', cause: 'neck', count: 1, facts: { limitMm: 1, kerfMm: 0.2, thicknessMm: 2, minBridgeMm: 1 }, stats: stats(0.8, 0.8) })
+    expect(describeGroup(neck).headline).toBe('1 neck within one cut is 0.80 mm wide after the kerf (limit 1.00 mm)')
+  })
+
+  it('gives burnt-away bridges as the distance between the cuts against the kerf', () => {
+    const burnt = group({ code: 'narrow-bridge', severity: 'error', cause: 'between-cuts', count: 2, facts: { limitMm: 0, kerfMm: 0.2, thicknessMm: 3, minBridgeMm: 1.5 }, stats: stats(-0.1, -0.05) })
+    const { headline, advice } = describeGroup(burnt)
+    expect(headline).toBe('2 bridges between cuts burn away: the cuts are 0.10–0.15 mm apart, no more than the kerf (0.20 mm)')
+    expect(advice).toContain('1.70 mm apart')
+  })
+
+  it('makes the sheet message from the drawing and usable sizes, the margin and the count of lines beyond', () => {
+    const sheet = group({ code: 'outside-sheet', cause: 'beyond-sheet', facts: { limitMm: 590, drawingWidthMm: 800, drawingHeightMm: 100, usableWidthMm: 590, usableHeightMm: 390, marginMm: 5, linesOutside: 3 } })
+    const { headline, advice } = describeGroup(sheet)
+    expect(headline).toBe('The drawing is 800.00 mm × 100.00 mm; the chosen sheet leaves 590.00 mm × 390.00 mm after the 5.00 mm margin')
+    expect(advice).toContain('3 lines lie beyond')
+  })
+
+  it("passes on a material's refusal reason as staff wrote it", () => {
+    const reason = 'This plastic gives off a corrosive gas when heated.'
+    expect(describeGroup(group({ code: 'material-not-allowed', severity: 'error', facts: { reason } })).advice).toBe(reason)
+  })
+
+  it('names the colour and the lines drawn in it, and the layer for DXF', () => {
+    expect(describeGroup(group({ code: 'unmapped-colour', cause: '#123456', facts: { format: 'svg', colour: '#123456', countedAs: 'cut', lines: 2 } })).headline).toBe(
+      "2 lines drawn in colour #123456 are not in the workshop's colour mapping",
+    )
+    expect(describeGroup(group({ code: 'unmapped-colour', facts: { format: 'dxf', layer: 'PARTS', colour: '#ff0000', countedAs: 'cut', lines: 1 } })).headline).toContain('1 line on layer "PARTS" in colour #ff0000 is')
+  })
+
+  it('gives duplicate lines with their total length and seconds', () => {
+    const duplicates = group({ code: 'duplicate-cut', count: 2, facts: { toleranceMm: 0.02, lengthMm: 400, seconds: 40 } })
+    expect(describeGroup(duplicates).headline).toBe('2 lines are drawn twice: 400.00 mm in all, about 40.0 s more cutting')
+  })
+
+  it('has a title and a headline with the count for every code the engine reports', () => {
+    for (const code of Object.keys(FINDING_TITLES)) {
+      const facts = { limitMm: 1, kerfMm: 0.2, thicknessMm: 3, lengthMm: 1, seconds: 1, toleranceMm: 0.01, lines: 7, chainToleranceMm: 0.01, reason: 'Not on this cutter.' }
+      const sizes = { drawingWidthMm: 800, drawingHeightMm: 100, usableWidthMm: 590, usableHeightMm: 390, marginMm: 5, linesOutside: 3 }
+      const { title, headline, advice } = describeGroup(group({ code, count: 7, facts: { ...facts, ...sizes }, stats: stats(0.5, 0.9) }))
+      expect(title).toBe(findingTitle(code))
+      expect(headline.length, code).toBeGreaterThan(10)
+      expect(headline, code).not.toContain('NaN')
+      expect(advice.length, code).toBeGreaterThan(10)
+    }
+    expect(describeGroup(group({ code: 'something-new', count: 3 })).headline).toBe('3 × something-new')
+  })
+})
+
+describe('describeSite', () => {
+  it('gives a site its number only', () => {
+    const bridges = group({ code: 'narrow-bridge', cause: 'between-cuts', facts: { limitMm: 3, kerfMm: 0.2 } })
+    expect(describeSite(bridges, 1.523)).toBe('1.52 mm wide (limit 3.00 mm)')
+    expect(describeSite(bridges, -0.05)).toBe('0.15 mm apart (kerf 0.20 mm)')
+    expect(describeSite(group({ code: 'small-hole', facts: { limitMm: 3 } }), 1)).toBe('1.00 mm across (limit 3.00 mm)')
+    expect(describeSite(group({ code: 'open-contour', cause: 'slit' }), Number.NaN)).toBe('')
+  })
+})
+
+describe('messages of engine groups', () => {
+  it('describes what the engine found on a drawing with narrow bridges and slits', () => {
+    const body = ['M10 10H60', 'M10 11H60', 'M10 30H60', 'M10 31.1H60'].map((d) => cutPath(d)).join('')
+    const result = analyzeSvg(mmDocument(body), withDefaults({ kerfMm: 0.2, minBridgeMm: 1.5, thicknessMm: 3 }))
+    expect(result.findingGroups.map((found) => describeGroup(found).headline)).toEqual([
+      '2 bridges between cuts are 0.80–0.90 mm wide after the kerf (limit 1.50 mm)',
+      '4 open cuts (slits)',
+    ])
+  })
+})
