@@ -14,7 +14,7 @@ export default defineApiHandler(async (event) => {
       ? await analysisParamsFor(useDb(), { cutterId: input.cutterId, materialId: input.materialId, sheetId: input.sheetId })
       : withDefaults()
   if (input.dpi) params.dpi = input.dpi
-  const { result, geometryGz, sitesGz } = await analyzeInWorker(upload.svgText, params, { ownerKey: `user:${user.id}`, format: upload.format, label: upload.filename })
+  const { result, geometryGz, sitesGz } = await analyzeInWorker(upload.svgText, params, { ownerKey: analysisOwnerKey(user), format: upload.format, label: upload.filename, signal: upload.closed })
   const answer = { ...result, counts: countGroups(result.findingGroups) }
   if (input.preview !== '1') return answer
   return { ...answer, geometryGz: Buffer.from(geometryGz).toString('base64'), sitesGz: Buffer.from(sitesGz).toString('base64') }

@@ -2,7 +2,7 @@ import type { Knex } from 'knex'
 import { MAX_FILES_PER_JOB } from '#shared/schemas/jobs'
 import type { SessionUser } from '#shared/roles'
 import { countGroups, worstSeverity } from '#shared/finding-groups'
-import { analyzeInWorker, type PackedAnalysis } from '../utils/analysis-pool'
+import { analysisOwnerKey, analyzeInWorker, type PackedAnalysis } from '../utils/analysis-pool'
 import type { CutFileUpload } from '../utils/cut-file-upload'
 import { Conflict, NotFound } from '../utils/errors'
 import { nowIso } from '../utils/rows'
@@ -14,7 +14,7 @@ import { summaryColumns, type StoredAnalysis } from './revision-summary'
 /** Analyses with the job's process in the fair worker queue and stores the file before its row, so a row never lacks its file. */
 async function analyseAndStore(db: Knex, job: JobRow, upload: CutFileUpload, uploader: SessionUser): Promise<StoredRevision> {
   const params = await analysisParamsFor(db, { cutterId: job.cutter_id, materialId: job.material_id, sheetId: job.sheet_id })
-  const packed = await analyzeInWorker(upload.svgText, params, { ownerKey: `user:${uploader.id}`, format: upload.format, label: upload.filename })
+  const packed = await analyzeInWorker(upload.svgText, params, { ownerKey: analysisOwnerKey(uploader), format: upload.format, label: upload.filename, signal: upload.closed })
   const sha256 = storeUpload(upload.svgText)
   return { packed, sha256 }
 }
