@@ -4,6 +4,7 @@
 // sheet's edge), is the hinge that bends — drawn narrow on purpose: with the default 1.7 mm gap it is
 // 1.5 mm after a 0.2 mm kerf, where 3 mm plywood asks for 3 mm. Written the way a drawing program
 // exports it: element ids, absolute coordinates with three decimals.
+import { seededRandom } from './seeded-random'
 
 export interface FoldSheetOptions {
   unitsAcross: number
@@ -44,18 +45,6 @@ const RADIUS_JITTER_MM = 0.1
 
 /** Three decimals, as drawing programs write coordinates. */
 const mm = (value: number) => value.toFixed(3)
-
-/** A small deterministic generator in [0, 1) (mulberry32), so a seed always draws the same sheet. */
-function seededRandom(seed: number): () => number {
-  let state = seed >>> 0
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0
-    let t = state
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
-}
 
 export function foldSheet(options: FoldSheetOptions): FoldSheet {
   const { unitsAcross, unitsDown } = options

@@ -1,31 +1,13 @@
-import { countGroups, type FindingCounts, type FindingGroup } from '#shared/finding-groups'
+import { countGroups, type FindingCounts } from '#shared/finding-groups'
+import type { AnalysisResult } from '../analysis/index'
 
 // What lists, queues and estimates read of a revision, written into columns once when it is stored, so
 // none of them parses a stored analysis (whose finding groups and geometry are kept apart).
 
 /** The small part of the engine's result that is kept as JSON: everything but the site table. */
-export interface StoredAnalysis {
-  bbox: { x: number; y: number; width: number; height: number }
-  cut: { lengthMm: number; pierces: number; closedContours: number; openContours: number }
-  score: { lengthMm: number }
-  engrave: { areaMm2: number }
-  travelMm: number
-  time: RevisionTime
-  billableMinutes: number
-  sheet: { fits: boolean; rotated: boolean; copies: number; fitsBed: boolean }
-  findingGroups: FindingGroup[]
-  checks?: { narrowBridgeSites: number; narrowestBridgeMm: number | null; duplicateCutLengthMm: number; duplicateCutTimeS: number }
-}
+export type StoredAnalysis = Omit<AnalysisResult, 'sites'>
 
-export interface RevisionTime {
-  cutS: number
-  scoreS: number
-  engraveS: number
-  pierceS: number
-  travelS: number
-  setupS: number
-  totalS: number
-}
+export type RevisionTime = AnalysisResult['time']
 
 /** A revision's figures as the summary columns hold them. */
 export interface RevisionFigures {
