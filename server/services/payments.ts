@@ -47,11 +47,21 @@ class PaymentServiceError extends DomainError {
 
 /** Records one money event once: a second report of the same event (same key) changes nothing. */
 async function record(db: Knex, booking: PaidBooking, entry: { kind: LedgerKind; amountMinor: number; currency: string; objectId: string; key: string; note?: string }): Promise<boolean> {
-  const inserted = await db('payment_ledger')
-    .insert({ booking_id: booking.id, job_id: booking.job_id, member_id: booking.member_id, kind: entry.kind, amount_minor: entry.amountMinor, currency: entry.currency, stripe_object_id: entry.objectId, ledger_key: entry.key, note: entry.note ?? '' })
-    .onConflict('ledger_key')
-    .ignore()
-  return (inserted as number[]).length > 0 && (inserted as number[])[0] !== 0
+  return insertedNow(
+    db('payment_ledger')
+      .insert({ booking_id: booking.id, job_id: booking.job_id, member_id: booking.member_id, kind: entry.kind, amount_minor: entry.amountMinor, currency: entry.currency, stripe_object_id: entry.objectId, ledger_key: entry.key, note: entry.note ?? '' })
+      .onConflict('ledger_key')
+      .ignore(),
+  )
+}
+
+/**
+ * True when an insert … on conflict ignore added its row. The driver's insert id can't tell: when nothing is
+ * inserted it reports the connection's previous row id. RETURNING yields a row only for a row written now.
+ */
+async function insertedNow(insert: Knex.QueryBuilder): Promise<boolean> {
+  const rows = await insert.returning('id')
+  return rows.length > 0
 }
 
 /** The booking's payment state, derived from its ledger only. */
@@ -272,8 +282,7 @@ export async function refundBooking(db: Knex, staff: SessionUser, bookingId: num
 
 /** A webhook event, verified by the route. Returns what changed, for receipts. */
 export async function handleStripeEvent(db: Knex, event: Stripe.Event): Promise<{ booking: PaidBooking; newKinds: LedgerKind[] } | null> {
-  const fresh = await db('stripe_events').insert({ id: event.id, type: event.type }).onConflict('id').ignore()
-  const firstTime = (fresh as number[]).length > 0 && (fresh as number[])[0] !== 0
+  const firstTime = await insertedNow(db('stripe_events').insert({ id: event.id, type: event.type }).onConflict('id').ignore())
   const object = event.data.object as { object: string; id: string; payment_intent?: string | Stripe.PaymentIntent | null }
   let intentId: string | null = null
   if (object.object === 'payment_intent') intentId = object.id

@@ -28,3 +28,12 @@ export async function waitForPaymentState(member: Client, bookingId: number, sta
   }
   throw new Error(`booking ${bookingId} stayed ${last?.state} instead of ${state}`)
 }
+
+/** How many messages to `to` whose subject matches the SMTP sink holds now. */
+export async function countMail(to: string, subject: RegExp): Promise<number> {
+  const messages = (await (await fetch(`${inject('outboxUrl')}/messages`)).json()) as { to: string[]; subject: string }[]
+  return messages.filter((m) => m.to.includes(to) && subject.test(m.subject)).length
+}
+
+/** Lets webhook deliveries and mails still under way arrive before a count. */
+export const settle = (ms = 1500) => new Promise((r) => setTimeout(r, ms))

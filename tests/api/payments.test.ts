@@ -3,7 +3,7 @@ import Stripe from 'stripe'
 import { beforeAll, describe, expect, inject, it } from 'vitest'
 import { stripeSignatureHeader } from '../../scripts/lib/stripe-fake/index'
 import { plainPart } from '../fixtures/svg'
-import { CARD_ASKS_TO_CONFIRM, CARD_DECLINED, payCheckout, waitForPaymentState } from './payment-helpers'
+import { CARD_ASKS_TO_CONFIRM, CARD_DECLINED, countMail, payCheckout, settle, waitForPaymentState } from './payment-helpers'
 import { waitForMail } from './helpers'
 import { bookingBench, type BookingBench } from './workshop-setup'
 
@@ -183,5 +183,38 @@ describe('webhooks', () => {
       expect(response.status).toBe(200)
     }
     expect(ledger(booking.id)).toHaveLength(1)
+  })
+
+  it('mails each money event once: one "Payment received", one receipt, and nothing for ten replays', async () => {
+    const member = 'member@example.test'
+    const received = /Payment received/
+    const receipt = /Receipt for your cut/
+    const before = { received: await countMail(member, received), receipt: await countMail(member, receipt) }
+    const { jobId, booking } = await bookedJob('Mailed once')
+    await payCheckout(booking.checkoutUrl)
+    await waitForPaymentState(bench.member, booking.id, 'authorised')
+    await settle()
+    expect(await countMail(member, received)).toBe(before.received + 1)
+
+    await bench.staff.post(`/api/jobs/${jobId}/start`)
+    expect((await bench.staff.post(`/api/jobs/${jobId}/finish`, { actualMinutes: 3 })).status).toBe(200)
+    await waitForPaymentState(bench.member, booking.id, 'captured')
+    await settle()
+    expect(await countMail(member, receipt)).toBe(before.receipt + 1)
+    expect(await countMail(member, received)).toBe(before.received + 1)
+
+    // Every event Stripe sent about this booking, delivered again ten times: the ledger and the mailbox stay as they are.
+    const all = await countMail(member, /./)
+    const events = (await stripe().events.list({ limit: 100 })).data.filter((e) => (e.data.object as { metadata?: Record<string, string> }).metadata?.bookingId === String(booking.id))
+    expect(events.length).toBeGreaterThanOrEqual(3)
+    for (let i = 0; i < 10; i++) {
+      for (const event of events) {
+        const payload = JSON.stringify(event)
+        expect((await post(payload, stripeSignatureHeader(payload, inject('stripeWebhookSecret'), Math.floor(Date.now() / 1000)))).status).toBe(200)
+      }
+    }
+    await settle()
+    expect(await countMail(member, /./)).toBe(all)
+    expect(ledger(booking.id).map((r) => r.kind)).toEqual(['authorised', 'captured'])
   })
 })
