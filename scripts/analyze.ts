@@ -21,7 +21,7 @@ const NUMBER_OPTIONS = {
 
 const HELP = `Usage: npm run analyze -- FILE.svg|FILE.dxf [--json] [options]
 
-Measures an SVG or ASCII DXF cut pattern (the content, not the name, tells which) and estimates machine time, price and sheet fit.
+Measures an SVG or ASCII DXF cut pattern (the content, not the name, tells which) and estimates machine time and sheet fit (prices are the server's).
 Findings are printed as groups (one per kind, cause and limit) with their count, range and first sites.
 With --json, prints exactly the result JSON on stdout (the site table's typed arrays as plain arrays).
 
@@ -117,8 +117,6 @@ function readableReport(result: AnalysisResult): string {
     ['Engrave area', `${result.engrave.areaMm2.toFixed(1)} mm²`],
     ['Travel', mm(result.travelMm)],
     ['Time', `${seconds(result.time.totalS)} (cut ${seconds(result.time.cutS)}, score ${seconds(result.time.scoreS)}, engrave ${seconds(result.time.engraveS)}, pierce ${seconds(result.time.pierceS)}, travel ${seconds(result.time.travelS)}, setup ${seconds(result.time.setupS)})`],
-    ['Billable', `${result.billableMinutes} min`],
-    ['Price', `${(result.price.amount / 100).toFixed(2)} ${result.price.currency}`],
     ['Sheet', result.sheet.fits ? `fits${result.sheet.rotated ? ' turned 90°' : ''}, ${result.sheet.copies} per sheet` : 'does not fit'],
   ]
   const width = Math.max(...rows.map(([label]) => label.length))

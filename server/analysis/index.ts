@@ -11,7 +11,6 @@ import { measureContours } from './measure'
 import type { AnalysisParams } from './params'
 import { parseSvgXml } from './parseXml'
 import { OPERATION_CODES, PolylineSet } from './polylines'
-import { billableMinutes, priceMinor } from './pricing'
 import { type ReadDrawing, readSvgDocument } from './readSvg'
 import type { AnalysisResult } from './result'
 import { fitOnSheet } from './sheetFit'
@@ -40,7 +39,8 @@ export interface AnalysedGeometry {
 
 /**
  * Reads an SVG cut pattern and says what the cutter will do: lengths, pierces,
- * engrave area, travel, machine time, price and sheet fit. Synchronous and
+ * engrave area, travel, machine time and sheet fit (the price is the server's,
+ * server/services/money.ts). Synchronous and
  * pure (no I/O); run it in a worker for large files. Throws only
  * AnalysisInputError for files it cannot analyse.
  */
@@ -109,14 +109,11 @@ function analyzeDrawing(drawing: ReadDrawing, params: AnalysisParams, findings: 
   lap('checks')
   const machine = estimateMachineTime(contours, bounds, measurement.engrave.areaMm2, params)
   lap('time')
-  const minutes = billableMinutes(machine.time.totalS, params.billingIncrementMinutes)
   const { width, height } = measurement.bbox
   const result: AnalysisResult = {
     ...measurement,
     travelMm: machine.travelMm,
     time: machine.time,
-    billableMinutes: minutes,
-    price: { amount: priceMinor(minutes, params.pricePerMinuteMinor, width * height, params.materialPriceMinorPerM2), currency: params.currency },
     sheet: fitOnSheet({
       partWidthMm: width,
       partHeightMm: height,

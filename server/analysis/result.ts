@@ -20,8 +20,6 @@ export interface AnalysisResult {
   engrave: { areaMm2: number }
   travelMm: number
   time: { cutS: number; scoreS: number; engraveS: number; pierceS: number; travelS: number; setupS: number; totalS: number }
-  billableMinutes: number
-  price: { amount: number; currency: string }
   sheet: { fits: boolean; rotated: boolean; copies: number; fitsBed: boolean }
   /** Errors, then warnings, then notes; messages come from shared/finding-messages.ts. */
   findingGroups: FindingGroup[]

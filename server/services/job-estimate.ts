@@ -1,6 +1,6 @@
 import type { Cutter } from './catalog/cutters'
 import { applyCorrection } from './calibration/index'
-import { billedMinutes } from './money'
+import { priceCut } from './money'
 import type { JobTimeCorrection } from './time-calibration'
 import type { RevisionFigures } from './revision-summary'
 import { layoutSheets, type JobSheets } from './sheet-layout'
@@ -22,6 +22,7 @@ export interface JobEstimate {
   billableMinutes: number
   machinePriceMinor: number
   sheetCount: number
+  sheetPriceMinor: number
   materialPriceMinor: number
   totalPriceMinor: number
   currency: string
@@ -37,8 +38,8 @@ export const PART_GAP_MM = 2
 export const SHEET_MARGIN_MM = 5
 
 /**
- * The job's totals: machine time summed over copies plus one setup per job; cutting time rounded up to the
- * cutter's billing increment, plus whole stock sheets from the layout. Money in integer minor units.
+ * The job's totals: machine time summed over copies plus one setup per job, and its price by `priceCut`
+ * (money.ts) with whole stock sheets from the layout. Money in integer minor units.
  */
 export function estimateJob(
   files: EstimatedFile[],
@@ -63,16 +64,16 @@ export function estimateJob(
   }
   const modelMachineS = machineS
   if (correction && files.length > 0) machineS = applyCorrection(components, correction.coefficients)
-  // Cutting time is billed in the cutter's increments; the setup is charged once, as it is.
-  const billableMinutes = files.length > 0 ? billedMinutes((machineS - setupS) / 60, cutter.billingIncrementMinutes) + cutter.setupMinutes : 0
   const layout = layoutSheets(
     files.map((f) => ({ fileId: f.fileId, widthMm: f.figures.bbox.width, heightMm: f.figures.bbox.height, quantity: f.quantity })),
     sheet,
     kerfMm + PART_GAP_MM,
     SHEET_MARGIN_MM,
   )
-  const machinePriceMinor = billableMinutes * cutter.pricePerMinuteMinor
-  const materialPriceMinor = layout.sheets.length * sheet.priceMinor
+  const price =
+    files.length > 0
+      ? priceCut({ cutMinutes: (machineS - setupS) / 60, incrementMinutes: cutter.billingIncrementMinutes, setupMinutes: cutter.setupMinutes, ratePerMinuteMinor: cutter.pricePerMinuteMinor, sheetCount: layout.sheets.length, sheetPriceMinor: sheet.priceMinor })
+      : { billableMinutes: 0, machinePriceMinor: 0, materialPriceMinor: 0, totalPriceMinor: 0 }
   return {
     components,
     modelMachineS,
@@ -80,11 +81,9 @@ export function estimateJob(
     cutLengthMm,
     pierces,
     machineS,
-    billableMinutes,
-    machinePriceMinor,
+    ...price,
     sheetCount: layout.sheets.length,
-    materialPriceMinor,
-    totalPriceMinor: machinePriceMinor + materialPriceMinor,
+    sheetPriceMinor: sheet.priceMinor,
     currency: cutter.currency,
     layout,
   }

@@ -9,7 +9,7 @@ import { analysisParamsFor } from './analysis-profile'
 import { getCutter } from './catalog/cutters'
 import { getMaterial } from './catalog/materials'
 import { findProcessSetting } from './catalog/process-settings'
-import { estimateJob, type JobEstimate } from './job-estimate'
+import { estimateJob, type EstimatedFile, type JobEstimate } from './job-estimate'
 import { timeCorrectionFor } from './time-calibration'
 import { availableActions, transitionJob, type JobAction, type TransitionRecord } from './job-states'
 import { acknowledgedGroups, recordAcknowledgements, unacknowledgedWarnings, type AcknowledgementInput } from './finding-acknowledgements'
@@ -96,15 +96,18 @@ export function estimateLookups(db: Knex) {
 }
 
 export async function jobEstimate(db: Knex, job: JobRow, files: JobFileView[], lookups = estimateLookups(db)): Promise<JobEstimate> {
-  const [cutter, material, setting] = await Promise.all([lookups.cutter(job.cutter_id), lookups.material(job.material_id), lookups.setting(job.cutter_id, job.material_id)])
-  const sheet = material.sheets.find((s) => s.id === job.sheet_id) ?? material.sheets[0]!
-  return estimateJob(
-    files.map((f) => ({ fileId: f.id, quantity: f.quantity, figures: f.current })),
-    cutter,
-    sheet,
-    setting?.kerfMm ?? 0,
-    await lookups.correction(job.cutter_id, material.family),
-  )
+  return estimateFor(lookups, { cutterId: job.cutter_id, materialId: job.material_id, sheetId: job.sheet_id }, files.map((f) => ({ fileId: f.id, quantity: f.quantity, figures: f.current })))
+}
+
+/** One checked file (POST /api/analysis), estimated and priced exactly as a job holding only that file. */
+export function fileEstimate(db: Knex, choice: { cutterId: number; materialId: number; sheetId?: number }, figures: EstimatedFile['figures']): Promise<JobEstimate> {
+  return estimateFor(estimateLookups(db), choice, [{ fileId: 0, quantity: 1, figures }])
+}
+
+async function estimateFor(lookups: ReturnType<typeof estimateLookups>, choice: { cutterId: number; materialId: number; sheetId?: number }, files: EstimatedFile[]): Promise<JobEstimate> {
+  const [cutter, material, setting] = await Promise.all([lookups.cutter(choice.cutterId), lookups.material(choice.materialId), lookups.setting(choice.cutterId, choice.materialId)])
+  const sheet = material.sheets.find((s) => s.id === choice.sheetId) ?? material.sheets[0]!
+  return estimateJob(files, cutter, sheet, setting?.kerfMm ?? 0, await lookups.correction(choice.cutterId, material.family))
 }
 
 export async function jobDetail(db: Knex, viewer: SessionUser, jobId: number) {

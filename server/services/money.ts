@@ -13,7 +13,22 @@ export function billedMinutes(minutes: number, incrementMinutes: number): number
   return minutes <= 0 ? 0 : Math.ceil(minutes / incrementMinutes - 1e-9) * incrementMinutes
 }
 
-/** What a cut costs: billed machine minutes and the setup at the cutter's rate, plus the stock sheets. */
-export function cutCharge(input: { machineMinutes: number; incrementMinutes: number; setupMinutes: number; ratePerMinuteMinor: number; materialMinor: number }): number {
-  return (billedMinutes(input.machineMinutes, input.incrementMinutes) + input.setupMinutes) * input.ratePerMinuteMinor + input.materialMinor
+export interface CutPrice {
+  /** Cutting minutes rounded up to the billing increment, plus the setup once, as it is. */
+  billableMinutes: number
+  machinePriceMinor: number
+  materialPriceMinor: number
+  totalPriceMinor: number
+}
+
+/**
+ * The one price of a cut, for the check page, the job estimate, the booking's hold and the charge after the cut:
+ * cutting minutes (machine time without setup) rounded up to the cutter's increment, plus the setup minutes,
+ * at the cutter's rate; plus whole stock sheets.
+ */
+export function priceCut(input: { cutMinutes: number; incrementMinutes: number; setupMinutes: number; ratePerMinuteMinor: number; sheetCount: number; sheetPriceMinor: number }): CutPrice {
+  const billableMinutes = billedMinutes(input.cutMinutes, input.incrementMinutes) + input.setupMinutes
+  const machinePriceMinor = billableMinutes * input.ratePerMinuteMinor
+  const materialPriceMinor = input.sheetCount * input.sheetPriceMinor
+  return { billableMinutes, machinePriceMinor, materialPriceMinor, totalPriceMinor: machinePriceMinor + materialPriceMinor }
 }

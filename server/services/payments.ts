@@ -9,7 +9,7 @@ import type { BookingRow } from './bookings'
 import { getCutter } from './catalog/cutters'
 import { transitionJob } from './job-states'
 import { currentFiles, jobEstimate, type JobRow } from './jobs'
-import { cutCharge, percentOf, withBuffer } from './money'
+import { percentOf, priceCut, withBuffer } from './money'
 import { workshopSettings } from './settings'
 
 // `owed`: what a cut cost beyond the hold, asked for separately; `charged` is its payment.
@@ -217,7 +217,7 @@ export async function settleCut(db: Knex, bookingId: number, actualMinutes: numb
   const booking = await paidBooking(db, bookingId)
   const job = (await db<JobRow>('jobs').where({ id: booking.job_id! }).first())!
   const { cutter, estimate } = await jobPrice(db, job)
-  const chargeMinor = cutCharge({ machineMinutes: actualMinutes, incrementMinutes: cutter.billingIncrementMinutes, setupMinutes: cutter.setupMinutes, ratePerMinuteMinor: cutter.pricePerMinuteMinor, materialMinor: estimate.materialPriceMinor })
+  const chargeMinor = priceCut({ cutMinutes: actualMinutes, incrementMinutes: cutter.billingIncrementMinutes, setupMinutes: cutter.setupMinutes, ratePerMinuteMinor: cutter.pricePerMinuteMinor, sheetCount: estimate.sheetCount, sheetPriceMinor: estimate.sheetPriceMinor }).totalPriceMinor
   const authorisedMinor = booking.authorised_minor ?? 0
   const capturedMinor = Math.min(chargeMinor, authorisedMinor)
   const intent = await useStripe().paymentIntents.capture(booking.payment_intent_id, { amount_to_capture: capturedMinor }, { idempotencyKey: `capture-${booking.payment_intent_id}` })

@@ -1,20 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { billableMinutes, priceMinor } from '../../server/analysis/pricing'
 import { fitOnSheet } from '../../server/analysis/sheetFit'
-
-describe('billing', () => {
-  it('rounds machine time up to the billing increment', () => {
-    expect(billableMinutes(61, 1)).toBe(2)
-    expect(billableMinutes(60, 1)).toBe(1)
-    expect(billableMinutes(301, 5)).toBe(10)
-    expect(billableMinutes(0.1 * 3 * 600, 3)).toBe(3)
-  })
-
-  it('prices minutes at the rate plus material for the bounding box, in minor units', () => {
-    // 4 min × 75 + 0.02 m² × 2000 per m² = 300 + 40.
-    expect(priceMinor(4, 75, 200 * 100, 2000)).toBe(340)
-  })
-})
 
 describe('sheet fit', () => {
   const base = { sheetWidthMm: 600, sheetHeightMm: 400, bedWidthMm: 1000, bedHeightMm: 1000, marginMm: 10, spacingMm: 2 }

@@ -37,15 +37,40 @@ describe('POST /api/analysis', () => {
     expect(result.cut.pierces).toBe(2)
     expect(result.cut.closedContours).toBe(2)
     expect(result.bbox).toMatchObject({ x: 10, y: 10, width: 100, height: 100 })
-    // The demo laser: EUR, billed per whole minute, 5 setup minutes at 85 cents.
-    expect(result.price.currency).toBe('EUR')
-    expect(Number.isInteger(result.billableMinutes)).toBe(true)
+    // The demo laser: EUR, billed per whole minute, 5 setup minutes at 85 cents. The engine gives time, the server the price.
+    expect(result.price).toBeUndefined()
+    expect(result.estimate.currency).toBe('EUR')
+    expect(Number.isInteger(result.estimate.billableMinutes)).toBe(true)
     expect(result.time.setupS).toBe(300)
-    expect(result.price.amount).toBeGreaterThanOrEqual(result.billableMinutes * 85)
+    expect(result.estimate.totalPriceMinor).toBeGreaterThanOrEqual(result.estimate.billableMinutes * 85)
     expect(result.sheet.fits).toBe(true)
     // The preview comes packed and gzip-compressed, as base64, since nothing of a check is stored.
     expect(decodeGeometry(gunzipSync(Buffer.from(result.geometryGz, 'base64'))).count).toBe(2)
     expect(decodeSites(gunzipSync(Buffer.from(result.sitesGz, 'base64'))).count).toBe(result.findingGroups.reduce((n: number, g: { count: number }) => n + g.count, 0))
+  })
+
+  it('prices a checked file exactly as the job page prices a job of that one file', async () => {
+    const member = await signedIn('member@example.test')
+    const ids = await catalogIds('Heron', 'Birch plywood', 3)
+    const checked = (await member.form('/api/analysis', svgForm(SQUARE_100_MM, ids))).body
+    const job = await member.post('/api/jobs', { title: 'Same price', ...ids })
+    expect((await member.form(`/api/jobs/${job.body.id}/files`, svgForm(SQUARE_100_MM))).status).toBe(201)
+    const page = (await member.get(`/api/jobs/${job.body.id}`)).body
+    expect(checked.estimate).toEqual({
+      billableMinutes: page.estimate.billableMinutes,
+      machinePriceMinor: page.estimate.machinePriceMinor,
+      sheetCount: page.estimate.sheetCount,
+      materialPriceMinor: page.estimate.materialPriceMinor,
+      totalPriceMinor: page.estimate.totalPriceMinor,
+      currency: page.estimate.currency,
+    })
+    // The price list's rule (README, "A job's price"): cutting minutes rounded up to the increment, then the setup, at the rate; whole sheets.
+    const cutter = (await member.get(`/api/catalog/cutters/${ids.cutterId}`)).body
+    const material = (await member.get(`/api/catalog/materials/${ids.materialId}`)).body
+    const cutMinutes = (checked.time.totalS - checked.time.setupS) / 60
+    const billed = Math.ceil(cutMinutes / cutter.billingIncrementMinutes) * cutter.billingIncrementMinutes + cutter.setupMinutes
+    expect(checked.estimate.billableMinutes).toBe(billed)
+    expect(checked.estimate.totalPriceMinor).toBe(billed * cutter.pricePerMinuteMinor + checked.estimate.sheetCount * material.sheets[0].priceMinor)
   })
 
   it('uses the process setting: a slower cut speed gives a longer cut time', async () => {
