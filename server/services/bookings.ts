@@ -272,12 +272,42 @@ export async function planCancellation(db: Knex, actor: SessionUser, id: number,
   return { booking, reason: reason.trim(), terms, cancelledByStaff }
 }
 
+// A claim older than this was left by a server that stopped mid-cancellation (the payment calls time out well before).
+const CANCELLING_CLAIM_MS = 2 * 60_000
+
+/** A cancellation under way (its payment settling) that starting the cut must not overtake. */
+export function cancellingNow(booking: { cancelling_since?: string | null }, now = Date.now()): boolean {
+  return !!booking.cancelling_since && now - Date.parse(booking.cancelling_since) < CANCELLING_CLAIM_MS
+}
+
+/**
+ * Claims the booking for its cancellation before any money moves: in one write transaction the job must still be
+ * "booked" and no other cancellation under way. Starting the cut checks the claim in its own write transaction, so
+ * SQLite orders the two: either the cut started first (this answers 409) or the start is refused.
+ */
+export async function claimCancellation(db: Knex, plan: CancellationPlan): Promise<void> {
+  await db.transaction(async (trx) => {
+    const now = nowIso()
+    await trx('bookings').where({ id: plan.booking.id }).update({ updated_at: trx.ref('updated_at') })
+    const fresh = await trx('bookings').where({ id: plan.booking.id }).first()
+    if (fresh.status === 'cancelled') throw new Conflict('This booking was cancelled.')
+    if (cancellingNow(fresh)) throw new Conflict('This booking is being cancelled already.')
+    await assertNotStarted(trx, fresh)
+    await trx('bookings').where({ id: plan.booking.id }).update({ cancelling_since: now })
+  })
+}
+
+/** The payment could not be settled: the booking stays as it was and can be started or cancelled again. */
+export async function dropCancellationClaim(db: Knex, bookingId: number): Promise<void> {
+  await db('bookings').where({ id: bookingId }).update({ cancelling_since: null })
+}
+
 /** Cancels the booking once its payment is settled; the job goes back to "approved" so it can be booked again. */
 export async function commitCancellation(db: Knex, plan: CancellationPlan): Promise<BookingRow> {
   const { booking, reason } = plan
   await db.transaction(async (trx) => {
     const now = nowIso()
-    await trx('bookings').where({ id: booking.id }).update({ status: 'cancelled', cancelled_at: now, cancel_reason: reason, ical_sequence: booking.ical_sequence + 1, updated_at: now })
+    await trx('bookings').where({ id: booking.id }).update({ status: 'cancelled', cancelled_at: now, cancel_reason: reason, cancelling_since: null, ical_sequence: booking.ical_sequence + 1, updated_at: now })
     if (booking.job_id) {
       const job = await trx('jobs').where({ id: booking.job_id }).first('state')
       if (job?.state === 'booked') await transitionJob(trx, booking.job_id, 'unbook', 'system', { comment: `Booking cancelled${reason ? `: ${reason}` : ''}` })

@@ -3,7 +3,7 @@ import type { Knex } from 'knex'
 import type { SessionUser } from '#shared/roles'
 import { Conflict, InvalidInput, NotFound } from '../utils/errors'
 import { nowIso } from '../utils/rows'
-import { liveBookings, type BookingRow } from './bookings'
+import { cancellingNow, liveBookings, type BookingRow } from './bookings'
 import { transitionJob, type TransitionRecord } from './job-states'
 import { currentFiles, jobEstimate, jobForViewer, type JobRow } from './jobs'
 import { settleCut, type Settlement } from './payments'
@@ -39,9 +39,14 @@ async function timerEvents(db: Knex, jobId: number) {
 
 export async function startCut(db: Knex, staff: SessionUser, jobId: number): Promise<TransitionRecord> {
   await jobForViewer(db, staff, jobId)
-  const booking = await bookingOfJob(db, jobId)
-  if (booking.status !== 'confirmed') throw new Conflict('The booking is not paid yet; the member has to finish the checkout first.')
+  const { id: bookingId } = await bookingOfJob(db, jobId)
   return db.transaction(async (trx) => {
+    // The first statement writes, so the booking is read under the write lock a cancellation's claim also takes.
+    await trx('bookings').where({ id: bookingId }).update({ updated_at: trx.ref('updated_at') })
+    const booking = await trx('bookings').where({ id: bookingId }).first()
+    if (booking.status === 'cancelled') throw new Conflict('This booking was cancelled.')
+    if (cancellingNow(booking)) throw new Conflict('The member is cancelling this booking right now; it can no longer be started.')
+    if (booking.status !== 'confirmed') throw new Conflict('The booking is not paid yet; the member has to finish the checkout first.')
     const record = await transitionJob(trx, jobId, 'startCutting', staff, { comment: 'Cutting started' })
     await trx('cut_timer_events').insert({ job_id: jobId, kind: 'start', at: nowIso(), actor_id: staff.id })
     return record

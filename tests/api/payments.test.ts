@@ -137,6 +137,29 @@ describe('holding the estimate and charging the minutes used', () => {
     }
   })
 
+  it('a cancel and a start at the same moment: exactly one wins, and the money agrees with the state', async () => {
+    const outcomes: string[] = []
+    for (let i = 0; i < 6; i++) {
+      const { jobId, booking } = await bookedJob(`Race ${i}`)
+      await payCheckout(booking.checkoutUrl)
+      await waitForPaymentState(bench.member, booking.id, 'authorised')
+      const [cancel, start] = await Promise.all([bench.member.post(`/api/bookings/${booking.id}/cancel`, {}), bench.staff.post(`/api/jobs/${jobId}/start`)])
+      expect([cancel.status, start.status].sort()).toEqual([200, 409])
+      const state = (await bench.member.get(`/api/jobs/${jobId}`)).body.state
+      if (start.status === 200) {
+        outcomes.push('started')
+        expect(state).toBe('cutting')
+        expect((await waitForPaymentState(bench.member, booking.id, 'authorised')).authorisedMinor).toBe(booking.authorisedMinor)
+        expect((await bench.staff.post(`/api/jobs/${jobId}/finish`, { actualMinutes: 3 })).status).toBe(200)
+      } else {
+        outcomes.push('cancelled')
+        expect(state).toBe('approved')
+        await waitForPaymentState(bench.member, booking.id, 'released')
+      }
+    }
+    expect(outcomes).toHaveLength(6)
+  })
+
   it('a declined card leaves the booking unpaid, and it is released after the hold', async () => {
     const { jobId, booking } = await bookedJob('Declined')
     const declined = await payCheckout(booking.checkoutUrl, CARD_DECLINED)
@@ -189,6 +212,8 @@ describe('webhooks', () => {
     const member = 'member@example.test'
     const received = /Payment received/
     const receipt = /Receipt for your cut/
+    // Mails of the tests before still on their way must not count here.
+    await settle()
     const before = { received: await countMail(member, received), receipt: await countMail(member, receipt) }
     const { jobId, booking } = await bookedJob('Mailed once')
     await payCheckout(booking.checkoutUrl)

@@ -1,18 +1,23 @@
 import { idParamSchema } from '#shared/schemas/auth'
 import { bookingCancelSchema } from '#shared/schemas/bookings'
 import { sendBookingMail } from '../../../services/booking-mail'
-import { commitCancellation, planCancellation } from '../../../services/bookings'
+import { claimCancellation, commitCancellation, dropCancellationClaim, planCancellation } from '../../../services/bookings'
 import { sendPaymentReceipts } from '../../../services/payment-mail'
 import { settleCancellation } from '../../../services/payments'
 
-// The payment is settled first (release, or the late fee); only then is the booking cancelled, so a
-// payment-service failure leaves the booking as it was and the member can try again.
+// The booking is claimed first (starting the cut is refused from then on), the payment settled next (release, or
+// the late fee), and only then is the booking cancelled; a payment-service failure drops the claim and leaves the
+// booking as it was, so the member can try again.
 export default defineApiHandler(async (event) => {
   const user = await requireUser(event)
   const { id } = readParamsAs(event, idParamSchema)
   const { reason } = await readBodyAs(event, bookingCancelSchema)
   const plan = await planCancellation(useDb(), user, id, reason)
-  const { feeMinor, newKinds } = await settleCancellation(useDb(), id, plan.terms.feePercent)
+  await claimCancellation(useDb(), plan)
+  const { feeMinor, newKinds } = await settleCancellation(useDb(), id, plan.terms.feePercent).catch(async (error) => {
+    await dropCancellationClaim(useDb(), id)
+    throw error
+  })
   const booking = await commitCancellation(useDb(), plan)
   await sendBookingMail(useDb(), booking, 'cancelled', plan.cancelledByStaff ? `The staff cancelled it: ${reason}` : '')
   await sendPaymentReceipts(useDb(), { bookingId: id, memberId: booking.member_id, kinds: newKinds })
