@@ -9,6 +9,7 @@ import { analysisParamsFor } from './analysis-profile'
 import { getCutter } from './catalog/cutters'
 import { getMaterial } from './catalog/materials'
 import { findProcessSetting } from './catalog/process-settings'
+import { balancesOwed } from './balance'
 import { estimateJob, type EstimatedFile, type JobEstimate } from './job-estimate'
 import { timeCorrectionFor } from './time-calibration'
 import { availableActions, transitionJob, type JobAction, type TransitionRecord } from './job-states'
@@ -139,6 +140,8 @@ export async function jobDetail(db: Knex, viewer: SessionUser, jobId: number) {
     findingGroups,
     warningGroups: await acknowledgedGroups(db, findingGroups),
     estimate: await jobEstimate(db, job, files),
+    /** What the cut cost beyond the hold and is not paid yet (pay from "My payments"). */
+    balanceOwed: (await balancesOwed(db, { jobId }))[0] ?? null,
     events: await Promise.all(
       events.map(async (e) => ({
         at: e.created_at,

@@ -32,3 +32,9 @@ export function priceCut(input: { cutMinutes: number; incrementMinutes: number; 
   const materialPriceMinor = input.sheetCount * input.sheetPriceMinor
   return { billableMinutes, machinePriceMinor, materialPriceMinor, totalPriceMinor: machinePriceMinor + materialPriceMinor }
 }
+
+/** An amount for people to read ("€9.78"), with the currency's own number of minor digits. */
+export function formatMinor(amountMinor: number, currency: string): string {
+  const format = new Intl.NumberFormat('en-IE', { style: 'currency', currency })
+  return format.format(amountMinor / 10 ** (format.resolvedOptions().maximumFractionDigits ?? 2))
+}

@@ -4,8 +4,10 @@ import type { SessionUser } from '#shared/roles'
 import { Conflict, InvalidInput, NotFound } from '../utils/errors'
 import { nowIso } from '../utils/rows'
 import { cancellingNow, liveBookings, type BookingRow } from './bookings'
+import { balancesOwed } from './balance'
 import { transitionJob, type TransitionRecord } from './job-states'
 import { currentFiles, jobEstimate, jobForViewer, type JobRow } from './jobs'
+import { formatMinor } from './money'
 import { settleCut, type Settlement } from './payments'
 
 export type TimerKind = 'start' | 'pause' | 'resume' | 'finish'
@@ -125,14 +127,21 @@ export async function markReady(db: Knex, staff: SessionUser, jobId: number, loc
   })
 }
 
-/** Hands the parts over for a pickup code; each code works once, for its one job. */
-export async function collectWithCode(db: Knex, staff: SessionUser, code: string): Promise<{ record: TransitionRecord; job: JobRow }> {
+/**
+ * Hands the parts over for a pickup code; each code works once, for its one job. While the member owes a balance
+ * the hand-over waits for staff to confirm it (409 with reason "balance-owed" and the amount).
+ */
+export async function collectWithCode(db: Knex, staff: SessionUser, code: string, handOverWithBalanceOwed = false): Promise<{ record: TransitionRecord; job: JobRow }> {
   const normalised = code.trim().toUpperCase().replace(/[\s-]/g, '')
   return db.transaction(async (trx) => {
     const job = await trx<JobRow>('jobs').where({ pickup_code: normalised }).orderBy('id', 'desc').first()
     if (!job) throw new NotFound('No parts are waiting under that code. Check the letters with the member.')
     if (job.state !== 'ready') throw new Conflict('This code was already used: the parts were collected.')
-    const record = await transitionJob(trx, job.id, 'markCollected', staff, { comment: 'Collected with the pickup code' })
+    const [owed] = await balancesOwed(trx, { jobId: job.id })
+    if (owed && !handOverWithBalanceOwed) {
+      throw new Conflict(`The member still owes ${formatMinor(owed.balanceMinor, owed.currency)} for this cut. Ask them to pay it under "My payments", or confirm the hand-over anyway.`, { reason: 'balance-owed', ...owed })
+    }
+    const record = await transitionJob(trx, job.id, 'markCollected', staff, { comment: `Collected with the pickup code${owed ? `; handed over with ${formatMinor(owed.balanceMinor, owed.currency)} still owed` : ''}` })
     await trx('jobs').where({ id: job.id }).update({ collected_at: nowIso() })
     return { record, job }
   })

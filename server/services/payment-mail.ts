@@ -1,9 +1,9 @@
 import type { Knex } from 'knex'
 import { serverConfig } from '../utils/config'
 import { sendMail } from '../utils/mailer'
+import { formatMinor } from './money'
 import type { LedgerKind } from './payments'
 
-const money = (minor: number, currency: string) => new Intl.NumberFormat('en-IE', { style: 'currency', currency }).format(minor / 100)
 
 interface ReceiptContext {
   bookingId: number
@@ -33,7 +33,7 @@ export async function sendPaymentReceipts(db: Knex, context: ReceiptContext): Pr
     await sendMail({
       to: member.email,
       subject: words.subject,
-      paragraphs: [`Hello ${member.name},`, words.line(money(row.amount_minor, row.currency)), row.note, context.detail ?? ''].filter(Boolean),
+      paragraphs: [`Hello ${member.name},`, words.line(formatMinor(row.amount_minor, row.currency)), row.note, context.detail ?? ''].filter(Boolean),
       action: { label: 'Your payments', url: `${serverConfig().appUrl}/payments` },
     })
   }

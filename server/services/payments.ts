@@ -9,7 +9,8 @@ import type { BookingRow } from './bookings'
 import { getCutter } from './catalog/cutters'
 import { transitionJob } from './job-states'
 import { currentFiles, jobEstimate, type JobRow } from './jobs'
-import { percentOf, priceCut, withBuffer } from './money'
+import { balancesOwed } from './balance'
+import { formatMinor, percentOf, priceCut, withBuffer } from './money'
 import { workshopSettings } from './settings'
 
 // `owed`: what a cut cost beyond the hold, asked for separately; `charged` is its payment.
@@ -37,6 +38,8 @@ interface PaidBooking extends BookingRow {
   currency: string | null
   checkout_session_id: string | null
   payment_intent_id: string | null
+  balance_checkout_session_id: string | null
+  balance_checkout_url: string | null
 }
 
 class PaymentServiceError extends DomainError {
@@ -225,23 +228,47 @@ export async function settleCut(db: Knex, bookingId: number, actualMinutes: numb
   const balanceMinor = chargeMinor - capturedMinor
   let balanceUrl: string | null = null
   if (balanceMinor > 0) {
-    const member = await db('users').where({ id: booking.member_id }).first('email')
-    const session = await useStripe().checkout.sessions.create(
-      {
-        mode: 'payment',
-        line_items: [{ quantity: 1, price_data: { currency: cutter.currency.toLowerCase(), unit_amount: balanceMinor, product_data: { name: `${job.title}: minutes over the held amount` } } }],
-        payment_intent_data: { metadata: { bookingId: String(booking.id), purpose: 'balance' } },
-        metadata: { bookingId: String(booking.id), purpose: 'balance' },
-        customer_email: member.email,
-        success_url: `${serverConfig().appUrl}/payments?balance=${booking.id}`,
-        cancel_url: `${serverConfig().appUrl}/payments`,
-      },
-      { idempotencyKey: `balance-${booking.id}` },
-    )
-    balanceUrl = session.url
-    await record(db, booking, { kind: 'owed', amountMinor: balanceMinor, currency: cutter.currency, objectId: session.id, key: `owed:${booking.id}`, note: `${actualMinutes} minutes cut; the hold covered ${capturedMinor}` })
+    // The debt is on the ledger before any checkout exists, so it stays payable from "My payments" if Stripe fails now.
+    await record(db, booking, { kind: 'owed', amountMinor: balanceMinor, currency: cutter.currency, objectId: booking.payment_intent_id, key: `owed:${booking.id}`, note: `${actualMinutes} minutes cut; the hold covered ${formatMinor(capturedMinor, cutter.currency)}` })
+    balanceUrl = await openBalanceCheckout(db, booking.id)
+      .then((checkout) => checkout.url)
+      .catch((error) => {
+        console.error(`[payments] balance checkout for booking ${booking.id} not opened:`, (error as Error).message)
+        return null
+      })
   }
   return { bookingId: booking.id, memberId: booking.member_id, newKinds: synced?.newKinds ?? [], chargeMinor, capturedMinor, balanceMinor, balanceUrl, actualMinutes, estimateMinutes: estimate.billableMinutes }
+}
+
+/**
+ * A hosted checkout for what is still owed on a booking (a second payment, captured at once). An open session for
+ * the same amount is reused; a completed one is synced first, so a member can't pay the same balance twice.
+ */
+export async function openBalanceCheckout(db: Knex, bookingId: number): Promise<{ url: string; balanceMinor: number; currency: string }> {
+  const booking = await paidBooking(db, bookingId)
+  const stripe = useStripe()
+  const previous = booking.balance_checkout_session_id ? await stripe.checkout.sessions.retrieve(booking.balance_checkout_session_id) : null
+  if (previous?.status === 'complete' && typeof previous.payment_intent === 'string') await syncPaymentIntent(db, await stripe.paymentIntents.retrieve(previous.payment_intent))
+  const [owed] = await balancesOwed(db, { bookingId })
+  if (!owed) throw new Conflict('Nothing is owed on this booking.')
+  if (previous?.status === 'open' && previous.amount_total === owed.balanceMinor && previous.url) return { url: previous.url, ...owed }
+  const job = await db('jobs').where({ id: booking.job_id }).first('title')
+  const member = await db('users').where({ id: booking.member_id }).first('email')
+  const session = await stripe.checkout.sessions.create(
+    {
+      mode: 'payment',
+      line_items: [{ quantity: 1, price_data: { currency: owed.currency.toLowerCase(), unit_amount: owed.balanceMinor, product_data: { name: `${job?.title ?? 'Cut'}: minutes over the held amount` } } }],
+      payment_intent_data: { metadata: { bookingId: String(booking.id), purpose: 'balance' } },
+      metadata: { bookingId: String(booking.id), purpose: 'balance' },
+      customer_email: member.email,
+      success_url: `${serverConfig().appUrl}/payments?balance=${booking.id}`,
+      cancel_url: `${serverConfig().appUrl}/payments`,
+    },
+    // One key per generation: two clicks at once get the same session.
+    { idempotencyKey: `balance-${booking.id}-${previous?.id ?? 'first'}-${owed.balanceMinor}` },
+  )
+  await db('bookings').where({ id: booking.id }).update({ balance_checkout_session_id: session.id, balance_checkout_url: session.url, updated_at: nowIso() })
+  return { url: session.url!, ...owed }
 }
 
 /** Cancellation money: free releases the hold; late captures the policy's fee of the estimate. */
@@ -310,6 +337,8 @@ export interface PaymentView {
   authorisedMinor: number
   capturedMinor: number
   refundedMinor: number
+  /** Still owed after the cut (the hold did not cover it); paid with a second checkout. */
+  balanceMinor: number
   currency: string
   events: { kind: LedgerKind; amountMinor: number; at: string; note: string }[]
 }
@@ -332,6 +361,7 @@ export async function listPayments(db: Knex, filter: { memberId?: number; from?:
         memberName: b.name,
         start: b.starts_at,
         ...paymentStateOf(rows),
+        balanceMinor: Math.max(0, rows.reduce((n, r) => n + (r.kind === 'owed' ? r.amount_minor : r.kind === 'charged' ? -r.amount_minor : 0), 0)),
         currency: b.currency ?? 'EUR',
         events: rows.map((r) => ({ kind: r.kind, amountMinor: r.amount_minor, at: r.created_at, note: r.note })),
       }

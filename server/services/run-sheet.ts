@@ -3,6 +3,7 @@ import { cautionsFor, type Caution } from '#shared/safety'
 import { gunzipSync } from 'node:zlib'
 import { CLOSED_BIT, decodeGeometry, PREVIEW_OPERATIONS } from '#shared/packed-analysis'
 import { NotFound } from '../utils/errors'
+import { balancesOwed } from './balance'
 import { liveBookings } from './bookings'
 import { listColours } from './catalog/colours'
 import { getCutter } from './catalog/cutters'
@@ -19,6 +20,8 @@ export interface RunSheetEntry {
   start: string
   end: string
   paid: boolean
+  /** Owed beyond the hold after the cut; staff confirm before handing the parts over. */
+  balanceOwed: { balanceMinor: number; currency: string } | null
   job: { id: number; title: string; state: string; notes: string; warningsAcknowledgement: string | null; overrideReason: string | null }
   member: { name: string; email: string }
   material: { name: string; thicknessMm: number; hazardNote: string }
@@ -62,6 +65,7 @@ export async function runSheet(db: Knex, cutterId: number, localDate: string): P
       start: booking.starts_at,
       end: booking.ends_at,
       paid: booking.status === 'confirmed',
+      balanceOwed: (await balancesOwed(db, { bookingId: booking.id }))[0] ?? null,
       job: { id: job.id, title: job.title, state: job.state, notes: job.notes, warningsAcknowledgement: job.warnings_acknowledgement, overrideReason: job.override_reason },
       member,
       material: { name: material.name, thicknessMm: material.thicknessMm, hazardNote: material.hazardNote },

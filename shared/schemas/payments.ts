@@ -26,7 +26,11 @@ export const problemSchema = z.object({
 
 export const readySchema = z.object({ location: requiredText('Shelf or bin', 80) })
 
-export const collectSchema = z.object({ code: z.string({ error: 'Enter the pickup code.' }).trim().min(4, { error: 'Enter the pickup code.' }).max(20) })
+export const collectSchema = z.object({
+  code: z.string({ error: 'Enter the pickup code.' }).trim().min(4, { error: 'Enter the pickup code.' }).max(20),
+  // Staff saw that the member still owes a balance and hand the parts over anyway.
+  handOverWithBalanceOwed: z.boolean().default(false),
+})
 
 export const runSheetQuerySchema = z.object({
   cutter: z.coerce.number().int().positive({ error: 'Choose a cutter.' }),

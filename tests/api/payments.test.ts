@@ -4,7 +4,8 @@ import { beforeAll, describe, expect, inject, it } from 'vitest'
 import { stripeSignatureHeader } from '../../scripts/lib/stripe-fake/index'
 import { plainPart } from '../fixtures/svg'
 import { CARD_ASKS_TO_CONFIRM, CARD_DECLINED, countMail, payCheckout, settle, waitForPaymentState } from './payment-helpers'
-import { waitForMail } from './helpers'
+import { inZone } from '../../server/services/workshop-time'
+import { signedIn, waitForMail } from './helpers'
 import { bookingBench, type BookingBench } from './workshop-setup'
 
 let bench: BookingBench
@@ -94,7 +95,7 @@ describe('holding the estimate and charging the minutes used', () => {
     expect((await bench.member.post(`/api/payments/${booking.id}/refund`, { reason: 'me too' })).status).toBe(403)
   })
 
-  it('captures the hold and asks for the rest when the cut takes longer than the hold covers', async () => {
+  it('captures the hold and asks for the rest: the debt shows on payments, job page and run sheet, and a second checkout pays it', async () => {
     const { jobId, booking } = await bookedJob('Over the hold')
     await payCheckout(booking.checkoutUrl)
     await waitForPaymentState(bench.member, booking.id, 'authorised')
@@ -105,9 +106,38 @@ describe('holding the estimate and charging the minutes used', () => {
     expect(finished.balanceUrl).toMatch(/\/checkout\//)
     const owing = await waitForPaymentState(bench.member, booking.id, 'balance-due')
     expect(owing.capturedMinor).toBe(booking.authorisedMinor)
-    // Paying the rest settles it.
-    await payCheckout(finished.balanceUrl)
-    await waitForPaymentState(bench.member, booking.id, 'captured')
+    expect(owing.balanceMinor).toBe(finished.balanceMinor)
+    // The ledger's note reads as money, not as raw minor units.
+    const owedEvent = owing.events.find((e: { kind: string }) => e.kind === 'owed')
+    expect(owedEvent.note).toContain(`€${(booking.authorisedMinor / 100).toFixed(2)}`)
+    expect((await bench.member.get(`/api/jobs/${jobId}`)).body.balanceOwed).toMatchObject({ bookingId: booking.id, balanceMinor: finished.balanceMinor, currency: 'EUR' })
+    const date = inZone(booking.starts_at, bench.zone).toISODate()
+    const entry = (await bench.staff.get(`/api/run-sheet?cutter=${bench.cutterId}&date=${date}`)).body.entries.find((e: { job: { id: number } }) => e.job.id === jobId)
+    expect(entry.balanceOwed).toEqual({ bookingId: booking.id, balanceMinor: finished.balanceMinor, currency: 'EUR' })
+
+    // The member's pay button opens the same open checkout twice; another member is not told the booking exists.
+    const opened = await bench.member.post(`/api/payments/${booking.id}/balance`)
+    expect(opened.status).toBe(200)
+    expect(opened.body).toMatchObject({ url: finished.balanceUrl, balanceMinor: finished.balanceMinor })
+    expect((await bench.member.post(`/api/payments/${booking.id}/balance`)).body.url).toBe(opened.body.url)
+    expect((await (await signedIn('ines@example.test')).post(`/api/payments/${booking.id}/balance`)).status).toBe(404)
+
+    // Handing the parts over while money is owed waits for staff to confirm it.
+    await bench.staff.post(`/api/jobs/${jobId}/ready`, { location: 'Shelf B' })
+    const code = (await bench.member.get(`/api/jobs/${jobId}/pickup`)).body.code
+    const refused = await bench.staff.post('/api/pickups/collect', { code })
+    expect(refused.status).toBe(409)
+    expect(refused.body.data).toMatchObject({ reason: 'balance-owed', balanceMinor: finished.balanceMinor })
+    expect((await bench.member.get(`/api/jobs/${jobId}`)).body.state).toBe('ready')
+    expect((await bench.staff.post('/api/pickups/collect', { code, handOverWithBalanceOwed: true })).status).toBe(200)
+
+    // Paying the second checkout settles it, once.
+    await payCheckout(opened.body.url)
+    const paid = await waitForPaymentState(bench.member, booking.id, 'captured')
+    expect(paid.balanceMinor).toBe(0)
+    expect(paid.capturedMinor).toBe(finished.chargeMinor)
+    expect((await bench.member.get(`/api/jobs/${jobId}`)).body.balanceOwed).toBeNull()
+    expect((await bench.member.post(`/api/payments/${booking.id}/balance`)).status).toBe(409)
   })
 
   it('free cancellation releases the hold and charges nothing', async () => {

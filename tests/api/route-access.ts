@@ -276,6 +276,8 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   'GET /api/admin/payments': { policy: adminOnly('ok') },
   'GET /api/me/payments': { policy: signedInOnly('ok') },
   'POST /api/payments/:bookingId/refund': { policy: staffOnly(), params: (w) => ({ bookingId: w.bookingId }) },
+  // The member's own balance (409 while nothing is owed); another member is not told the booking exists.
+  'POST /api/payments/:bookingId/balance': { policy: ownerAndStaff(), params: (w) => ({ bookingId: w.bookingId }) },
   // Anyone may knock; only a valid Stripe-Signature gets in (an unsigned call is a 400).
   'POST /api/webhooks/stripe': { policy: PUBLIC },
   'POST /api/admin/tasks/release-holds': { policy: adminOnly('ok') },

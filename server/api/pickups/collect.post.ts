@@ -4,8 +4,8 @@ import { collectWithCode } from '../../services/operations'
 
 export default defineApiHandler(async (event) => {
   const staff = await requireRole(event, 'staff', 'admin')
-  const { code } = await readBodyAs(event, collectSchema)
-  const { record, job } = await collectWithCode(useDb(), staff, code)
+  const { code, handOverWithBalanceOwed } = await readBodyAs(event, collectSchema)
+  const { record, job } = await collectWithCode(useDb(), staff, code, handOverWithBalanceOwed)
   await sendJobTransitionMail(useDb(), record)
   return { jobId: job.id, title: job.title }
 })
