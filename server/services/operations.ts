@@ -8,7 +8,7 @@ import { balancesOwed } from './balance'
 import { transitionJob, type TransitionRecord } from './job-states'
 import { currentFiles, jobEstimate, jobForViewer, type JobRow } from './jobs'
 import { formatMinor } from './money'
-import { settleCut, type Settlement } from './payments'
+import { quoteCut, settleCut, type CutQuote, type Settlement } from './payments'
 
 export type TimerKind = 'start' | 'pause' | 'resume' | 'finish'
 export type ProblemKind = 'failed-cut' | 're-cut' | 'material-defect' | 'other'
@@ -79,16 +79,31 @@ export async function reportProblem(db: Knex, staff: SessionUser, jobId: number,
  * Finishes the cut with the minutes actually used — typed by staff, or the timer's own — records
  * what the estimate said at that moment (for reports and calibration) and captures the payment.
  */
-export async function finishCut(db: Knex, staff: SessionUser, jobId: number, typedMinutes: number | undefined, note = ''): Promise<{ settlement: Settlement; record: TransitionRecord }> {
+/** The cutting minutes finishing would charge: typed by staff, or the timer's own, to 1/100 minute. */
+function minutesToCharge(typedMinutes: number | undefined, timer: { minutes: number }): number {
+  const actualMinutes = Math.round((typedMinutes ?? timer.minutes) * 100) / 100
+  if (!(actualMinutes > 0)) throw new InvalidInput('Enter the minutes actually cut: the timer has not run.', { fields: { actualMinutes: 'Required when the timer was not used.' } })
+  return actualMinutes
+}
+
+/** For the finish form: the timer, the estimate and what finishing with these minutes would charge. Nothing changes. */
+export async function finishQuote(db: Knex, staff: SessionUser, jobId: number, typedMinutes: number | undefined): Promise<CutQuote & { timerMinutes: number }> {
+  const job = await jobForViewer(db, staff, jobId)
+  if (job.state !== 'cutting') throw new Conflict('Only a job on the machine can be finished.')
+  const booking = await bookingOfJob(db, jobId)
+  const timer = timerMinutes(await timerEvents(db, jobId))
+  return { ...(await quoteCut(db, booking.id, minutesToCharge(typedMinutes, timer))), timerMinutes: Math.round(timer.minutes * 100) / 100 }
+}
+
+export async function finishCut(db: Knex, staff: SessionUser, jobId: number, typedMinutes: number | undefined, note = '', confirmedChargeMinor?: number): Promise<{ settlement: Settlement; record: TransitionRecord }> {
   const job = await jobForViewer(db, staff, jobId)
   const booking = await bookingOfJob(db, jobId)
   const timer = timerMinutes(await timerEvents(db, jobId))
-  const actualMinutes = Math.round((typedMinutes ?? timer.minutes) * 100) / 100
-  if (!(actualMinutes > 0)) throw new InvalidInput('Enter the minutes actually cut: the timer has not run.', { fields: { actualMinutes: 'Required when the timer was not used.' } })
+  const actualMinutes = minutesToCharge(typedMinutes, timer)
   if (job.state !== 'cutting') throw new Conflict('Only a job on the machine can be finished.')
   const estimate = await jobEstimate(db, job, await currentFiles(db, jobId))
   // Charge first: if the payment service fails, the job stays on the machine and finishing can be tried again.
-  const settlement = await settleCut(db, booking.id, actualMinutes)
+  const settlement = await settleCut(db, booking.id, actualMinutes, confirmedChargeMinor)
   const now = nowIso()
   const record = await db.transaction(async (trx) => {
     const moved = await transitionJob(trx, jobId, 'finishCutting', staff, { comment: `Cut in ${actualMinutes} min${typedMinutes === undefined ? ' (timer)' : ''}${note ? `: ${note}` : ''}` })

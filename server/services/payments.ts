@@ -212,24 +212,61 @@ export interface Settlement {
   estimateMinutes: number
 }
 
+export interface CutQuote {
+  actualMinutes: number
+  /** Cutting minutes rounded up to the increment, plus the setup. */
+  billableMinutes: number
+  setupMinutes: number
+  chargeMinor: number
+  authorisedMinor: number
+  /** Taken from the hold now; the rest (balance) is asked for with a second checkout. */
+  captureMinor: number
+  balanceMinor: number
+  currency: string
+  estimateMinutes: number
+  estimateMinor: number
+}
+
+/** What finishing with `actualMinutes` of cutting (without setup) charges: the finish form shows it, settleCut takes it. */
+export async function quoteCut(db: Knex, bookingId: number, actualMinutes: number): Promise<CutQuote> {
+  const booking = await paidBooking(db, bookingId)
+  const job = (await db<JobRow>('jobs').where({ id: booking.job_id! }).first())!
+  const { cutter, estimate } = await jobPrice(db, job)
+  const price = priceCut({ cutMinutes: actualMinutes, incrementMinutes: cutter.billingIncrementMinutes, setupMinutes: cutter.setupMinutes, ratePerMinuteMinor: cutter.pricePerMinuteMinor, sheetCount: estimate.sheetCount, sheetPriceMinor: estimate.sheetPriceMinor })
+  const authorisedMinor = booking.authorised_minor ?? 0
+  const captureMinor = Math.min(price.totalPriceMinor, authorisedMinor)
+  return {
+    actualMinutes,
+    billableMinutes: price.billableMinutes,
+    setupMinutes: cutter.setupMinutes,
+    chargeMinor: price.totalPriceMinor,
+    authorisedMinor,
+    captureMinor,
+    balanceMinor: price.totalPriceMinor - captureMinor,
+    currency: cutter.currency,
+    estimateMinutes: estimate.billableMinutes,
+    estimateMinor: booking.estimate_minor ?? estimate.totalPriceMinor,
+  }
+}
+
 /**
  * After the cut: charge the minutes actually used (billed in increments) plus setup and sheets.
  * Never more than was authorised; a higher amount captures the hold and asks the member for the rest.
  */
-export async function settleCut(db: Knex, bookingId: number, actualMinutes: number): Promise<Settlement> {
+export async function settleCut(db: Knex, bookingId: number, actualMinutes: number, confirmedChargeMinor?: number): Promise<Settlement> {
   const booking = await paidBooking(db, bookingId)
-  const job = (await db<JobRow>('jobs').where({ id: booking.job_id! }).first())!
-  const { cutter, estimate } = await jobPrice(db, job)
-  const chargeMinor = priceCut({ cutMinutes: actualMinutes, incrementMinutes: cutter.billingIncrementMinutes, setupMinutes: cutter.setupMinutes, ratePerMinuteMinor: cutter.pricePerMinuteMinor, sheetCount: estimate.sheetCount, sheetPriceMinor: estimate.sheetPriceMinor }).totalPriceMinor
-  const authorisedMinor = booking.authorised_minor ?? 0
-  const capturedMinor = Math.min(chargeMinor, authorisedMinor)
+  const quote = await quoteCut(db, bookingId, actualMinutes)
+  if (confirmedChargeMinor !== undefined && confirmedChargeMinor !== quote.chargeMinor) {
+    throw new Conflict(`The charge is now ${formatMinor(quote.chargeMinor, quote.currency)}, not the ${formatMinor(confirmedChargeMinor, quote.currency)} confirmed. Check the minutes and confirm again; nothing was charged.`)
+  }
+  const { chargeMinor, captureMinor: capturedMinor, currency } = quote
   const intent = await useStripe().paymentIntents.capture(booking.payment_intent_id, { amount_to_capture: capturedMinor }, { idempotencyKey: `capture-${booking.payment_intent_id}` })
   const synced = await syncPaymentIntent(db, intent)
   const balanceMinor = chargeMinor - capturedMinor
   let balanceUrl: string | null = null
   if (balanceMinor > 0) {
     // The debt is on the ledger before any checkout exists, so it stays payable from "My payments" if Stripe fails now.
-    await record(db, booking, { kind: 'owed', amountMinor: balanceMinor, currency: cutter.currency, objectId: booking.payment_intent_id, key: `owed:${booking.id}`, note: `${actualMinutes} minutes cut; the hold covered ${formatMinor(capturedMinor, cutter.currency)}` })
+    await record(db, booking, { kind: 'owed', amountMinor: balanceMinor, currency, objectId: booking.payment_intent_id, key: `owed:${booking.id}`, note: `${actualMinutes} minutes cut; the hold covered ${formatMinor(capturedMinor, currency)}` })
     balanceUrl = await openBalanceCheckout(db, booking.id)
       .then((checkout) => checkout.url)
       .catch((error) => {
@@ -237,7 +274,7 @@ export async function settleCut(db: Knex, bookingId: number, actualMinutes: numb
         return null
       })
   }
-  return { bookingId: booking.id, memberId: booking.member_id, newKinds: synced?.newKinds ?? [], chargeMinor, capturedMinor, balanceMinor, balanceUrl, actualMinutes, estimateMinutes: estimate.billableMinutes }
+  return { bookingId: booking.id, memberId: booking.member_id, newKinds: synced?.newKinds ?? [], chargeMinor, capturedMinor, balanceMinor, balanceUrl, actualMinutes, estimateMinutes: quote.estimateMinutes }
 }
 
 /**

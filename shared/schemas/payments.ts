@@ -1,11 +1,18 @@
 import { z } from 'zod'
 import { requiredText, wholeNumber } from './fields'
 
+// Cutting minutes: machine time spent cutting, without the setup (the cutter's setup minutes are charged on top, once).
+const cuttingMinutes = z.number({ error: 'Cutting minutes must be a number.' }).positive({ error: 'Cutting minutes must be more than 0.' }).max(24 * 60, { error: 'At most 1440 minutes.' })
+
 export const finishCutSchema = z.object({
   // Absent: the timer's minutes are used.
-  actualMinutes: z.number({ error: 'Actual minutes must be a number.' }).positive({ error: 'Actual minutes must be more than 0.' }).max(24 * 60, { error: 'At most 1440 minutes.' }).optional(),
+  actualMinutes: cuttingMinutes.optional(),
   note: z.string().trim().max(1000).default(''),
+  // The charge staff confirmed on the finish form; when it no longer matches, nothing is captured (409).
+  confirmedChargeMinor: z.number().int().nonnegative().optional(),
 })
+
+export const finishQuoteSchema = z.object({ actualMinutes: z.coerce.number().pipe(cuttingMinutes).optional() })
 
 export const refundSchema = z.object({
   amountMinor: wholeNumber('Refund amount', 1, 100_000_000).optional(),

@@ -63,9 +63,20 @@ describe('a cutting day through the API', () => {
     expect(during.timer.running).toBe(true)
     expect(during.problems[0]).toMatchObject({ kind: 're-cut' })
 
-    const finished = await bench.staff.post(`/api/jobs/${jobId}/finish`, { actualMinutes: 3 })
-    expect(finished.status).toBe(200)
+    // The finish form: the timer, the estimate and what 3 cutting minutes (setup not included) will charge; nothing changes yet.
     const job = (await bench.member.get(`/api/jobs/${jobId}`)).body
+    const quote = (await bench.staff.get(`/api/jobs/${jobId}/finish-quote?actualMinutes=3`)).body
+    expect(quote).toMatchObject({ actualMinutes: 3, billableMinutes: 3 + 5, setupMinutes: 5, chargeMinor: (3 + 5) * 100 + job.estimate.materialPriceMinor, estimateMinutes: job.estimate.billableMinutes, estimateMinor: booking.estimateMinor, currency: 'EUR' })
+    expect(quote.timerMinutes).toBeGreaterThan(0)
+    expect((await bench.member.get(`/api/jobs/${jobId}/finish-quote?actualMinutes=3`)).status).toBe(403)
+    // A charge confirmed for other minutes captures nothing: typing the whole machine time (3 + 5 setup) is caught.
+    const stale = await bench.staff.post(`/api/jobs/${jobId}/finish`, { actualMinutes: 8, confirmedChargeMinor: quote.chargeMinor })
+    expect(stale.status).toBe(409)
+    expect((await bench.member.get(`/api/jobs/${jobId}`)).body.state).toBe('cutting')
+    expect((await waitForPaymentState(bench.member, booking.id, 'authorised')).capturedMinor).toBe(0)
+    const finished = await bench.staff.post(`/api/jobs/${jobId}/finish`, { actualMinutes: 3, confirmedChargeMinor: quote.chargeMinor })
+    expect(finished.status).toBe(200)
+    expect(finished.body.chargeMinor).toBe(quote.chargeMinor)
     // Bench cutter: 100 per minute, 5 setup minutes, per-minute billing, plus the job's sheets.
     expect(finished.body.capturedMinor).toBe((3 + 5) * 100 + job.estimate.materialPriceMinor)
     expect((await waitForPaymentState(bench.member, booking.id, 'captured')).capturedMinor).toBe(finished.body.capturedMinor)

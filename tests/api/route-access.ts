@@ -285,6 +285,7 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   'POST /api/jobs/:id/start': { policy: staffOnly(), params: job },
   'POST /api/jobs/:id/timer': { policy: staffOnly(), params: job },
   'POST /api/jobs/:id/finish': { policy: staffOnly(), params: job },
+  'GET /api/jobs/:id/finish-quote': { policy: staffOnly(), params: job },
   'POST /api/jobs/:id/problems': { policy: staffOnly(), params: job },
   'POST /api/jobs/:id/ready': { policy: staffOnly(), params: job },
   'GET /api/jobs/:id/sheets/:sheet': { policy: staffOnly('ok'), params: (w) => ({ ...job(w), sheet: 1 }) },

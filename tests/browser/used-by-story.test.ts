@@ -246,12 +246,18 @@ describe('the used-by story in the browser', () => {
     // A little under the estimate, so the hold on the card covers the charge.
     const actualMinutes = Math.max(0.1, Math.floor(estimatedCutMinutes * 7) / 10)
     expect(actualMinutes).toBeLessThan(estimatedCutMinutes)
-    await entry.getByLabel('Actual minutes').fill(String(actualMinutes))
-    await entry.getByRole('button', { name: 'Finish and charge' }).click()
-    await entry.getByText(`Cut in ${actualMinutes} min.`).waitFor()
-
     const billedMinutes = Math.ceil(actualMinutes / cutter.billingIncrementMinutes) * cutter.billingIncrementMinutes
     const expectedCharge = (billedMinutes + cutter.setupMinutes) * cutter.pricePerMinuteMinor + job.estimate.sheetCount * job.sheet.priceMinor
+    // The field says the minutes are cutting time without setup; the confirmation shows the charge before the card is captured.
+    await entry.getByLabel('Cutting minutes (without setup)').fill(String(actualMinutes))
+    await entry.getByRole('button', { name: 'Finish and charge…' }).click()
+    const finishDialog = staff.page.getByRole('dialog').filter({ hasText: 'Charge the member and finish?' })
+    await finishDialog.waitFor()
+    expect(await finishDialog.textContent()).toContain(`${cutter.setupMinutes} setup`)
+    await screenshot(staff.page, 'story-finish-confirmation')
+    await finishDialog.getByRole('button', { name: `Charge ${formatMoney(expectedCharge, 'EUR')}` }).click()
+    await entry.getByText(`Cut in ${actualMinutes} min.`).waitFor()
+
     await expect
       .poll(async () => (await getJson<PaymentView[]>(member.page, '/api/me/payments')).find((p) => p.bookingId === payment.bookingId), { timeout: 10_000 })
       .toMatchObject({ state: 'captured', capturedMinor: expectedCharge })

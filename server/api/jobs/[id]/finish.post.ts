@@ -9,7 +9,7 @@ export default defineApiHandler(async (event) => {
   const staff = await requireRole(event, 'staff', 'admin')
   const { id } = readParamsAs(event, idParamSchema)
   const input = await readBodyAs(event, finishCutSchema)
-  const { settlement, record } = await finishCut(useDb(), staff, id, input.actualMinutes, input.note)
+  const { settlement, record } = await finishCut(useDb(), staff, id, input.actualMinutes, input.note, input.confirmedChargeMinor)
   await sendJobTransitionMail(useDb(), record)
   await sendPaymentReceipts(useDb(), {
     bookingId: settlement.bookingId,
