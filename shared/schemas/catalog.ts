@@ -29,6 +29,8 @@ export const cutterPatchSchema = cutterSchema.partial()
 export const CUTTER_PRICE_FIELDS = ['pricePerMinuteMinor', 'currency', 'setupMinutes', 'billingIncrementMinutes'] as const
 
 export const sheetSizeSchema = z.object({
+  // An existing stock sheet keeps its id (jobs refer to it); a sheet without one is matched by its exact size, or new.
+  id: z.number().int().positive().optional(),
   widthMm: positiveNumber('Sheet width', 20_000),
   heightMm: positiveNumber('Sheet height', 20_000),
   priceMinor: wholeNumber('Sheet price', 0, 100_000_000),

@@ -161,6 +161,45 @@ describe('materials', () => {
     const byAdmin = await admin.patch(`/api/catalog/materials/${created.body.id}`, { sheets: [{ widthMm: 600, heightMm: 400, priceMinor: 350, currency: 'EUR' }] })
     expect(byAdmin.body.sheets[0].priceMinor).toBe(350)
   })
+
+  it('reprices a stock sheet that jobs use in place, and refuses staff who touch a price or currency by any route', async () => {
+    const admin = await signedIn('admin@example.test')
+    const staff = await signedIn('staff@example.test')
+    const member = await signedIn('member@example.test')
+    const materials = (await member.get('/api/catalog/materials')).body as { id: number; name: string; thicknessMm: number; sheets: { id: number; widthMm: number; heightMm: number; priceMinor: number; currency: string }[] }[]
+    const plywood = materials.find((m) => m.name === 'Birch plywood' && m.thicknessMm === 3)!
+    const cutters = (await member.get('/api/catalog/cutters')).body as { id: number; name: string }[]
+    const job = await member.post('/api/jobs', { title: 'Uses the stock sheet', cutterId: cutters.find((c) => c.name.startsWith('Heron'))!.id, materialId: plywood.id })
+    expect(job.status).toBe(201)
+    const original = plywood.sheets
+    const [first, ...rest] = original
+    try {
+      // The admin's new price on a sheet a job refers to: the same row, a new price (no 500 from the foreign key).
+      const repriced = await admin.patch(`/api/catalog/materials/${plywood.id}`, { sheets: [{ ...first, priceMinor: first!.priceMinor + 10 }, ...rest] })
+      expect(repriced.status).toBe(200)
+      expect(repriced.body.sheets.map((s: { id: number }) => s.id).sort()).toEqual(original.map((s) => s.id).sort())
+      expect(repriced.body.sheets.find((s: { id: number }) => s.id === first!.id).priceMinor).toBe(first!.priceMinor + 10)
+      // Sent without ids (an older form), sheets are matched by their exact size.
+      const bySize = await admin.patch(`/api/catalog/materials/${plywood.id}`, { sheets: original.map(({ widthMm, heightMm, priceMinor, currency }) => ({ widthMm, heightMm, priceMinor, currency })) })
+      expect(bySize.status).toBe(200)
+      expect(bySize.body.sheets.find((s: { id: number }) => s.id === first!.id).priceMinor).toBe(first!.priceMinor)
+      // A sheet a job uses can't be removed.
+      if (rest.length > 0) expect((await admin.patch(`/api/catalog/materials/${plywood.id}`, { sheets: rest })).status).toBe(409)
+
+      // Staff: a nudged size with another sheet's price, a new currency, or a "new" size carrying a price are all refused.
+      const other = rest[0] ?? { ...first!, priceMinor: first!.priceMinor + 99 }
+      expect((await staff.patch(`/api/catalog/materials/${plywood.id}`, { sheets: [{ ...first, widthMm: first!.widthMm + 1, priceMinor: other.priceMinor }, ...rest] })).status).toBe(403)
+      expect((await staff.patch(`/api/catalog/materials/${plywood.id}`, { sheets: [{ ...first, currency: first!.currency === 'EUR' ? 'USD' : 'EUR' }, ...rest] })).status).toBe(403)
+      const { id: _id, ...withoutId } = first!
+      expect((await staff.patch(`/api/catalog/materials/${plywood.id}`, { sheets: [{ ...withoutId, widthMm: first!.widthMm + 1 }, ...rest] })).status).toBe(403)
+      // Staff may change a size, keeping its price and currency.
+      const resized = await staff.patch(`/api/catalog/materials/${plywood.id}`, { sheets: [{ ...first, widthMm: first!.widthMm + 1 }, ...rest] })
+      expect(resized.status).toBe(200)
+      expect((await member.get(`/api/catalog/materials/${plywood.id}`)).body.sheets.find((s: { id: number }) => s.id === first!.id)).toMatchObject({ priceMinor: first!.priceMinor, currency: first!.currency })
+    } finally {
+      expect((await admin.patch(`/api/catalog/materials/${plywood.id}`, { sheets: original })).status).toBe(200)
+    }
+  })
 })
 
 describe('colours, hours, closures', () => {

@@ -76,13 +76,49 @@ export async function assertMaterialAllowedOn(db: Knex, materialId: number, cutt
   return material
 }
 
-async function writeDetails(trx: Knex, materialId: number, input: Partial<MaterialInput>) {
-  if (input.sheets) {
-    await trx('material_sheets').where({ material_id: materialId }).delete()
-    await trx('material_sheets').insert(
-      input.sheets.map((s) => ({ material_id: materialId, width_mm: s.widthMm, height_mm: s.heightMm, price_minor: s.priceMinor, currency: s.currency })),
-    )
+type SheetInput = MaterialInput['sheets'][number]
+
+/**
+ * Pairs each sheet of an edit with the stock sheet it changes: by id, else by its exact size; unpaired ones are new.
+ * Jobs refer to stock sheets by id, so an edit updates rows in place instead of replacing them.
+ */
+function pairSheets(before: SheetSize[], after: SheetInput[]): { sheet: SheetInput; existing: SheetSize | null }[] {
+  const unclaimed = new Map(before.map((s) => [s.id, s]))
+  const byId = after.map((sheet) => {
+    const existing = sheet.id !== undefined ? (unclaimed.get(sheet.id) ?? null) : null
+    if (sheet.id !== undefined && !existing) throw new InvalidInput('That stock sheet is not one of this material’s.', { fields: { sheets: 'Unknown stock sheet.' } })
+    if (existing) unclaimed.delete(existing.id)
+    return { sheet, existing }
+  })
+  return byId.map(({ sheet, existing }) => {
+    if (existing) return { sheet, existing }
+    const sameSize = [...unclaimed.values()].find((s) => s.widthMm === sheet.widthMm && s.heightMm === sheet.heightMm) ?? null
+    if (sameSize) unclaimed.delete(sameSize.id)
+    return { sheet, existing: sameSize }
+  })
+}
+
+/** True when the edit sets a price or currency a stock sheet did not have (a new sheet at price 0 sets no price). */
+function changesSheetPrices(pairs: { sheet: SheetInput; existing: SheetSize | null }[]): boolean {
+  return pairs.some(({ sheet, existing }) => (existing ? existing.priceMinor !== sheet.priceMinor || existing.currency !== sheet.currency : sheet.priceMinor !== 0))
+}
+
+async function writeSheets(trx: Knex, materialId: number, pairs: { sheet: SheetInput; existing: SheetSize | null }[], before: SheetSize[]) {
+  const kept = new Set(pairs.flatMap((p) => (p.existing ? [p.existing.id] : [])))
+  const removed = before.filter((s) => !kept.has(s.id)).map((s) => s.id)
+  if (removed.length > 0) {
+    const used = await trx('jobs').whereIn('sheet_id', removed).count({ n: '*' }).first()
+    if (Number(used?.n) > 0) throw new Conflict('A stock sheet you removed is used by jobs; keep it (change its size or price instead).', { fields: { sheets: 'A removed sheet is used by jobs.' } })
+    await trx('material_sheets').whereIn('id', removed).delete()
   }
+  for (const { sheet, existing } of pairs) {
+    const row = { width_mm: sheet.widthMm, height_mm: sheet.heightMm, price_minor: sheet.priceMinor, currency: sheet.currency }
+    if (existing) await trx('material_sheets').where({ id: existing.id }).update(row)
+    else await trx('material_sheets').insert({ material_id: materialId, ...row })
+  }
+}
+
+async function writeRules(trx: Knex, materialId: number, input: Partial<MaterialInput>) {
   if (input.rules) {
     await trx('material_cutter_rules').where({ material_id: materialId }).delete()
     if (input.rules.length > 0) {
@@ -93,14 +129,9 @@ async function writeDetails(trx: Knex, materialId: number, input: Partial<Materi
   }
 }
 
-/** True when `after` sets a price that `before` did not have for that sheet size (a new size at price 0 is no change). */
-function changesSheetPrices(before: { widthMm: number; heightMm: number; priceMinor: number }[], after: { widthMm: number; heightMm: number; priceMinor: number }[]) {
-  const priceBefore = new Map(before.map((s) => [`${s.widthMm}x${s.heightMm}`, s.priceMinor]))
-  return after.some((s) => (priceBefore.get(`${s.widthMm}x${s.heightMm}`) ?? 0) !== s.priceMinor)
-}
-
 export async function createMaterial(db: Knex, role: Role, input: MaterialInput): Promise<Material> {
-  if (role !== 'admin' && changesSheetPrices([], input.sheets)) {
+  const pairs = pairSheets([], input.sheets)
+  if (role !== 'admin' && changesSheetPrices(pairs)) {
     throw new Forbidden('Only an admin can set sheet prices; add the material with price 0 and ask an admin.')
   }
   const id = await db.transaction(async (trx) => {
@@ -108,7 +139,8 @@ export async function createMaterial(db: Knex, role: Role, input: MaterialInput)
       throw new Conflict(`${input.name} at ${input.thicknessMm} mm already exists.`, { fields: { name: 'Already in the catalog at this thickness.' } })
     }
     const [materialId] = await trx('materials').insert({ name: input.name, family: input.family, thickness_mm: input.thicknessMm, hazard_note: input.hazardNote })
-    await writeDetails(trx, materialId!, input)
+    await writeSheets(trx, materialId!, pairs, [])
+    await writeRules(trx, materialId!, input)
     return materialId!
   })
   return getMaterial(db, id)
@@ -116,8 +148,9 @@ export async function createMaterial(db: Knex, role: Role, input: MaterialInput)
 
 export async function updateMaterial(db: Knex, role: Role, id: number, change: Partial<MaterialInput>): Promise<Material> {
   const before = await getMaterial(db, id)
-  if (role !== 'admin' && change.sheets && changesSheetPrices(before.sheets, change.sheets)) {
-    throw new Forbidden('Only an admin can change sheet prices.')
+  const pairs = change.sheets ? pairSheets(before.sheets, change.sheets) : null
+  if (role !== 'admin' && pairs && changesSheetPrices(pairs)) {
+    throw new Forbidden('Only an admin can change sheet prices and currencies.')
   }
   if (change.thicknessMm !== undefined && change.thicknessMm !== before.thicknessMm) {
     const thinKerf = await db('process_settings').where({ material_id: id }).where('kerf_mm', '>=', change.thicknessMm).first()
@@ -130,7 +163,8 @@ export async function updateMaterial(db: Knex, role: Role, id: number, change: P
     if (change.thicknessMm !== undefined) patch.thickness_mm = change.thicknessMm
     if (change.hazardNote !== undefined) patch.hazard_note = change.hazardNote
     await trx('materials').where({ id }).update(patch)
-    await writeDetails(trx, id, change)
+    if (pairs) await writeSheets(trx, id, pairs, before.sheets)
+    await writeRules(trx, id, change)
   })
   return getMaterial(db, id)
 }
