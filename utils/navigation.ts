@@ -22,6 +22,7 @@ export const NAV_ITEMS: NavItem[] = [
   { label: 'Workshop setup', to: '/staff/setup/cutters', roles: ['staff', 'admin'], area: 'workshop' },
   { label: 'Members', to: '/staff/members', roles: ['staff', 'admin'], area: 'workshop' },
   { label: 'Outbox', to: '/staff/outbox', roles: ['staff', 'admin'], area: 'workshop' },
+  { label: 'Undelivered mail', to: '/staff/mail', roles: ['staff', 'admin'], area: 'workshop' },
   { label: 'Reports', to: '/staff/reports', roles: ['staff', 'admin'], area: 'workshop' },
   { label: 'People & roles', to: '/admin/users', roles: ['admin'], area: 'workshop' },
   { label: 'Payments', to: '/admin/payments', roles: ['admin'], area: 'workshop' },

@@ -1,4 +1,5 @@
 import type { Knex } from 'knex'
+import { timestamps } from '../schema-helpers'
 
 export async function up(knex: Knex): Promise<void> {
   await knex.schema.alterTable('bookings', (t) => {
@@ -8,9 +9,27 @@ export async function up(knex: Knex): Promise<void> {
     t.string('balance_checkout_session_id')
     t.text('balance_checkout_url')
   })
+  // The transactional outbox: a mail is a row written with the change it reports; a background sender delivers it.
+  await knex.schema.createTable('mail_outbox', (t) => {
+    t.increments('id')
+    t.string('recipient').notNullable()
+    t.string('subject').notNullable()
+    // The whole message (paragraphs, action, attachments) as JSON; rendered when sent.
+    t.text('message_json').notNullable()
+    // pending → sending → sent; or, after the last attempt fails, dead (staff see it and may send it again).
+    t.string('status').notNullable().defaultTo('pending')
+    t.integer('attempts').notNullable().defaultTo(0)
+    t.string('next_attempt_at').notNullable()
+    t.string('claimed_at')
+    t.text('last_error')
+    t.string('sent_at')
+    timestamps(knex, t)
+    t.index(['status', 'next_attempt_at'])
+  })
 }
 
 export async function down(knex: Knex): Promise<void> {
+  await knex.schema.dropTable('mail_outbox')
   for (const column of ['cancelling_since', 'balance_checkout_session_id', 'balance_checkout_url']) {
     await knex.schema.alterTable('bookings', (t) => t.dropColumn(column))
   }

@@ -1,12 +1,24 @@
+import type { Knex } from 'knex'
 import type { SessionUser } from '#shared/roles'
+import { issueToken } from './tokens'
 
-// The account e-mails; each is sent by its route after the change it reports has committed.
-export function verificationMail(user: SessionUser, token: string) {
+// The account e-mails, queued in the outbox (the routes answer without waiting for the mail server).
+export function verificationMail(user: SessionUser, token: string, db?: Knex) {
   return sendMail({
     to: user.email,
     subject: 'Confirm your e-mail',
     paragraphs: [`Hello ${user.name},`, 'Please confirm this e-mail address to finish setting up your account. The link works once and for 48 hours.'],
     action: { label: 'Confirm my e-mail', url: `${serverConfig().appUrl}/verify?token=${token}` },
+  }, db)
+}
+
+/** A new confirmation link for an enabled account not confirmed yet (the older link stops working); else nothing. */
+export async function resendVerificationMail(db: Knex, email: string): Promise<boolean> {
+  return db.transaction(async (trx) => {
+    const row = await trx('users').where({ email }).whereNull('disabled_at').whereNull('email_verified_at').first('id', 'email', 'name', 'role')
+    if (!row) return false
+    await verificationMail(row as SessionUser, await issueToken(trx, row.id, 'verify-email'), trx)
+    return true
   })
 }
 

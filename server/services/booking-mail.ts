@@ -35,7 +35,7 @@ export async function sendBookingMail(db: Knex, booking: BookingRow, news: Booki
     paragraphs: [`Hello ${member.name},`, ...lines[news], detail].filter(Boolean),
     action: booking.job_id ? { label: 'Open the job', url: `${serverConfig().appUrl}/jobs/${booking.job_id}` } : undefined,
     attachments: [{ filename: 'booking.ics', content: await bookingIcs(db, booking.id, settings.workshopName), contentType: 'text/calendar; charset=utf-8' }],
-  })
+  }, db)
 }
 
 /**

@@ -11,7 +11,7 @@ interface MailPlan {
   lines: (title: string, memberName: string, comment: string) => string[]
 }
 
-// Who hears about which move, and what they are told. Sent after the transition has committed.
+// Who hears about which move, and what they are told. Queued in the transition's own transaction (job-states.ts).
 const PLANS: Partial<Record<TransitionRecord['action'], MailPlan>> = {
   submit: {
     toStaff: true,
@@ -62,6 +62,6 @@ export async function sendJobTransitionMail(db: Knex, record: TransitionRecord):
       subject: plan.subject(job.title),
       paragraphs: [...plan.lines(job.title, job.name, event?.comment ?? ''), finding ? `About: ${finding}.` : '', `Now: ${JOB_STATE_LABELS[record.to]}.`].filter(Boolean),
       action: { label: 'Open the job', url },
-    })
+    }, db)
   }
 }

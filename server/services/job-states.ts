@@ -5,6 +5,7 @@ import { JOB_STATE_LABELS } from '#shared/job-states'
 import { isStaff, type SessionUser } from '#shared/roles'
 import { Conflict, Forbidden, InvalidInput } from '../utils/errors'
 import { nowIso } from '../utils/rows'
+import { sendJobTransitionMail } from './job-mail'
 
 // The one place that says how a job may move. `owner`: the member whose job it is; `staff`: staff or
 // admin; `system`: other services (booking, payment), never a request directly.
@@ -82,7 +83,10 @@ export async function transitionJob(trx: Knex.Transaction, jobId: number, action
     comment,
     finding_ref_json: options.findingRef ? JSON.stringify(options.findingRef) : null,
   })
-  return { jobId, from, to: transition.to, action }
+  const record = { jobId, from, to: transition.to, action }
+  // The mail about the move is written in the same transaction (the outbox's sender delivers it).
+  await sendJobTransitionMail(trx, record)
+  return record
 }
 
 const ACTION_WORDS: Record<JobAction, [present: string, past: string]> = {

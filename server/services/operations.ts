@@ -8,6 +8,7 @@ import { balancesOwed } from './balance'
 import { transitionJob, type TransitionRecord } from './job-states'
 import { currentFiles, jobEstimate, jobForViewer, type JobRow } from './jobs'
 import { formatMinor } from './money'
+import { sendPickupMail } from './pickup-mail'
 import { quoteCut, settleCut, type CutQuote, type Settlement } from './payments'
 
 export type TimerKind = 'start' | 'pause' | 'resume' | 'finish'
@@ -138,6 +139,7 @@ export async function markReady(db: Knex, staff: SessionUser, jobId: number, loc
     while (await trx('jobs').where({ pickup_code: code, state: 'ready' }).first('id')) code = newPickupCode()
     const record = await transitionJob(trx, jobId, 'markReady', staff, { comment: `On the pickup shelf: ${location}` })
     await trx('jobs').where({ id: jobId }).update({ pickup_code: code, pickup_location: location, ready_at: nowIso() })
+    await sendPickupMail(trx, jobId, 'ready')
     return { record, code }
   })
 }

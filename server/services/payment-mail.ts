@@ -35,6 +35,6 @@ export async function sendPaymentReceipts(db: Knex, context: ReceiptContext): Pr
       subject: words.subject,
       paragraphs: [`Hello ${member.name},`, words.line(formatMinor(row.amount_minor, row.currency)), row.note, context.detail ?? ''].filter(Boolean),
       action: { label: 'Your payments', url: `${serverConfig().appUrl}/payments` },
-    })
+    }, db)
   }
 }

@@ -21,5 +21,5 @@ export async function sendPickupMail(db: Knex, jobId: number, kind: 'ready' | 'r
     ],
     action: { label: 'Open the job', url: `${serverConfig().appUrl}/jobs/${jobId}` },
     attachments: [{ filename: `pickup-${job.pickup_code}.png`, content: qrPng.toString('base64'), contentType: 'image/png', encoding: 'base64' }],
-  })
+  }, db)
 }

@@ -1,17 +1,14 @@
 import { reviewCommentSchema } from '#shared/schemas/jobs'
 import { idParamSchema } from '#shared/schemas/auth'
-import { sendJobTransitionMail } from '../services/job-mail'
 import { moveJob } from '../services/jobs'
 import type { JobAction } from '../services/job-states'
 
-/** The handler of every "move this job" route: the state machine decides who may, the mail goes after commit. */
+/** The handler of every "move this job" route: the state machine decides who may and queues the mail with the move. */
 export function defineJobMoveHandler(action: Exclude<JobAction, 'submit' | 'book' | 'unbook'>) {
   return defineApiHandler(async (event) => {
     const user = await requireUser(event)
     const { id } = readParamsAs(event, idParamSchema)
     const { comment, findingRef } = await readBodyAs(event, reviewCommentSchema)
-    const record = await moveJob(useDb(), user, id, action, { comment, findingRef })
-    await sendJobTransitionMail(useDb(), record)
-    return record
+    return moveJob(useDb(), user, id, action, { comment, findingRef })
   })
 }

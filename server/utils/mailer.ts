@@ -1,14 +1,9 @@
 import nodemailer, { type Transporter } from 'nodemailer'
+import type { Knex } from 'knex'
+import { queueMail, type MailMessage } from '../services/mail-outbox'
 import { workshopDisplayName } from '../services/settings'
 
-export interface MailMessage {
-  to: string
-  subject: string
-  /** Paragraphs of plain text; the HTML part is built from the same paragraphs. */
-  paragraphs: string[]
-  action?: { label: string; url: string }
-  attachments?: { filename: string; content: string; contentType: string; encoding?: 'base64' }[]
-}
+export type { MailMessage } from '../services/mail-outbox'
 
 let transport: Transporter | undefined
 
@@ -32,24 +27,28 @@ export function renderMail(message: MailMessage, workshopName: string): { text: 
 }
 
 /**
- * Sends through SMTP_URL. Callers send only after the change the mail reports has committed;
- * a mail failure is logged and never undoes that change.
+ * Puts the mail in the outbox (server/services/mail-outbox.ts); the background sender delivers it. Pass the
+ * transaction of the change the mail reports, so the two commit together. Never waits for the mail server.
  */
-export async function sendMail(message: MailMessage): Promise<boolean> {
+export async function sendMail(message: MailMessage, db: Knex = useDb()): Promise<boolean> {
+  await queueMail(db, message)
+  return true
+}
+
+// A mail server that accepts and never answers must not hold the sender: every stage has a deadline.
+const SMTP_TIMEOUT_MS = Number(process.env.MAIL_TIMEOUT_MS || 10_000)
+
+/** Delivers one message through SMTP_URL; throws when the mail server refuses, fails or does not answer in time. */
+export async function deliverBySmtp(message: MailMessage): Promise<void> {
   const config = serverConfig()
-  transport ??= nodemailer.createTransport(config.smtpUrl)
+  // Pooled: the sender delivers one mail after another over a kept-open connection.
+  transport ??= nodemailer.createTransport({ url: config.smtpUrl, pool: true, maxConnections: 1, connectionTimeout: SMTP_TIMEOUT_MS, greetingTimeout: SMTP_TIMEOUT_MS, socketTimeout: SMTP_TIMEOUT_MS })
   const workshopName = await workshopDisplayName(useDb())
-  try {
-    await transport.sendMail({
-      from: config.mailFrom,
-      to: message.to,
-      subject: `${message.subject} · ${workshopName}`,
-      ...renderMail(message, workshopName),
-      attachments: message.attachments,
-    })
-    return true
-  } catch (error) {
-    console.error(`[mailer] could not send "${message.subject}" to ${message.to}:`, (error as Error).message)
-    return false
-  }
+  await transport.sendMail({
+    from: config.mailFrom,
+    to: message.to,
+    subject: `${message.subject} · ${workshopName}`,
+    ...renderMail(message, workshopName),
+    attachments: message.attachments,
+  })
 }

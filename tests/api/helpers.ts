@@ -1,4 +1,5 @@
 // Shared helpers for API tests: a cookie-keeping client per actor, and the mail sink.
+import Database from 'better-sqlite3'
 import { inject } from 'vitest'
 
 export const DEMO_PASSWORD = 'kerfbook-demo'
@@ -67,8 +68,22 @@ export interface SinkMessage {
   attachments: { filename: string; contentType: string; content: string }[]
 }
 
-/** Waits for the newest message to `to` whose subject matches, as the SMTP sink received it. */
+/** Waits until the app's mail outbox has sent everything queued so far (mail leaves the app in the background). */
+export async function outboxDrained(timeoutMs = 10_000): Promise<void> {
+  const deadline = Date.now() + timeoutMs
+  while (Date.now() < deadline) {
+    const db = new Database(inject('databasePath'), { readonly: true })
+    const { n } = db.prepare("select count(*) as n from mail_outbox where status in ('pending', 'sending')").get() as { n: number }
+    db.close()
+    if (n === 0) return
+    await new Promise((r) => setTimeout(r, 50))
+  }
+  throw new Error(`The mail outbox still had mail to send after ${timeoutMs} ms`)
+}
+
+/** Waits for the newest message to `to` whose subject matches, as the SMTP sink received it, once the outbox has sent what was queued. */
 export async function waitForMail(to: string, subject: RegExp, timeoutMs = 5000): Promise<SinkMessage> {
+  await outboxDrained()
   const deadline = Date.now() + timeoutMs
   while (Date.now() < deadline) {
     const messages = (await (await fetch(`${inject('outboxUrl')}/messages`)).json()) as SinkMessage[]

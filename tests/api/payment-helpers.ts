@@ -1,5 +1,6 @@
 // Paying through the Stripe fake's hosted checkout page as a browser would, and waiting for the webhook.
 import { expect, inject } from 'vitest'
+import { outboxDrained } from './helpers'
 import type { Client } from './workshop-setup'
 
 export const CARD_PAYS = '4242424242424242'
@@ -35,5 +36,8 @@ export async function countMail(to: string, subject: RegExp): Promise<number> {
   return messages.filter((m) => m.to.includes(to) && subject.test(m.subject)).length
 }
 
-/** Lets webhook deliveries and mails still under way arrive before a count. */
-export const settle = (ms = 1500) => new Promise((r) => setTimeout(r, ms))
+/** Lets webhook deliveries still under way arrive, and the outbox send their mails, before a count. */
+export async function settle(ms = 1000): Promise<void> {
+  await new Promise((r) => setTimeout(r, ms))
+  await outboxDrained()
+}

@@ -2,6 +2,8 @@
 // "METHOD /path/:param" as the file name spells it. tests/api/authorization-matrix.test.ts calls
 // every route as each caller and fails on any route file without an entry here.
 import { randomBytes } from 'node:crypto'
+import Database from 'better-sqlite3'
+import { inject } from 'vitest'
 import { plainPart } from '../fixtures/svg'
 import { client, signedIn } from './helpers'
 import { bookingBench, type BookingBench, type Client } from './workshop-setup'
@@ -38,6 +40,13 @@ export interface RouteAccess {
   endsSession?: boolean
   /** The path holds the member's secret link, so anyone calling it rightly sees the member's things. */
   pathIsCredential?: boolean
+}
+
+function newestMailId(): number {
+  const db = new Database(inject('databasePath'), { readonly: true })
+  const row = db.prepare('select max(id) as id from mail_outbox').get() as { id: number | null }
+  db.close()
+  return row.id ?? 1
 }
 
 const everyone = (expected: Expected): Policy => ({ anonymous: expected, member: expected, otherMember: expected, staff: expected, admin: expected })
@@ -189,6 +198,7 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   'GET /api/analysis/queue': { policy: signedInOnly() },
 
   'POST /api/auth/forgot-password': { policy: PUBLIC },
+  'POST /api/auth/verification-mail': { policy: PUBLIC },
   'POST /api/auth/reset-password': { policy: PUBLIC },
   'POST /api/auth/sign-in': { policy: PUBLIC },
   'POST /api/auth/sign-out': { policy: everyone('ok'), endsSession: true },
@@ -277,6 +287,9 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   'GET /api/me/payments': { policy: signedInOnly('ok') },
   'POST /api/payments/:bookingId/refund': { policy: staffOnly(), params: (w) => ({ bookingId: w.bookingId }) },
   // The member's own balance (409 while nothing is owed); another member is not told the booking exists.
+  'GET /api/staff/mail-outbox': { policy: staffOnly('ok') },
+  // The newest mail in the outbox (delivered: a 409 once through the guard).
+  'POST /api/staff/mail-outbox/:id/retry': { policy: staffOnly(), params: () => ({ id: newestMailId() }) },
   'POST /api/payments/:bookingId/balance': { policy: ownerAndStaff(), params: (w) => ({ bookingId: w.bookingId }) },
   // Anyone may knock; only a valid Stripe-Signature gets in (an unsigned call is a 400).
   'POST /api/webhooks/stripe': { policy: PUBLIC },

@@ -1,6 +1,5 @@
 import { idParamSchema } from '#shared/schemas/auth'
 import { finishCutSchema } from '#shared/schemas/payments'
-import { sendJobTransitionMail } from '../../../services/job-mail'
 import { finishCut } from '../../../services/operations'
 import { sendPaymentReceipts } from '../../../services/payment-mail'
 
@@ -9,8 +8,7 @@ export default defineApiHandler(async (event) => {
   const staff = await requireRole(event, 'staff', 'admin')
   const { id } = readParamsAs(event, idParamSchema)
   const input = await readBodyAs(event, finishCutSchema)
-  const { settlement, record } = await finishCut(useDb(), staff, id, input.actualMinutes, input.note, input.confirmedChargeMinor)
-  await sendJobTransitionMail(useDb(), record)
+  const { settlement } = await finishCut(useDb(), staff, id, input.actualMinutes, input.note, input.confirmedChargeMinor)
   await sendPaymentReceipts(useDb(), {
     bookingId: settlement.bookingId,
     memberId: settlement.memberId,

@@ -1,7 +1,6 @@
 import { idParamSchema } from '#shared/schemas/auth'
 import { readySchema } from '#shared/schemas/payments'
 import { markReady } from '../../../services/operations'
-import { sendPickupMail } from '../../../services/pickup-mail'
 
 // Parts on the shelf: the member gets a one-time pickup code (and its QR code) by e-mail.
 export default defineApiHandler(async (event) => {
@@ -9,6 +8,5 @@ export default defineApiHandler(async (event) => {
   const { id } = readParamsAs(event, idParamSchema)
   const { location } = await readBodyAs(event, readySchema)
   const { record } = await markReady(useDb(), staff, id, location)
-  await sendPickupMail(useDb(), id, 'ready')
   return record
 })

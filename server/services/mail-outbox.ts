@@ -1,0 +1,112 @@
+import type { Knex } from 'knex'
+import { nowIso } from '../utils/rows'
+
+/** A mail as the services write it; the mailer renders it (HTML and text) when it is sent. */
+export interface MailMessage {
+  to: string
+  subject: string
+  /** Paragraphs of plain text; the HTML part is built from the same paragraphs. */
+  paragraphs: string[]
+  action?: { label: string; url: string }
+  attachments?: { filename: string; content: string; contentType: string; encoding?: 'base64' }[]
+}
+
+export interface OutboxPolicy {
+  /** Attempts before a mail is dead-lettered. */
+  maxAttempts: number
+  /** Wait after the first failure; doubled after each further one, up to `maxDelayMs`. */
+  baseDelayMs: number
+  maxDelayMs: number
+  /** A claim older than this was left by a sender that stopped mid-send; the mail is tried again. */
+  staleClaimMs: number
+  batch: number
+}
+
+/** From MAIL_MAX_ATTEMPTS, MAIL_RETRY_BASE_MS, MAIL_RETRY_MAX_MS (README: Mail). */
+export function outboxPolicy(env = process.env): OutboxPolicy {
+  return {
+    maxAttempts: Number(env.MAIL_MAX_ATTEMPTS || 10),
+    baseDelayMs: Number(env.MAIL_RETRY_BASE_MS || 30_000),
+    maxDelayMs: Number(env.MAIL_RETRY_MAX_MS || 60 * 60_000),
+    staleClaimMs: 10 * 60_000,
+    batch: 20,
+  }
+}
+
+/** Writes the mail into the outbox; pass the transaction of the change it reports, so both commit or neither. */
+export async function queueMail(db: Knex, message: MailMessage): Promise<number> {
+  const [id] = await db('mail_outbox').insert({ recipient: message.to, subject: message.subject, message_json: JSON.stringify(message), next_attempt_at: nowIso() })
+  return id!
+}
+
+/** Exponential back-off: base, 2 × base, 4 × base … never more than the cap. */
+export function retryDelayMs(failedAttempts: number, policy: Pick<OutboxPolicy, 'baseDelayMs' | 'maxDelayMs'>): number {
+  return Math.min(policy.maxDelayMs, policy.baseDelayMs * 2 ** Math.max(0, failedAttempts - 1))
+}
+
+/**
+ * Sends the mails that are due, each claimed first (so two senders never send one mail twice), and records
+ * the outcome: sent; or tried again later with back-off; or dead after the last attempt.
+ */
+export async function deliverDueMail(db: Knex, send: (message: MailMessage) => Promise<void>, policy: OutboxPolicy, now = () => new Date()): Promise<{ sent: number; failed: number; dead: number }> {
+  const stale = new Date(now().getTime() - policy.staleClaimMs).toISOString()
+  await db('mail_outbox').where({ status: 'sending' }).where('claimed_at', '<', stale).update({ status: 'pending', claimed_at: null })
+  const outcome = { sent: 0, failed: 0, dead: 0 }
+  // Batch after batch until nothing is due; a failed mail is due again only after its back-off, so this ends.
+  for (;;) {
+    const due = await db('mail_outbox').where({ status: 'pending' }).where('next_attempt_at', '<=', now().toISOString()).orderBy('id').limit(policy.batch).select('id', 'message_json', 'attempts')
+    await deliverBatch(db, due, send, policy, now, outcome)
+    if (due.length < policy.batch) return outcome
+  }
+}
+
+async function deliverBatch(db: Knex, due: { id: number; message_json: string; attempts: number }[], send: (message: MailMessage) => Promise<void>, policy: OutboxPolicy, now: () => Date, outcome: { sent: number; failed: number; dead: number }): Promise<void> {
+  for (const row of due) {
+    const claimed = await db('mail_outbox').where({ id: row.id, status: 'pending' }).update({ status: 'sending', claimed_at: now().toISOString() })
+    if (claimed !== 1) continue
+    try {
+      await send(JSON.parse(row.message_json) as MailMessage)
+      await db('mail_outbox').where({ id: row.id }).update({ status: 'sent', sent_at: now().toISOString(), attempts: row.attempts + 1, last_error: null, updated_at: nowIso() })
+      outcome.sent++
+    } catch (error) {
+      const attempts = row.attempts + 1
+      const dead = attempts >= policy.maxAttempts
+      await db('mail_outbox')
+        .where({ id: row.id })
+        .update({
+          status: dead ? 'dead' : 'pending',
+          attempts,
+          claimed_at: null,
+          last_error: String((error as Error).message ?? error).slice(0, 500),
+          next_attempt_at: new Date(now().getTime() + retryDelayMs(attempts, policy)).toISOString(),
+          updated_at: nowIso(),
+        })
+      if (dead) outcome.dead++
+      else outcome.failed++
+    }
+  }
+}
+
+export interface UndeliveredMail {
+  id: number
+  recipient: string
+  subject: string
+  status: 'pending' | 'sending' | 'dead'
+  attempts: number
+  lastError: string | null
+  nextAttemptAt: string
+  createdAt: string
+}
+
+/** Mail not delivered yet: waiting for a retry after a failure, being sent, or dead-lettered. Newest first. */
+export async function undeliveredMail(db: Knex): Promise<UndeliveredMail[]> {
+  const rows = await db('mail_outbox').whereNot('status', 'sent').where((q) => q.where('attempts', '>', 0).orWhere('status', 'dead')).orderBy('id', 'desc').limit(200)
+  return rows.map((r) => ({ id: r.id, recipient: r.recipient, subject: r.subject, status: r.status, attempts: r.attempts, lastError: r.last_error, nextAttemptAt: r.next_attempt_at, createdAt: r.created_at }))
+}
+
+/** Staff send a dead (or waiting) mail again now; a mail already sent or being sent is left alone. */
+export async function retryMailNow(db: Knex, id: number): Promise<'queued' | 'delivered' | 'missing'> {
+  const changed = await db('mail_outbox').where({ id }).whereIn('status', ['dead', 'pending']).update({ status: 'pending', attempts: 0, next_attempt_at: nowIso(), updated_at: nowIso() })
+  if (changed === 1) return 'queued'
+  return (await db('mail_outbox').where({ id }).first('id')) ? 'delivered' : 'missing'
+}
