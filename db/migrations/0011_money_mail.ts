@@ -9,6 +9,14 @@ export async function up(knex: Knex): Promise<void> {
     t.string('balance_checkout_session_id')
     t.text('balance_checkout_url')
   })
+  // A finish under way: written before the card is captured, cleared when the finish commits. A server that stops
+  // between the two leaves it, and the reconcile duty (operations.ts) completes the finish from Stripe's state.
+  await knex.schema.alterTable('jobs', (t) => {
+    t.float('finishing_minutes')
+    t.text('finishing_comment')
+    t.integer('finishing_by').references('users.id')
+    t.string('finishing_since')
+  })
   // The transactional outbox: a mail is a row written with the change it reports; a background sender delivers it.
   await knex.schema.createTable('mail_outbox', (t) => {
     t.increments('id')
@@ -30,6 +38,9 @@ export async function up(knex: Knex): Promise<void> {
 
 export async function down(knex: Knex): Promise<void> {
   await knex.schema.dropTable('mail_outbox')
+  for (const column of ['finishing_minutes', 'finishing_comment', 'finishing_by', 'finishing_since']) {
+    await knex.schema.alterTable('jobs', (t) => t.dropColumn(column))
+  }
   for (const column of ['cancelling_since', 'balance_checkout_session_id', 'balance_checkout_url']) {
     await knex.schema.alterTable('bookings', (t) => t.dropColumn(column))
   }

@@ -3,11 +3,13 @@ import type { Knex } from 'knex'
 import type { SessionUser } from '#shared/roles'
 import { Conflict, InvalidInput, NotFound } from '../utils/errors'
 import { nowIso } from '../utils/rows'
+import { useStripe } from '../utils/stripe'
 import { cancellingNow, liveBookings, type BookingRow } from './bookings'
 import { balancesOwed } from './balance'
 import { transitionJob, type TransitionRecord } from './job-states'
 import { currentFiles, jobEstimate, jobForViewer, type JobRow } from './jobs'
 import { formatMinor } from './money'
+import { sendPaymentReceipts } from './payment-mail'
 import { sendPickupMail } from './pickup-mail'
 import { quoteCut, settleCut, type CutQuote, type Settlement } from './payments'
 
@@ -102,14 +104,27 @@ export async function finishCut(db: Knex, staff: SessionUser, jobId: number, typ
   const timer = timerMinutes(await timerEvents(db, jobId))
   const actualMinutes = minutesToCharge(typedMinutes, timer)
   if (job.state !== 'cutting') throw new Conflict('Only a job on the machine can be finished.')
-  const estimate = await jobEstimate(db, job, await currentFiles(db, jobId))
+  const comment = `Cut in ${actualMinutes} min${typedMinutes === undefined ? ' (timer)' : ''}${note ? `: ${note}` : ''}`
+  // The finish is noted before the card is captured, so a crash between the capture and the commit can be completed.
+  await db('jobs').where({ id: jobId, state: 'cutting' }).update({ finishing_minutes: actualMinutes, finishing_comment: comment, finishing_by: staff.id, finishing_since: nowIso() })
   // Charge first: if the payment service fails, the job stays on the machine and finishing can be tried again.
   const settlement = await settleCut(db, booking.id, actualMinutes, confirmedChargeMinor)
+  return { settlement, record: await commitFinish(db, job, staff, actualMinutes, comment) }
+}
+
+/** The finish's own write, after the payment: the move, the timer's end, and what the estimate said then. */
+async function commitFinish(db: Knex, job: JobRow, staff: SessionUser, actualMinutes: number, comment: string): Promise<TransitionRecord> {
+  const jobId = job.id
+  const estimate = await jobEstimate(db, job, await currentFiles(db, jobId))
   const now = nowIso()
-  const record = await db.transaction(async (trx) => {
-    const moved = await transitionJob(trx, jobId, 'finishCutting', staff, { comment: `Cut in ${actualMinutes} min${typedMinutes === undefined ? ' (timer)' : ''}${note ? `: ${note}` : ''}` })
+  return db.transaction(async (trx) => {
+    const moved = await transitionJob(trx, jobId, 'finishCutting', staff, { comment })
     await trx('cut_timer_events').insert({ job_id: jobId, kind: 'finish', at: now, actor_id: staff.id })
     await trx('jobs').where({ id: jobId }).update({
+      finishing_minutes: null,
+      finishing_comment: null,
+      finishing_by: null,
+      finishing_since: null,
       actual_minutes: actualMinutes,
       estimated_minutes: estimate.machineS / 60,
       estimated_cut_s: estimate.components.cutS,
@@ -122,7 +137,36 @@ export async function finishCut(db: Knex, staff: SessionUser, jobId: number, typ
     })
     return moved
   })
-  return { settlement, record }
+}
+
+// A finish noted this long ago and not committed was cut off (the capture call itself times out well before).
+const FINISH_STALE_MS = 2 * 60_000
+
+/**
+ * The reconcile duty: a finish noted before its capture but never committed (the server stopped in between) is
+ * completed from the PaymentIntent's real state — captured: settled and committed with the noted minutes; still
+ * only held: the note is dropped and staff finish again. Stripe's webhook retries are not the only way back.
+ */
+export async function reconcileUnfinishedCuts(db: Knex, olderThanMs = FINISH_STALE_MS): Promise<{ finished: Settlement[]; reopened: number }> {
+  const before = new Date(Date.now() - olderThanMs).toISOString()
+  const stuck = await db<JobRow & { finishing_minutes: number; finishing_comment: string; finishing_by: number }>('jobs').where({ state: 'cutting' }).whereNotNull('finishing_since').where('finishing_since', '<=', before)
+  const finished: Settlement[] = []
+  let reopened = 0
+  for (const job of stuck) {
+    const booking = (await bookingOfJob(db, job.id)) as BookingRow & { payment_intent_id: string | null }
+    const intent = booking.payment_intent_id ? await useStripe().paymentIntents.retrieve(booking.payment_intent_id) : null
+    if (intent?.status !== 'succeeded') {
+      await db('jobs').where({ id: job.id }).update({ finishing_minutes: null, finishing_comment: null, finishing_by: null, finishing_since: null })
+      reopened++
+      continue
+    }
+    const staff = await db('users').where({ id: job.finishing_by }).first('id', 'email', 'name', 'role')
+    const settlement = await settleCut(db, booking.id, job.finishing_minutes)
+    await commitFinish(db, job, staff as SessionUser, job.finishing_minutes, `${job.finishing_comment} (completed by the payment check)`)
+    await sendPaymentReceipts(db, { bookingId: settlement.bookingId, memberId: settlement.memberId, kinds: settlement.newKinds, detail: `${settlement.actualMinutes} machine minutes used (estimated ${settlement.estimateMinutes}).` })
+    finished.push(settlement)
+  }
+  return { finished, reopened }
 }
 
 // Codes are read aloud and typed: no 0/O or 1/I/L.

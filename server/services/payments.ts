@@ -259,10 +259,22 @@ export async function settleCut(db: Knex, bookingId: number, actualMinutes: numb
   if (confirmedChargeMinor !== undefined && confirmedChargeMinor !== quote.chargeMinor) {
     throw new Conflict(`The charge is now ${formatMinor(quote.chargeMinor, quote.currency)}, not the ${formatMinor(confirmedChargeMinor, quote.currency)} confirmed. Check the minutes and confirm again; nothing was charged.`)
   }
-  const { chargeMinor, captureMinor: capturedMinor, currency } = quote
-  const intent = await useStripe().paymentIntents.capture(booking.payment_intent_id, { amount_to_capture: capturedMinor }, { idempotencyKey: `capture-${booking.payment_intent_id}` })
+  const { chargeMinor, currency } = quote
+  const stripe = useStripe()
+  // Stripe's own state first: a finish that captured and then lost its commit (a crash, a lost answer) is not
+  // captured again (the capture's key would refuse other amounts); what it captured is reconciled with this charge.
+  const current = await stripe.paymentIntents.retrieve(booking.payment_intent_id)
+  const alreadyCaptured = current.status === 'succeeded'
+  const intent = alreadyCaptured ? current : await stripe.paymentIntents.capture(booking.payment_intent_id, { amount_to_capture: quote.captureMinor }, { idempotencyKey: `capture-${booking.payment_intent_id}` })
   const synced = await syncPaymentIntent(db, intent)
-  const balanceMinor = chargeMinor - capturedMinor
+  const capturedMinor = intent.amount_received
+  const newKinds = [...(synced?.newKinds ?? [])]
+  if (capturedMinor > chargeMinor) {
+    // The earlier capture was for more minutes than finally logged: the difference goes back to the card.
+    const refund = await stripe.refunds.create({ payment_intent: intent.id, amount: capturedMinor - chargeMinor, metadata: { bookingId: String(booking.id) } }, { idempotencyKey: `recapture-refund-${intent.id}-${chargeMinor}` })
+    if (await record(db, booking, { kind: 'refunded', amountMinor: refund.amount, currency, objectId: refund.id, key: `refund:${refund.id}`, note: `Finished with ${actualMinutes} minutes; the earlier capture was for more` })) newKinds.push('refunded')
+  }
+  const balanceMinor = Math.max(0, chargeMinor - capturedMinor)
   let balanceUrl: string | null = null
   if (balanceMinor > 0) {
     // The debt is on the ledger before any checkout exists, so it stays payable from "My payments" if Stripe fails now.
@@ -274,7 +286,7 @@ export async function settleCut(db: Knex, bookingId: number, actualMinutes: numb
         return null
       })
   }
-  return { bookingId: booking.id, memberId: booking.member_id, newKinds: synced?.newKinds ?? [], chargeMinor, capturedMinor, balanceMinor, balanceUrl, actualMinutes, estimateMinutes: quote.estimateMinutes }
+  return { bookingId: booking.id, memberId: booking.member_id, newKinds, chargeMinor, capturedMinor: Math.min(capturedMinor, chargeMinor), balanceMinor, balanceUrl, actualMinutes, estimateMinutes: quote.estimateMinutes }
 }
 
 /**

@@ -294,6 +294,7 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   // Anyone may knock; only a valid Stripe-Signature gets in (an unsigned call is a 400).
   'POST /api/webhooks/stripe': { policy: PUBLIC },
   'POST /api/admin/tasks/release-holds': { policy: adminOnly('ok') },
+  'POST /api/admin/tasks/reconcile-payments': { policy: adminOnly('ok') },
   'POST /api/admin/tasks/pickup-reminders': { policy: adminOnly('ok') },
   'POST /api/jobs/:id/start': { policy: staffOnly(), params: job },
   'POST /api/jobs/:id/timer': { policy: staffOnly(), params: job },
