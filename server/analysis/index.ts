@@ -56,7 +56,7 @@ export function analyzeSvgWithGeometry(svgText: string, params: AnalysisParams, 
 
 /**
  * Parse and read in a scope of their own: once the drawing is read, the
- * svgson tree (millions of small strings) is garbage, and the collector no
+ * SVG tree (millions of small objects and strings) is garbage, and the collector no
  * longer walks it during the later stages.
  */
 function readSvgText(svgText: string, params: AnalysisParams, findings: FindingCollector, lap: (stage: AnalysisStage) => void): ReadDrawing {
