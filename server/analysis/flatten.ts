@@ -1,6 +1,6 @@
 import svgpath from 'svgpath'
 import arcToCubics from 'svgpath/lib/a2c.js'
-import { measuredCurveLength } from './curveLength'
+import type { CurveLengthMemory } from './curveLength'
 import { AnalysisInputError } from './errors'
 import type { Matrix } from './matrix'
 import type { PolylineSet } from './polylines'
@@ -26,8 +26,8 @@ interface SvgPathWithState {
  * the matrix as svgpath's Matrix.calc would take them, and curves are used
  * as read when the matrix is the identity (svgpath leaves them alone then).
  */
-export function flattenPath(pathData: string, matrix: Matrix, chordToleranceMm: number, target: PolylineSet, operationCode: number, elementIndex: number, forceClosed: boolean): void {
-  const subpaths = new SubpathWriter(target, operationCode, elementIndex, forceClosed)
+export function flattenPath(pathData: string, matrix: Matrix, chordToleranceMm: number, target: PolylineSet, operationCode: number, elementIndex: number, forceClosed: boolean, curveLengths: CurveLengthMemory): void {
+  const subpaths = new SubpathWriter(target, operationCode, elementIndex, forceClosed, curveLengths)
   const [a, b, c, d, e, f] = matrix
   // svgpath's own identity test: under it no arithmetic may touch the numbers.
   const identity = a === 1 && b === 0 && c === 0 && d === 1 && e === 0 && f === 0
@@ -106,7 +106,7 @@ function flattenCurve(command: number, numbers: Float64Array, offset: number, ch
       ? addCubic(target, x, y, numbers[offset], numbers[offset + 1], numbers[offset + 2], numbers[offset + 3], numbers[offset + 4], numbers[offset + 5], chordToleranceMm)
       : addQuadratic(target, x, y, numbers[offset], numbers[offset + 1], numbers[offset + 2], numbers[offset + 3], chordToleranceMm)
     const end = offset + (isCubic ? 4 : 2)
-    subpaths.curveTo(numbers[end], numbers[end + 1], curveLength(x, y, command, numbers, offset, chordsMm))
+    subpaths.curveTo(numbers[end], numbers[end + 1], curveLength(subpaths.curveLengths, x, y, command, numbers, offset, chordsMm))
     return
   }
   const rx = numbers[offset]
@@ -129,7 +129,7 @@ function flattenCurve(command: number, numbers: Float64Array, offset: number, ch
   target.xy[2 * target.pointCount - 2] = toX
   target.xy[2 * target.pointCount - 1] = toY
   // The cubics approximating an arc bulge slightly outside it, so their chords are no lower bound here.
-  subpaths.curveTo(toX, toY, curveLength(x, y, command, numbers, offset, 0))
+  subpaths.curveTo(toX, toY, curveLength(subpaths.curveLengths, x, y, command, numbers, offset, 0))
 }
 
 /**
@@ -150,6 +150,7 @@ class SubpathWriter {
     private readonly operationCode: number,
     private readonly elementIndex: number,
     private readonly forceClosed: boolean,
+    readonly curveLengths: CurveLengthMemory,
   ) {}
 
   moveTo(x: number, y: number): void {
@@ -200,8 +201,8 @@ class SubpathWriter {
  * given: by the triangle inequality no curve is shorter than its chords, and
  * quadrature undershoots near cusps.
  */
-function curveLength(fromX: number, fromY: number, command: number, numbers: Float64Array, offset: number, chordsMm: number): number {
-  return Math.max(chordsMm, measuredCurveLength(fromX, fromY, command, numbers, offset))
+function curveLength(curveLengths: CurveLengthMemory, fromX: number, fromY: number, command: number, numbers: Float64Array, offset: number, chordsMm: number): number {
+  return Math.max(chordsMm, curveLengths.measure(fromX, fromY, command, numbers, offset))
 }
 
 function addPoint(target: PolylineSet, x: number, y: number): void {

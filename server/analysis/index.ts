@@ -1,4 +1,5 @@
 import { chainPolylines } from './chain'
+import { CurveLengthMemory } from './curveLength'
 import { runDesignRuleChecks } from './checks/index'
 import { type CutFileFormat, detectCutFileFormat } from './dxf/format'
 import { parseDxf } from './dxf/parseDxf'
@@ -95,8 +96,9 @@ export function analyzeCutFileWithGeometry(text: string, params: AnalysisParams,
 
 function analyzeDrawing(drawing: ReadDrawing, params: AnalysisParams, findings: FindingCollector, lap: (stage: AnalysisStage) => void): { result: AnalysisResult; geometry: AnalysedGeometry } {
   const pieces = new PolylineSet()
+  const curveLengths = new CurveLengthMemory()
   drawing.elements.forEach((element, elementIndex) => {
-    flattenPath(element.pathData, element.matrix, params.chordToleranceMm, pieces, OPERATION_CODES[element.operation], elementIndex, element.filled)
+    flattenPath(element.pathData, element.matrix, params.chordToleranceMm, pieces, OPERATION_CODES[element.operation], elementIndex, element.filled, curveLengths)
   })
   lap('flatten')
   const contours = chainPolylines(pieces, params.chainToleranceMm)
