@@ -1,6 +1,6 @@
 import { svgPathProperties } from 'svg-path-properties'
-import { arcLengthFromOrigin } from './arcLength'
-import { CURVE_ARC, curveNumberCount } from './pathSteps'
+import { arcLengthFromOrigin, cubicLengthFromOrigin } from './curveLengthPort'
+import { CURVE_ARC, CURVE_CUBIC, curveNumberCount } from './pathSteps'
 
 // Drawings repeat the same holes, reliefs and rounded corners thousands of
 // times; past this many distinct curves in one analysis the memory starts afresh.
@@ -61,15 +61,14 @@ export class CurveLengthMemory {
 /**
  * The shape's length as svg-path-properties measures the path "M0 0" and the
  * segment in `shape` (its numbers written as text and read back, which gives
- * the same numbers): arcs by the same arithmetic without the library's
- * objects (`arcLength.ts`), curves by the library.
+ * the same numbers): arcs and cubics by the same arithmetic without the
+ * library's objects (`curveLengthPort.ts`), quadratics by the library.
  */
 function lengthFromOrigin(shape: Float64Array, command: number, count: number): number {
-  if (command === CURVE_ARC) {
-    const number = (position: number) => shape[position] / ROUNDINGS_PER_MM
-    // The library's path reader takes a flag as set when it reads exactly 1.
-    return arcLengthFromOrigin(number(1), number(2), number(3), number(4) === 1, number(5) === 1, number(6), number(7))
-  }
+  const number = (position: number) => shape[position] / ROUNDINGS_PER_MM
+  // The library's path reader takes a flag as set when it reads exactly 1.
+  if (command === CURVE_ARC) return arcLengthFromOrigin(number(1), number(2), number(3), number(4) === 1, number(5) === 1, number(6), number(7))
+  if (command === CURVE_CUBIC) return cubicLengthFromOrigin(number(1), number(2), number(3), number(4), number(5), number(6))
   return new svgPathProperties(pathDataFromOrigin(shape, command, count)).getTotalLength()
 }
 

@@ -1,10 +1,10 @@
 import fc from 'fast-check'
 import { svgPathProperties } from 'svg-path-properties'
 import { describe, expect, it } from 'vitest'
-import { arcLengthFromOrigin } from '../../server/analysis/arcLength'
+import { arcLengthFromOrigin, cubicLengthFromOrigin } from '../../server/analysis/curveLengthPort'
 
-// Reference: svg-path-properties 2.1.0, which measured every arc before; the engine's port must give its
-// length bit for bit (so results do not move), for any arc from the origin.
+// Reference: svg-path-properties 2.1.0, which measured every arc and cubic before; the engine's port must
+// give its length bit for bit (so results do not move), for any arc or cubic from the origin.
 function libraryLength(rx: number, ry: number, rotationDeg: number, largeArc: 0 | 1, sweep: 0 | 1, x: number, y: number): number {
   return new svgPathProperties(`M0 0A${rx} ${ry} ${rotationDeg} ${largeArc} ${sweep} ${x} ${y}`).getTotalLength()
 }
@@ -42,6 +42,31 @@ describe('arc length, bit for bit as svg-path-properties', () => {
         expectSameAsLibrary(rx, ry, rotation, largeArc, sweep, x, y)
       }),
       { numRuns: 2000, seed: 11 },
+    )
+  })
+})
+
+describe('cubic length, bit for bit as svg-path-properties', () => {
+  const libraryCubic = (numbers: number[]) => new svgPathProperties(`M0 0C${numbers.join(' ')}`).getTotalLength()
+  it('agrees on hand-picked cubics: a tab, a straight one, a loop, a cusp, a point', () => {
+    const cases = [
+      [0, -1.2, 2.5, -1.2, 2.5, 0],
+      [1, 1, 2, 2, 3, 3],
+      [10, 10, -10, 10, 0, 0],
+      [5, 0, 0, 5, 5, 5],
+      [0, 0, 0, 0, 0, 0],
+      [1e-9, 2e-9, -3e-9, 4e-9, 5e-9, 0],
+    ]
+    for (const numbers of cases) expect(cubicLengthFromOrigin(...(numbers as [number, number, number, number, number, number])), numbers.join(' ')).toBe(libraryCubic(numbers))
+  })
+
+  it('agrees on random cubics', () => {
+    const coordinate = fc.double({ min: -100, max: 100, noNaN: true, noDefaultInfinity: true })
+    fc.assert(
+      fc.property(fc.array(coordinate, { minLength: 6, maxLength: 6 }), (numbers) => {
+        expect(cubicLengthFromOrigin(...(numbers as [number, number, number, number, number, number]))).toBe(libraryCubic(numbers))
+      }),
+      { numRuns: 3000, seed: 5 },
     )
   })
 })
