@@ -20,7 +20,8 @@ export default defineNuxtModule({
         await bundleWorker(devBundle)
       })
       nuxt.hook('builder:watch', async (_event, path) => {
-        if (/server\/(analysis|workers)\//.test(path)) await bundleWorker(devBundle)
+        // The worker bundles the engine, its own entry and the shared packed formats and finding types.
+        if (/server\/(analysis|workers)\/|shared\/(packed-analysis|finding-groups)\.ts$/.test(path)) await bundleWorker(devBundle)
       })
     }
     nuxt.hook('nitro:init', (nitro) => {

@@ -73,11 +73,11 @@ export function encodeGeometry(source: ContourSource): Uint8Array {
   return new Uint8Array(buffer)
 }
 
-/** Views the bytes in place when they are aligned, else copies them once. */
+/** Views the bytes in place when they fill their own aligned buffer, else copies them once (a Node Buffer is often a view into a shared pool). */
 function alignedBuffer(bytes: Uint8Array | ArrayBuffer): ArrayBuffer {
   if (bytes instanceof ArrayBuffer) return bytes
-  if (bytes.byteOffset % 4 === 0 && bytes.buffer instanceof ArrayBuffer) return bytes.byteOffset === 0 && bytes.byteLength === bytes.buffer.byteLength ? bytes.buffer : bytes.slice().buffer
-  return bytes.slice().buffer
+  if (bytes.byteOffset === 0 && bytes.buffer instanceof ArrayBuffer && bytes.byteLength === bytes.buffer.byteLength) return bytes.buffer
+  return new Uint8Array(bytes).buffer as ArrayBuffer
 }
 
 export function decodeGeometry(bytes: Uint8Array | ArrayBuffer): PreviewGeometry {

@@ -11,6 +11,13 @@ import { freePort } from './free-port'
 import { startSmtpSink } from './smtp-sink'
 import { startStripeFake } from './stripe-fake/index'
 
+/**
+ * glibc keeps the memory of a large analysis's short-lived buffers in its arenas long after they are freed;
+ * two arenas, mmap for blocks over 128 KiB and trimming on every free hand it back to the system (measured
+ * with four 6.7 MB uploads at once: RSS 30 s later 763 → 169 MB). `npm start` sets the same.
+ */
+export const SERVER_MALLOC_ENV = { MALLOC_ARENA_MAX: '2', MALLOC_MMAP_THRESHOLD_: '131072', MALLOC_TRIM_THRESHOLD_: '0' }
+
 export interface BuiltApp {
   baseUrl: string
   outboxUrl: string
@@ -73,6 +80,7 @@ export async function startBuiltApp(options: BuiltAppOptions): Promise<BuiltApp>
       STRIPE_SECRET_KEY: 'sk_test_kerfbook_local_run',
       STRIPE_WEBHOOK_SECRET: stripeWebhookSecret,
       KERFBOOK_REMINDERS: 'off',
+      ...SERVER_MALLOC_ENV,
       NUXT_SESSION_PASSWORD: randomBytes(32).toString('hex'),
       ...options.env,
     },

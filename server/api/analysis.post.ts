@@ -1,10 +1,12 @@
+import { countGroups } from '#shared/finding-groups'
 import { analysisFieldsSchema } from '#shared/schemas/analysis'
 import { withDefaults } from '../analysis/index'
 import { analysisParamsFor } from '../services/analysis-profile'
 
-// Measures an uploaded SVG for a cutter × material from the catalog (or the default profile).
+// Measures an uploaded SVG or DXF for a cutter × material from the catalog (or the default profile). With
+// preview=1 the packed geometry and sites come along, gzip-compressed and base64-encoded, as nothing is stored.
 export default defineApiHandler(async (event) => {
-  await requireUser(event)
+  const user = await requireUser(event)
   const upload = await readCutFileUpload(event)
   const input = analysisFieldsSchema.parse(upload.fields)
   const params =
@@ -12,5 +14,8 @@ export default defineApiHandler(async (event) => {
       ? await analysisParamsFor(useDb(), { cutterId: input.cutterId, materialId: input.materialId, sheetId: input.sheetId })
       : withDefaults()
   if (input.dpi) params.dpi = input.dpi
-  return analyzeInWorker(upload.svgText, params, { includeContours: input.preview === '1' })
+  const { result, geometryGz, sitesGz } = await analyzeInWorker(upload.svgText, params, { ownerKey: analysisOwnerKey(user), format: upload.format, label: upload.filename, signal: upload.closed })
+  const answer = { ...result, counts: countGroups(result.findingGroups) }
+  if (input.preview !== '1') return answer
+  return { ...answer, geometryGz: Buffer.from(geometryGz).toString('base64'), sitesGz: Buffer.from(sitesGz).toString('base64') }
 })

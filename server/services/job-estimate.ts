@@ -1,14 +1,15 @@
-import type { AnalysisResult } from '../analysis/index'
 import type { Cutter } from './catalog/cutters'
 import { applyCorrection } from './calibration/index'
 import { billedMinutes } from './money'
 import type { JobTimeCorrection } from './time-calibration'
+import type { RevisionFigures } from './revision-summary'
 import { layoutSheets, type JobSheets } from './sheet-layout'
 
 export interface EstimatedFile {
   fileId: number
   quantity: number
-  analysis: AnalysisResult
+  /** The revision's summary columns: time, lengths, box. */
+  figures: Pick<RevisionFigures, 'time' | 'cut' | 'bbox'>
 }
 
 export interface JobEstimate {
@@ -52,20 +53,20 @@ export function estimateJob(
   let pierces = 0
   const components = { cutS: 0, pierceS: 0, travelS: 0, setupS: files.length > 0 ? setupS : 0 }
   for (const file of files) {
-    const time = file.analysis.time
+    const time = file.figures.time
     machineS += (time.totalS - time.setupS) * file.quantity
     components.cutS += (time.cutS + time.scoreS + time.engraveS) * file.quantity
     components.pierceS += time.pierceS * file.quantity
     components.travelS += time.travelS * file.quantity
-    cutLengthMm += file.analysis.cut.lengthMm * file.quantity
-    pierces += file.analysis.cut.pierces * file.quantity
+    cutLengthMm += file.figures.cut.lengthMm * file.quantity
+    pierces += file.figures.cut.pierces * file.quantity
   }
   const modelMachineS = machineS
   if (correction && files.length > 0) machineS = applyCorrection(components, correction.coefficients)
   // Cutting time is billed in the cutter's increments; the setup is charged once, as it is.
   const billableMinutes = files.length > 0 ? billedMinutes((machineS - setupS) / 60, cutter.billingIncrementMinutes) + cutter.setupMinutes : 0
   const layout = layoutSheets(
-    files.map((f) => ({ fileId: f.fileId, widthMm: f.analysis.bbox.width, heightMm: f.analysis.bbox.height, quantity: f.quantity })),
+    files.map((f) => ({ fileId: f.fileId, widthMm: f.figures.bbox.width, heightMm: f.figures.bbox.height, quantity: f.quantity })),
     sheet,
     kerfMm + PART_GAP_MM,
     SHEET_MARGIN_MM,

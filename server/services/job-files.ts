@@ -1,42 +1,45 @@
 import type { Knex } from 'knex'
 import { MAX_FILES_PER_JOB } from '#shared/schemas/jobs'
 import type { SessionUser } from '#shared/roles'
-import type { AnalysisResult } from '../analysis/index'
-import { analyzeInWorker } from '../utils/analysis-pool'
+import { countGroups, worstSeverity } from '#shared/finding-groups'
+import { analysisOwnerKey, analyzeInWorker, type PackedAnalysis } from '../utils/analysis-pool'
 import type { CutFileUpload } from '../utils/cut-file-upload'
 import { Conflict, NotFound } from '../utils/errors'
 import { nowIso } from '../utils/rows'
 import { storeUpload } from '../utils/upload-store'
 import { analysisParamsFor } from './analysis-profile'
 import { assertEditable, jobForViewer, type JobRow } from './jobs'
+import { summaryColumns, type StoredAnalysis } from './revision-summary'
 
-function worstSeverity(result: AnalysisResult): string | null {
-  for (const severity of ['error', 'warning', 'info'] as const) if (result.findings.some((f) => f.severity === severity)) return severity
-  return null
-}
-
-/** Analyses with the job's process and stores the file before its row, so a row never lacks its file. */
-async function analyseAndStore(db: Knex, job: JobRow, upload: CutFileUpload) {
+/** Analyses with the job's process in the fair worker queue and stores the file before its row, so a row never lacks its file. */
+async function analyseAndStore(db: Knex, job: JobRow, upload: CutFileUpload, uploader: SessionUser): Promise<StoredRevision> {
   const params = await analysisParamsFor(db, { cutterId: job.cutter_id, materialId: job.material_id, sheetId: job.sheet_id })
-  const analysis = await analyzeInWorker(upload.svgText, params, { includeContours: true })
+  const packed = await analyzeInWorker(upload.svgText, params, { ownerKey: analysisOwnerKey(uploader), format: upload.format, label: upload.filename, signal: upload.closed })
   const sha256 = storeUpload(upload.svgText)
-  return { analysis, sha256 }
+  return { packed, sha256 }
 }
 
-function revisionRow(fileId: number, revision: number, upload: CutFileUpload, uploaderId: number, stored: { analysis: AnalysisResult; sha256: string }) {
-  const { contours, ...figures } = stored.analysis
-  return {
+interface StoredRevision {
+  packed: PackedAnalysis
+  sha256: string
+}
+
+/** The revision row with its summary columns, then its packed geometry and sites, in the caller's transaction. */
+async function insertRevision(trx: Knex, fileId: number, revision: number, upload: CutFileUpload, uploaderId: number, stored: StoredRevision): Promise<void> {
+  const analysis = stored.packed.result as StoredAnalysis
+  const [revisionId] = await trx('file_revisions').insert({
     job_file_id: fileId,
     revision,
     sha256: stored.sha256,
     original_name: upload.filename,
     size_bytes: upload.sizeBytes,
     content_type: upload.format === 'dxf' ? 'image/vnd.dxf' : 'image/svg+xml',
-    analysis_json: JSON.stringify(figures),
-    preview_json: JSON.stringify(contours ?? []),
-    worst_severity: worstSeverity(stored.analysis),
+    analysis_json: JSON.stringify(analysis),
+    worst_severity: worstSeverity(countGroups(analysis.findingGroups)),
     uploaded_by: uploaderId,
-  }
+    ...summaryColumns(analysis),
+  })
+  await trx('revision_payloads').insert({ file_revision_id: revisionId, geometry_gz: Buffer.from(stored.packed.geometryGz), sites_gz: Buffer.from(stored.packed.sitesGz) })
 }
 
 async function assertStillEditable(trx: Knex, jobId: number, adding: boolean): Promise<void> {
@@ -51,12 +54,12 @@ export async function addJobFile(db: Knex, viewer: SessionUser, jobId: number, u
   assertEditable(job)
   const count = await db('job_files').where({ job_id: jobId }).whereNull('removed_at').count<{ n: number }[]>({ n: '*' }).first()
   if (Number(count?.n ?? 0) >= MAX_FILES_PER_JOB) throw new Conflict(`A job holds at most ${MAX_FILES_PER_JOB} files; start another job for the rest.`)
-  const stored = await analyseAndStore(db, job, upload)
+  const stored = await analyseAndStore(db, job, upload, viewer)
   return db.transaction(async (trx) => {
     // The analysis took a while: the job may have been submitted meanwhile.
     await assertStillEditable(trx, jobId, true)
     const [fileId] = await trx('job_files').insert({ job_id: jobId, name: upload.filename.replace(/\.(svg|dxf)$/i, ''), quantity })
-    await trx('file_revisions').insert(revisionRow(fileId!, 1, upload, viewer.id, stored))
+    await insertRevision(trx, fileId!, 1, upload, viewer.id, stored)
     await trx('jobs').where({ id: jobId }).update({ updated_at: nowIso() })
     return fileId!
   })
@@ -68,12 +71,12 @@ export async function replaceJobFile(db: Knex, viewer: SessionUser, jobId: numbe
   assertEditable(job)
   const file = await db('job_files').where({ id: fileId, job_id: jobId }).whereNull('removed_at').first()
   if (!file) throw new NotFound('No such file in this job.')
-  const stored = await analyseAndStore(db, job, upload)
+  const stored = await analyseAndStore(db, job, upload, viewer)
   return db.transaction(async (trx) => {
     await assertStillEditable(trx, jobId, false)
     const latest = await trx('file_revisions').where({ job_file_id: fileId }).max<{ n: number }[]>({ n: 'revision' }).first()
     const revision = Number(latest?.n ?? 0) + 1
-    await trx('file_revisions').insert(revisionRow(fileId, revision, upload, viewer.id, stored))
+    await insertRevision(trx, fileId, revision, upload, viewer.id, stored)
     await trx('jobs').where({ id: jobId }).update({ updated_at: nowIso() })
     return revision
   })

@@ -3,6 +3,7 @@ import { JOB_STATE_LABELS } from '#shared/job-states'
 import { serverConfig } from '../utils/config'
 import { sendMail } from '../utils/mailer'
 import type { TransitionRecord } from './job-states'
+import { findingRefLabel } from './job-revisions'
 
 interface MailPlan {
   toStaff?: boolean
@@ -15,7 +16,7 @@ const PLANS: Partial<Record<TransitionRecord['action'], MailPlan>> = {
   submit: {
     toStaff: true,
     subject: (t) => `New job to review: ${t}`,
-    lines: (t, m) => [`${m} submitted "${t}" for review.`],
+    lines: (t, m, c) => [`${m} submitted "${t}" for review.`, c],
   },
   approve: {
     subject: (t) => `Approved: ${t}`,
@@ -47,7 +48,8 @@ export async function sendJobTransitionMail(db: Knex, record: TransitionRecord):
   const plan = PLANS[record.action]
   if (!plan) return
   const job = await db('jobs as j').join('users as u', 'u.id', 'j.member_id').where('j.id', record.jobId).first('j.title', 'u.name', 'u.email')
-  const event = await db('job_events').where({ job_id: record.jobId, to_state: record.to }).orderBy('id', 'desc').first('comment')
+  const event = await db('job_events').where({ job_id: record.jobId, to_state: record.to }).orderBy('id', 'desc').first('comment', 'finding_ref_json')
+  const finding = await findingRefLabel(db, record.jobId, event?.finding_ref_json ? JSON.parse(event.finding_ref_json) : null)
   // Withdrawing a draft concerns nobody else.
   if (record.action === 'withdraw' && record.from === 'draft') return
   const recipients = plan.toStaff
@@ -58,7 +60,7 @@ export async function sendJobTransitionMail(db: Knex, record: TransitionRecord):
     await sendMail({
       to,
       subject: plan.subject(job.title),
-      paragraphs: [...plan.lines(job.title, job.name, event?.comment ?? ''), `Now: ${JOB_STATE_LABELS[record.to]}.`].filter(Boolean),
+      paragraphs: [...plan.lines(job.title, job.name, event?.comment ?? ''), finding ? `About: ${finding}.` : '', `Now: ${JOB_STATE_LABELS[record.to]}.`].filter(Boolean),
       action: { label: 'Open the job', url },
     })
   }

@@ -1,5 +1,6 @@
 import type { Knex } from 'knex'
 import type { JobState } from '#shared/job-states'
+import type { FindingRef } from '#shared/schemas/jobs'
 import { JOB_STATE_LABELS } from '#shared/job-states'
 import { isStaff, type SessionUser } from '#shared/roles'
 import { Conflict, Forbidden, InvalidInput } from '../utils/errors'
@@ -35,7 +36,7 @@ export type JobAction = keyof typeof JOB_TRANSITIONS
 
 export interface TransitionOptions {
   comment?: string
-  findingRef?: { fileId: number; revision: number; index: number }
+  findingRef?: FindingRef
 }
 
 export interface TransitionRecord {

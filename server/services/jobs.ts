@@ -1,8 +1,8 @@
 import type { Knex } from 'knex'
 import { EDITABLE_JOB_STATES, JOB_STATE_LABELS, type JobState } from '#shared/job-states'
 import { isStaff, type SessionUser } from '#shared/roles'
-import type { JobCreateInput } from '#shared/schemas/jobs'
-import type { AnalysisResult, Finding } from '../analysis/index'
+import { worstSeverity } from '#shared/finding-groups'
+import type { FindingRef, JobCreateInput } from '#shared/schemas/jobs'
 import { Conflict, InvalidInput, NotFound } from '../utils/errors'
 import { nowIso } from '../utils/rows'
 import { analysisParamsFor } from './analysis-profile'
@@ -12,6 +12,10 @@ import { findProcessSetting } from './catalog/process-settings'
 import { estimateJob, type JobEstimate } from './job-estimate'
 import { timeCorrectionFor } from './time-calibration'
 import { availableActions, transitionJob, type JobAction, type TransitionRecord } from './job-states'
+import { acknowledgedGroups, recordAcknowledgements, unacknowledgedWarnings, type AcknowledgementInput } from './finding-acknowledgements'
+import { countFindings, currentFiles, currentFindingGroups, filesOfJobs, findingRefLabel, type JobFileView } from './job-revisions'
+
+export { countFindings, currentFiles, type JobFileView } from './job-revisions'
 
 export interface JobRow {
   id: number
@@ -76,120 +80,6 @@ export async function updateJob(db: Knex, viewer: SessionUser, jobId: number, ch
   await db('jobs').where({ id: jobId }).update(patch)
 }
 
-interface RevisionRow {
-  id: number
-  job_file_id: number
-  revision: number
-  sha256: string
-  original_name: string
-  size_bytes: number
-  analysis_json: string
-  preview_json: string | null
-  worst_severity: string | null
-  created_at: string
-}
-
-export interface RevisionSummary {
-  revision: number
-  originalName: string
-  sizeBytes: number
-  uploadedAt: string
-  worstSeverity: string | null
-  cutLengthMm: number
-  pierces: number
-  findingCount: number
-}
-
-export interface JobFileView {
-  id: number
-  name: string
-  quantity: number
-  current: RevisionSummary & { analysis: Omit<AnalysisResult, 'contours'> }
-  revisions: RevisionSummary[]
-  /** How the current revision differs from the one before it. */
-  change: { cutLengthMm: number; pierces: number; findings: number } | null
-}
-
-function parseAnalysis(row: RevisionRow): AnalysisResult {
-  return JSON.parse(row.analysis_json) as AnalysisResult
-}
-
-function summaryOf(row: RevisionRow, analysis: AnalysisResult): RevisionSummary {
-  return {
-    revision: row.revision,
-    originalName: row.original_name,
-    sizeBytes: row.size_bytes,
-    uploadedAt: row.created_at,
-    worstSeverity: row.worst_severity,
-    cutLengthMm: analysis.cut.lengthMm,
-    pierces: analysis.cut.pierces,
-    findingCount: analysis.findings.length,
-  }
-}
-
-/** The job's current files, each with its newest revision's analysis and the list of older revisions. */
-export async function currentFiles(db: Knex, jobId: number): Promise<JobFileView[]> {
-  return (await filesOfJobs(db, [jobId])).get(jobId) ?? []
-}
-
-/** Current files of many jobs in two queries (a list of jobs would otherwise ask twice per job). */
-export async function filesOfJobs(db: Knex, jobIds: number[]): Promise<Map<number, JobFileView[]>> {
-  const files = await db('job_files').whereIn('job_id', jobIds).whereNull('removed_at').orderBy('id')
-  const revisions = await db<RevisionRow>('file_revisions')
-    .whereIn('job_file_id', files.map((f) => f.id))
-    .orderBy(['job_file_id', { column: 'revision', order: 'desc' }])
-    .select('id', 'job_file_id', 'revision', 'sha256', 'original_name', 'size_bytes', 'analysis_json', 'worst_severity', 'created_at')
-  const revisionsByFile = new Map<number, RevisionRow[]>()
-  for (const row of revisions) revisionsByFile.set(row.job_file_id, [...(revisionsByFile.get(row.job_file_id) ?? []), row])
-  const byJob = new Map<number, JobFileView[]>(jobIds.map((id) => [id, []]))
-  for (const file of files) byJob.get(file.job_id)!.push(fileView(file, revisionsByFile.get(file.id) ?? []))
-  return byJob
-}
-
-function fileView(file: { id: number; name: string; quantity: number }, own: RevisionRow[]): JobFileView {
-  const [latest, previous] = own.map((row) => ({ row, analysis: parseAnalysis(row) }))
-  // Rows from before the preview column still carry their contours inside the analysis.
-  const { contours: _contours, ...analysis } = latest!.analysis
-  return {
-    id: file.id,
-    name: file.name,
-    quantity: file.quantity,
-    current: { ...summaryOf(latest!.row, latest!.analysis), analysis },
-    revisions: own.map((row) => summaryOf(row, parseAnalysis(row))),
-    change: previous
-      ? {
-          cutLengthMm: latest!.analysis.cut.lengthMm - previous.analysis.cut.lengthMm,
-          pierces: latest!.analysis.cut.pierces - previous.analysis.cut.pierces,
-          findings: latest!.analysis.findings.length - previous.analysis.findings.length,
-        }
-      : null,
-  }
-}
-
-export async function revisionAnalysis(db: Knex, viewer: SessionUser, jobId: number, fileId: number, revision: number): Promise<AnalysisResult & { revision: number; originalName: string }> {
-  await jobForViewer(db, viewer, jobId)
-  const row = await db<RevisionRow>('file_revisions as r')
-    .join('job_files as f', 'f.id', 'r.job_file_id')
-    .where({ 'f.job_id': jobId, 'f.id': fileId, 'r.revision': revision })
-    .first('r.*')
-  if (!row) throw new NotFound('No such file revision.')
-  return { ...parseAnalysis(row), contours: previewContours(row), revision: row.revision, originalName: row.original_name }
-}
-
-/** A revision's preview geometry (older rows kept it inside the analysis). */
-export function previewContours(row: { analysis_json: string; preview_json?: string | null }): NonNullable<AnalysisResult['contours']> {
-  return row.preview_json ? JSON.parse(row.preview_json) : (JSON.parse(row.analysis_json).contours ?? [])
-}
-
-export function countFindings(files: Pick<JobFileView, 'current'>[]): { errors: number; warnings: number; notes: number } {
-  const all: Finding[] = files.flatMap((f) => f.current.analysis.findings)
-  return {
-    errors: all.filter((f) => f.severity === 'error').length,
-    warnings: all.filter((f) => f.severity === 'warning').length,
-    notes: all.filter((f) => f.severity === 'info').length,
-  }
-}
-
 /** Catalog look-ups an estimate needs, each made once however many jobs are estimated with it. */
 export function estimateLookups(db: Knex) {
   const memo = new Map<string, Promise<unknown>>()
@@ -209,7 +99,7 @@ export async function jobEstimate(db: Knex, job: JobRow, files: JobFileView[], l
   const [cutter, material, setting] = await Promise.all([lookups.cutter(job.cutter_id), lookups.material(job.material_id), lookups.setting(job.cutter_id, job.material_id)])
   const sheet = material.sheets.find((s) => s.id === job.sheet_id) ?? material.sheets[0]!
   return estimateJob(
-    files.map((f) => ({ fileId: f.id, quantity: f.quantity, analysis: f.current.analysis as AnalysisResult })),
+    files.map((f) => ({ fileId: f.id, quantity: f.quantity, figures: f.current })),
     cutter,
     sheet,
     setting?.kerfMm ?? 0,
@@ -227,6 +117,7 @@ export async function jobDetail(db: Knex, viewer: SessionUser, jobId: number) {
     db('job_events as e').leftJoin('users as u', 'u.id', 'e.actor_id').where('e.job_id', jobId).orderBy('e.id').select('e.*', 'u.name as actor_name'),
   ])
   const sheet = material.sheets.find((s) => s.id === job.sheet_id) ?? material.sheets[0]!
+  const findingGroups = await currentFindingGroups(db, files)
   return {
     id: job.id,
     title: job.title,
@@ -242,15 +133,19 @@ export async function jobDetail(db: Knex, viewer: SessionUser, jobId: number) {
     createdAt: job.created_at,
     files,
     findings: countFindings(files),
+    findingGroups,
+    warningGroups: await acknowledgedGroups(db, findingGroups),
     estimate: await jobEstimate(db, job, files),
-    events: events.map((e) => ({
-      at: e.created_at,
-      actorName: e.actor_name ?? 'Kerfbook',
-      from: e.from_state,
-      to: e.to_state,
-      comment: e.comment,
-      findingRef: e.finding_ref_json ? JSON.parse(e.finding_ref_json) : null,
-    })),
+    events: await Promise.all(
+      events.map(async (e) => ({
+        at: e.created_at,
+        actorName: e.actor_name ?? 'Kerfbook',
+        from: e.from_state,
+        to: e.to_state,
+        comment: e.comment,
+        finding: await findingRefLabel(db, jobId, e.finding_ref_json ? JSON.parse(e.finding_ref_json) : null),
+      })),
+    ),
     actions: availableActions(job.state, viewer, job.member_id),
   }
 }
@@ -283,7 +178,8 @@ export async function listJobs(db: Knex, viewer: SessionUser, filter: { state?: 
       billableMinutes: estimate.billableMinutes,
       totalPriceMinor: estimate.totalPriceMinor,
       currency: estimate.currency,
-      worstFinding: counts.errors ? 'error' : counts.warnings ? 'warning' : counts.notes ? 'info' : null,
+      worstFinding: worstSeverity(counts),
+      findings: counts,
       submittedAt: row.submitted_at,
       createdAt: row.created_at,
     })
@@ -291,34 +187,36 @@ export async function listJobs(db: Knex, viewer: SessionUser, filter: { state?: 
   return summaries
 }
 
-/** Submission: needs files, no unresolved errors (unless staff let this job through) and, with warnings, the member's acknowledgement. */
-export async function submitJob(db: Knex, member: SessionUser, jobId: number, acknowledgement?: string): Promise<TransitionRecord> {
+/**
+ * Submission: needs files, no unresolved errors (unless staff let this job through) and, for every group of
+ * warnings, the member's reason (given per group, or one reason for all groups still open).
+ */
+export async function submitJob(db: Knex, member: SessionUser, jobId: number, input: { acknowledgement?: string; acknowledgements?: AcknowledgementInput[] } = {}): Promise<TransitionRecord> {
   const job = await jobForViewer(db, member, jobId)
   await analysisParamsFor(db, { cutterId: job.cutter_id, materialId: job.material_id, sheetId: job.sheet_id })
   const files = await currentFiles(db, jobId)
   if (files.length === 0) throw new InvalidInput('Add at least one file before submitting.')
   const counts = countFindings(files)
   if (counts.errors > 0 && !job.override_reason) {
-    throw new InvalidInput(`${counts.errors} ${counts.errors === 1 ? 'problem needs' : 'problems need'} fixing before this job can be submitted. Upload corrected files, or ask the staff.`, { errors: counts.errors })
+    throw new InvalidInput(`${counts.errorGroups} ${counts.errorGroups === 1 ? 'kind of problem needs' : 'kinds of problem need'} fixing before this job can be submitted (${counts.errors} ${counts.errors === 1 ? 'place' : 'places'}). Upload corrected files, or ask the staff.`, { errors: counts.errors })
   }
-  const note = acknowledgement?.trim() ?? ''
-  if (counts.warnings > 0 && note.length < 5) {
-    throw new InvalidInput(`Say in a few words why the ${counts.warnings} ${counts.warnings === 1 ? 'warning is' : 'warnings are'} fine (for example: "the 0.9 mm bridges are meant to fold").`, {
-      fields: { acknowledgement: 'Please acknowledge the warnings.' },
-    })
-  }
+  const fileGroups = await currentFindingGroups(db, files)
+  const warnings = await acknowledgedGroups(db, fileGroups)
+  const open = unacknowledgedWarnings(warnings)
   return db.transaction(async (trx) => {
-    await trx('jobs').where({ id: jobId }).update({ warnings_acknowledgement: counts.warnings > 0 ? note : null })
-    return transitionJob(trx, jobId, 'submit', member, { comment: counts.warnings > 0 ? `Warnings acknowledged: ${note}` : '' })
+    await recordAcknowledgements(trx, member, fileGroups, open, input.acknowledgements ?? [], input.acknowledgement ?? '')
+    const summary = warnings.length > 0 ? `${warnings.length} ${warnings.length === 1 ? 'group' : 'groups'} of warnings acknowledged (${counts.warnings} ${counts.warnings === 1 ? 'place' : 'places'})` : ''
+    await trx('jobs').where({ id: jobId }).update({ warnings_acknowledgement: warnings.length > 0 ? summary : null })
+    return transitionJob(trx, jobId, 'submit', member, { comment: summary })
   })
 }
 
 /** Review and the later steps: every move goes through transitionJob; approval re-checks for errors. */
-export async function moveJob(db: Knex, actor: SessionUser, jobId: number, action: Exclude<JobAction, 'submit' | 'book' | 'unbook'>, options: { comment?: string; findingRef?: { fileId: number; revision: number; index: number } } = {}): Promise<TransitionRecord> {
+export async function moveJob(db: Knex, actor: SessionUser, jobId: number, action: Exclude<JobAction, 'submit' | 'book' | 'unbook'>, options: { comment?: string; findingRef?: FindingRef } = {}): Promise<TransitionRecord> {
   const job = await jobForViewer(db, actor, jobId)
   if (action === 'approve' && !job.override_reason) {
     const counts = countFindings(await currentFiles(db, jobId))
-    if (counts.errors > 0) throw new Conflict(`This job still has ${counts.errors} error(s). Ask for changes, or record an override with a reason first.`)
+    if (counts.errors > 0) throw new Conflict(`This job still has ${counts.errorGroups} kind(s) of error in ${counts.errors} place(s). Ask for changes, or record an override with a reason first.`)
   }
   if ((action === 'withdraw' || action === 'cancel') && job.state === 'booked') {
     // The booking carries the money (a hold, perhaps a late fee): it is cancelled first, under its policy.

@@ -1,13 +1,15 @@
 import type { Knex } from 'knex'
 import { cautionsFor, type Caution } from '#shared/safety'
-import { OPERATION_CODES } from '../analysis/polylines'
-import type { AnalysisResult } from '../analysis/index'
+import { gunzipSync } from 'node:zlib'
+import { CLOSED_BIT, decodeGeometry, PREVIEW_OPERATIONS } from '#shared/packed-analysis'
 import { NotFound } from '../utils/errors'
 import { liveBookings } from './bookings'
 import { listColours } from './catalog/colours'
 import { getCutter } from './catalog/cutters'
 import { getMaterial } from './catalog/materials'
-import { currentFiles, jobEstimate, previewContours, type JobRow } from './jobs'
+import { acknowledgedGroups, type WarningGroupView } from './finding-acknowledgements'
+import { currentFindingGroups } from './job-revisions'
+import { currentFiles, jobEstimate, type JobRow } from './jobs'
 import { timerMinutes, type TimerKind } from './operations'
 import { workshopSettings } from './settings'
 import { inZone, toUtcIso } from './workshop-time'
@@ -22,6 +24,8 @@ export interface RunSheetEntry {
   material: { name: string; thicknessMm: number; hazardNote: string }
   sheets: { count: number; widthMm: number; heightMm: number }
   files: { name: string; quantity: number; revision: number }[]
+  /** The groups of warnings the member accepted, with their reasons and where they are. */
+  warningGroups: WarningGroupView[]
   cautions: Caution[]
   timer: { minutes: number; running: boolean }
   actualMinutes: number | null
@@ -51,6 +55,7 @@ export async function runSheet(db: Knex, cutterId: number, localDate: string): P
       db('cut_problems').where({ job_id: job.id }).orderBy('id').select('kind', 'note', 'created_at as at'),
     ])
     const estimate = await jobEstimate(db, job, files)
+    const warningGroups = await acknowledgedGroups(db, await currentFindingGroups(db, files))
     const sheet = material.sheets.find((s) => s.id === job.sheet_id) ?? material.sheets[0]!
     entries.push({
       bookingId: booking.id,
@@ -62,6 +67,7 @@ export async function runSheet(db: Knex, cutterId: number, localDate: string): P
       material: { name: material.name, thicknessMm: material.thicknessMm, hazardNote: material.hazardNote },
       sheets: { count: estimate.sheetCount, widthMm: sheet.widthMm, heightMm: sheet.heightMm },
       files: files.map((f) => ({ name: f.name, quantity: f.quantity, revision: f.current.revision })),
+      warningGroups,
       cautions: cautionsFor(cutter.kind, material),
       timer: timerMinutes(events),
       actualMinutes: job.actual_minutes ?? null,
@@ -82,27 +88,27 @@ export async function sheetSvg(db: Knex, job: JobRow, sheetIndex: number): Promi
   const estimate = await jobEstimate(db, job, files)
   const sheet = estimate.layout.sheets[sheetIndex]
   if (!sheet) throw new NotFound('No such sheet in this job.')
-  const revisions = new Map<number, { bbox: AnalysisResult['bbox']; contours: ReturnType<typeof previewContours> }>()
+  const geometries = new Map<number, { bbox: (typeof files)[number]['current']['bbox']; geometry: ReturnType<typeof decodeGeometry> }>()
   for (const file of files) {
-    const row = await db('file_revisions').where({ job_file_id: file.id, revision: file.current.revision }).first('analysis_json', 'preview_json')
-    revisions.set(file.id, { bbox: file.current.analysis.bbox, contours: previewContours(row) })
+    const payload = await db('revision_payloads').where({ file_revision_id: file.current.id }).first('geometry_gz')
+    geometries.set(file.id, { bbox: file.current.bbox, geometry: decodeGeometry(gunzipSync(payload.geometry_gz)) })
   }
   const colours = await listColours(db)
   const strokeFor = (operation: string) => colours.find((c) => c.operation === operation)?.hex ?? '#000000'
   const paths: string[] = []
   for (const placement of sheet.placements) {
-    const analysis = revisions.get(placement.fileId)!
-    const { x: bx, y: by, width: bw } = analysis.bbox
+    const { bbox, geometry } = geometries.get(placement.fileId)!
+    const { x: bx, y: by, width: bw } = bbox
     // Turned a quarter: the part's y runs along the sheet's x, its x back along the sheet's y.
     const place = (x: number, y: number): [number, number] => (placement.rotated ? [placement.x + (y - by), placement.y + (bx + bw - x)] : [placement.x + (x - bx), placement.y + (y - by)])
-    for (const contour of analysis.contours) {
-      if (!(contour.operation in OPERATION_CODES)) continue
+    for (let contour = 0; contour < geometry.count; contour++) {
       let d = ''
-      for (let i = 0; i < contour.points.length; i += 2) {
-        const [x, y] = place(contour.points[i]!, contour.points[i + 1]!)
-        d += `${i === 0 ? 'M' : 'L'}${x.toFixed(3)} ${y.toFixed(3)}`
+      for (let point = geometry.start[contour]!; point < geometry.start[contour + 1]!; point++) {
+        const [x, y] = place(geometry.xy[2 * point]!, geometry.xy[2 * point + 1]!)
+        d += `${d ? 'L' : 'M'}${x.toFixed(3)} ${y.toFixed(3)}`
       }
-      paths.push(`<path d="${d}${contour.closed ? 'Z' : ''}" stroke="${strokeFor(contour.operation)}"/>`)
+      const kind = geometry.kind[contour]!
+      paths.push(`<path d="${d}${kind & CLOSED_BIT ? 'Z' : ''}" stroke="${strokeFor(PREVIEW_OPERATIONS[kind & 3]!)}"/>`)
     }
   }
   const { sheetWidthMm: w, sheetHeightMm: h } = estimate.layout

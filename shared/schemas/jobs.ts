@@ -18,14 +18,27 @@ export const fileQuantityField = wholeNumber('Copies', 1, 1000)
 
 export const jobFileUpdateSchema = z.object({ quantity: fileQuantityField })
 
+const reasonField = z.string().trim().max(2000, { error: 'Use at most 2000 characters.' })
+
+/** Which group of findings of which revision of a file: the group's key names its kind, cause and limit. */
+const groupRefFields = {
+  fileId: z.number().int().positive(),
+  revision: z.number().int().positive(),
+  key: z.string().min(1).max(200),
+}
+
 export const submitJobSchema = z.object({
-  acknowledgement: z.string().trim().max(2000).optional(),
+  /** One reason for every group of warnings not given a reason of its own. */
+  acknowledgement: reasonField.optional(),
+  acknowledgements: z.array(z.object({ ...groupRefFields, reason: reasonField })).max(500).optional(),
 })
 
 export const reviewCommentSchema = z.object({
   comment: z.string({ error: 'A comment is required.' }).trim().max(4000, { error: 'Use at most 4000 characters.' }).default(''),
-  findingRef: z.object({ fileId: z.number().int().positive(), revision: z.number().int().positive(), index: z.number().int().min(0) }).optional(),
+  findingRef: z.object(groupRefFields).optional(),
 })
+
+export type FindingRef = z.output<typeof reviewCommentSchema>['findingRef'] & {}
 
 export const overrideSchema = z.object({ reason: requiredText('Reason', 1000) })
 
@@ -41,4 +54,8 @@ export const jobFileParamsSchema = z.object({
 
 export const revisionParamsSchema = jobFileParamsSchema.extend({
   revision: z.coerce.number().int().positive({ error: 'The revision must be a positive whole number.' }),
+})
+
+export const revisionPartParamsSchema = revisionParamsSchema.extend({
+  part: z.enum(['geometry', 'sites'], { error: 'Ask for the geometry or the sites.' }),
 })

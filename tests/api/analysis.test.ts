@@ -1,4 +1,6 @@
+import { gunzipSync } from 'node:zlib'
 import { describe, expect, it } from 'vitest'
+import { decodeGeometry, decodeSites } from '../../shared/packed-analysis'
 import { client, signedIn } from './helpers'
 
 const SQUARE_100_MM = `<svg xmlns="http://www.w3.org/2000/svg" width="120mm" height="120mm" viewBox="0 0 120 120">
@@ -41,7 +43,9 @@ describe('POST /api/analysis', () => {
     expect(result.time.setupS).toBe(300)
     expect(result.price.amount).toBeGreaterThanOrEqual(result.billableMinutes * 85)
     expect(result.sheet.fits).toBe(true)
-    expect(result.contours.length).toBe(2)
+    // The preview comes packed and gzip-compressed, as base64, since nothing of a check is stored.
+    expect(decodeGeometry(gunzipSync(Buffer.from(result.geometryGz, 'base64'))).count).toBe(2)
+    expect(decodeSites(gunzipSync(Buffer.from(result.sitesGz, 'base64'))).count).toBe(result.findingGroups.reduce((n: number, g: { count: number }) => n + g.count, 0))
   })
 
   it('uses the process setting: a slower cut speed gives a longer cut time', async () => {

@@ -3,6 +3,7 @@ import { dirname, join } from 'node:path'
 import Database from 'better-sqlite3'
 import { describe, expect, inject, it } from 'vitest'
 import { crossingCuts, plainPart, slitPair } from '../fixtures/svg'
+import { decodeGeometry } from '../../shared/packed-analysis'
 import { client, signedIn, waitForMail } from './helpers'
 
 function fileForm(svg: string, name: string, quantity = 1) {
@@ -53,7 +54,7 @@ describe('uploading files to a job', () => {
     expect(job.files.map((f: any) => f.name).sort()).toEqual(['end-cap', 'side-panel'])
     // Closed forms: a rectangle's perimeter plus 2πr of the r = 8 mm hole, per copy.
     const sidePanel = job.files.find((f: any) => f.name === 'side-panel')
-    expect(sidePanel.current.analysis.cut.lengthMm).toBeCloseTo(2 * (80 + 50) + 2 * Math.PI * 8, 1)
+    expect(sidePanel.current.cut.lengthMm).toBeCloseTo(2 * (80 + 50) + 2 * Math.PI * 8, 1)
     expect(job.estimate.cutLengthMm).toBeCloseTo(4 * (260 + 16 * Math.PI) + 2 * (200 + 16 * Math.PI), 0)
     expect(job.estimate.pierces).toBe(4 * 2 + 2 * 2)
     expect(job.estimate.sheetCount).toBeGreaterThanOrEqual(1)
@@ -80,7 +81,8 @@ describe('uploading files to a job', () => {
     const second = (await member.get(`/api/jobs/${jobId}/files/${fileId}/revisions/2`)).body
     expect(first.cut.lengthMm).toBeCloseTo(260 + 16 * Math.PI, 1)
     expect(second.cut.lengthMm).toBeCloseTo(300 + 16 * Math.PI, 1)
-    expect(first.contours.length).toBe(2)
+    const geometry = await member.bytes(`/api/jobs/${jobId}/files/${fileId}/revisions/1/geometry`)
+    expect(decodeGeometry(geometry.body).count).toBe(2)
 
     const job = (await member.get(`/api/jobs/${jobId}`)).body
     const file = job.files[0]
@@ -168,7 +170,9 @@ describe('the way through review', () => {
     expect(noNote.status).toBe(400)
     expect(noNote.body.data.fields.acknowledgement).toBeTruthy()
     expect((await member.post(`/api/jobs/${warned}/submit`, { acknowledgement: 'The 0.8 mm bridge is meant to fold.' })).status).toBe(200)
-    expect((await member.get(`/api/jobs/${warned}`)).body.warningsAcknowledgement).toBe('The 0.8 mm bridge is meant to fold.')
+    const submitted = (await member.get(`/api/jobs/${warned}`)).body
+    expect(submitted.warningGroups.length).toBe(detail.findings.warningGroups)
+    for (const group of submitted.warningGroups) expect(group.acknowledgement.reason).toBe('The 0.8 mm bridge is meant to fold.')
   })
 
   it('lets the member withdraw, and staff reject with a reason', async () => {

@@ -186,6 +186,7 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   'PATCH /api/admin/users/:id': { policy: adminOnly(), params: (w) => ({ id: w.otherMemberId }) },
   'GET /api/admin/users': { policy: adminOnly('ok') },
   'POST /api/analysis': { policy: signedInOnly('passes') },
+  'GET /api/analysis/queue': { policy: signedInOnly() },
 
   'POST /api/auth/forgot-password': { policy: PUBLIC },
   'POST /api/auth/reset-password': { policy: PUBLIC },
@@ -241,6 +242,7 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   'PATCH /api/jobs/:id/files/:fileId': { policy: ownerAndStaff(), params: jobFile },
   'DELETE /api/jobs/:id/files/:fileId': { policy: ownerAndStaff(), params: (w) => w.freshFile() },
   'GET /api/jobs/:id/files/:fileId/revisions/:revision': { policy: ownerAndStaff('ok'), params: (w) => ({ ...jobFile(w), revision: 1 }) },
+  'GET /api/jobs/:id/files/:fileId/revisions/:revision/:part': { policy: ownerAndStaff('ok'), params: (w) => ({ ...jobFile(w), revision: 1, part: 'geometry' }) },
   'POST /api/jobs/:id/files/:fileId/revisions': { policy: ownerAndStaff(), params: jobFile },
   'POST /api/jobs/:id/override': { policy: { ...staffOnly(), otherMember: 403 }, params: freshJob },
   'POST /api/jobs/:id/reject': { policy: STAFF_MOVE, params: freshJob },

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest'
 import { applyCorrection, chooseCalibrationGroup, correctionFor, type CutterTimeSample, type DatedTimeSample } from '../../../server/services/calibration/index'
 import type { ComponentCoefficients } from '../../../server/services/calibration/model'
-import { finishedOnDay, generateJobs, HIDDEN, seededRandom } from './jobs'
+import { seededRandom } from '../../../scripts/lib/seeded-random'
+import { finishedOnDay, generateJobs, HIDDEN } from './jobs'
 
 function datedJobs(count: number, seed: number, hidden: ComponentCoefficients = HIDDEN): DatedTimeSample[] {
   return generateJobs({ count, seed, hidden, relativeNoise: 0.03 }).map((job, day) => ({ ...job, finishedAt: finishedOnDay(day) }))

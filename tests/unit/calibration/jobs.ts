@@ -1,16 +1,5 @@
 import type { ComponentCoefficients, TimeSample } from '../../../server/services/calibration/model'
-
-// mulberry32, a small public-domain 32-bit generator (Tommy Ettinger; from memory): same seed, same jobs.
-export function seededRandom(seed: number): () => number {
-  let state = seed >>> 0
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0
-    let t = state
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
-}
+import { seededRandom } from '../../../scripts/lib/seeded-random'
 
 // Box–Muller transform: two uniforms give one standard normal draw (standard textbook method).
 function standardNormal(random: () => number): number {

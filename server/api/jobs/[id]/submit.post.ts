@@ -6,8 +6,8 @@ import { submitJob } from '../../../services/jobs'
 export default defineApiHandler(async (event) => {
   const user = await requireUser(event)
   const { id } = readParamsAs(event, idParamSchema)
-  const { acknowledgement } = await readBodyAs(event, submitJobSchema)
-  const record = await submitJob(useDb(), user, id, acknowledgement)
+  const input = await readBodyAs(event, submitJobSchema)
+  const record = await submitJob(useDb(), user, id, input)
   await sendJobTransitionMail(useDb(), record)
   return record
 })
