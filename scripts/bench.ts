@@ -8,6 +8,7 @@ import { parseSync } from 'svgson'
 import type { AnalysisParams, AnalysisStage } from '../server/analysis/index'
 import { encodeGeometry, encodeSites } from '../shared/packed-analysis'
 import { bundleForNode } from './lib/node-bundle'
+import { seededRandom } from './lib/seeded-random'
 
 const UNIT_MM = 12
 const REPEATS = 5
@@ -30,10 +31,8 @@ const REPEATING: Drawing = { mm: (value) => value.toFixed(3), nudge: () => 0 }
  * A fixed seed draws the same pattern every run.
  */
 function nonRepeating(seed: number): Drawing {
-  let state = seed >>> 0
-  // A 32-bit linear congruential generator (the constants of Numerical Recipes): ample for jitter.
-  const next = () => (state = (Math.imul(state, 1664525) + 1013904223) >>> 0) / 4294967296
-  return { mm: (value) => value.toFixed(5), nudge: () => Math.round((next() - 0.5) * 6000) / 100000 }
+  const random = seededRandom(seed)
+  return { mm: (value) => value.toFixed(5), nudge: () => Math.round((random() - 0.5) * 6000) / 100000 }
 }
 
 /**
