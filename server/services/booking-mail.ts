@@ -16,7 +16,7 @@ const SUBJECTS: Record<BookingNews, string> = {
   reminder: 'Reminder: your cutter time is tomorrow',
 }
 
-/** Tells the member about their booking, with the calendar file attached. Sent after the change commits. */
+/** Tells the member about their booking, with the calendar file attached; pass the change's transaction to write the mail with it. */
 export async function sendBookingMail(db: Knex, booking: BookingRow, news: BookingNews, detail = ''): Promise<boolean> {
   if (!booking.member_id) return false
   const member = await db('users').where({ id: booking.member_id }).first('email', 'name')
@@ -39,8 +39,8 @@ export async function sendBookingMail(db: Knex, booking: BookingRow, news: Booki
 }
 
 /**
- * Day-before reminders. Each booking is claimed (reminder_sent_at set where still empty) before its
- * mail goes out, so a restart or a second runner never sends a reminder twice.
+ * Day-before reminders. Each booking is claimed (reminder_sent_at set where still empty) in the transaction that
+ * writes its mail, so a restart or a second runner never sends a reminder twice, nor loses one.
  */
 export async function sendDueReminders(db: Knex, now = new Date()): Promise<number> {
   const settings = await workshopSettings(db)
@@ -50,8 +50,11 @@ export async function sendDueReminders(db: Knex, now = new Date()): Promise<numb
   const due = await db<BookingRow>('bookings').where({ status: 'confirmed', kind: 'job' }).whereNull('reminder_sent_at').where('starts_at', '>=', from).where('starts_at', '<', to)
   let sent = 0
   for (const booking of due) {
-    const claimed = await db('bookings').where({ id: booking.id }).whereNull('reminder_sent_at').update({ reminder_sent_at: nowIso() })
-    if (claimed === 1 && (await sendBookingMail(db, booking, 'reminder'))) sent++
+    const queued = await db.transaction(async (trx) => {
+      const claimed = await trx('bookings').where({ id: booking.id }).whereNull('reminder_sent_at').update({ reminder_sent_at: nowIso() })
+      return claimed === 1 && (await sendBookingMail(trx, booking, 'reminder'))
+    })
+    if (queued) sent++
   }
   return sent
 }

@@ -7,6 +7,7 @@ import { nowIso } from '../utils/rows'
 import { getCutter, type Cutter } from './catalog/cutters'
 import { listClosures, listOpeningHours } from './catalog/opening-hours'
 import { hasValidSignOff } from './catalog/sign-offs'
+import { sendBookingMail } from './booking-mail'
 import { transitionJob } from './job-states'
 import { currentFiles, jobEstimate, type JobRow } from './jobs'
 import { workshopSettings } from './settings'
@@ -237,6 +238,8 @@ export async function rescheduleBooking(db: Knex, actor: SessionUser, id: number
       .where({ id })
       .update({ starts_at: startIso, ends_at: endIso, ical_sequence: booking.ical_sequence + 1, note: input.reason?.trim() || booking.note, reminder_sent_at: null, updated_at: nowIso() })
     if (booking.job_id) await trx('job_events').insert({ job_id: booking.job_id, actor_id: actor.id, from_state: 'booked', to_state: 'booked', comment: `Moved to ${describeLocal(startIso, settings.timeZone)}${input.reason ? `: ${input.reason}` : ''}` })
+    const moved = await trx<BookingRow>('bookings').where({ id }).first()
+    await sendBookingMail(trx, moved!, 'moved', movedByStaff ? `The staff moved it: ${moved!.note}` : '')
   })
   return { booking: await getBookingRow(db, id), movedByStaff }
 }
@@ -302,7 +305,7 @@ export async function dropCancellationClaim(db: Knex, bookingId: number): Promis
   await db('bookings').where({ id: bookingId }).update({ cancelling_since: null })
 }
 
-/** Cancels the booking once its payment is settled; the job goes back to "approved" so it can be booked again. */
+/** Cancels the booking once its payment is settled; the job goes back to "approved" so it can be booked again. The member's mail is written with it. */
 export async function commitCancellation(db: Knex, plan: CancellationPlan): Promise<BookingRow> {
   const { booking, reason } = plan
   await db.transaction(async (trx) => {
@@ -312,6 +315,8 @@ export async function commitCancellation(db: Knex, plan: CancellationPlan): Prom
       const job = await trx('jobs').where({ id: booking.job_id }).first('state')
       if (job?.state === 'booked') await transitionJob(trx, booking.job_id, 'unbook', 'system', { comment: `Booking cancelled${reason ? `: ${reason}` : ''}` })
     }
+    const cancelled = await trx<BookingRow>('bookings').where({ id: booking.id }).first()
+    await sendBookingMail(trx, cancelled!, 'cancelled', plan.cancelledByStaff ? `The staff cancelled it: ${reason}` : '')
   })
   return getBookingRow(db, booking.id)
 }

@@ -5,7 +5,12 @@ import { workshopSettings } from './settings'
 
 /** Reminds members whose parts wait longer than the workshop's setting; each job once. */
 export async function sendPickupReminders(db: Knex): Promise<number> {
-  const claimed = await claimUncollected(db, (await workshopSettings(db)).pickupReminderDays)
-  for (const jobId of claimed) await sendPickupMail(db, jobId, 'reminder')
+  const days = (await workshopSettings(db)).pickupReminderDays
+  // Each job is claimed in the transaction that writes its mail: never sent twice, never lost.
+  const claimed = await db.transaction(async (trx) => {
+    const jobIds = await claimUncollected(trx, days)
+    for (const jobId of jobIds) await sendPickupMail(trx, jobId, 'reminder')
+    return jobIds
+  })
   return claimed.length
 }

@@ -1,6 +1,5 @@
 import { idParamSchema } from '#shared/schemas/auth'
 import { bookingMoveSchema } from '#shared/schemas/bookings'
-import { sendBookingMail } from '../../services/booking-mail'
 import { bookingForActor, rescheduleBooking } from '../../services/bookings'
 
 export default defineApiHandler(async (event) => {
@@ -8,7 +7,6 @@ export default defineApiHandler(async (event) => {
   const { id } = readParamsAs(event, idParamSchema)
   // Whose booking it is comes first, so a stranger learns nothing from validation messages.
   await bookingForActor(useDb(), user, id)
-  const { booking, movedByStaff } = await rescheduleBooking(useDb(), user, id, await readBodyAs(event, bookingMoveSchema))
-  await sendBookingMail(useDb(), booking, 'moved', movedByStaff ? `The staff moved it: ${booking.note}` : '')
+  const { booking } = await rescheduleBooking(useDb(), user, id, await readBodyAs(event, bookingMoveSchema))
   return booking
 })

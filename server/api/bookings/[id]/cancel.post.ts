@@ -1,6 +1,5 @@
 import { idParamSchema } from '#shared/schemas/auth'
 import { bookingCancelSchema } from '#shared/schemas/bookings'
-import { sendBookingMail } from '../../../services/booking-mail'
 import { claimCancellation, commitCancellation, dropCancellationClaim, planCancellation } from '../../../services/bookings'
 import { sendPaymentReceipts } from '../../../services/payment-mail'
 import { settleCancellation } from '../../../services/payments'
@@ -19,7 +18,6 @@ export default defineApiHandler(async (event) => {
     throw error
   })
   const booking = await commitCancellation(useDb(), plan)
-  await sendBookingMail(useDb(), booking, 'cancelled', plan.cancelledByStaff ? `The staff cancelled it: ${reason}` : '')
   await sendPaymentReceipts(useDb(), { bookingId: id, memberId: booking.member_id, kinds: newKinds })
   return { booking, terms: plan.terms, cancelledByStaff: plan.cancelledByStaff, feeMinor }
 })
