@@ -1,6 +1,7 @@
 import { getRequestHeader, readFormData, type H3Event } from 'h3'
 import { MAX_CUT_FILE_BYTES } from '#shared/schemas/analysis'
 import { type CutFileFormat, detectCutFileFormat } from '../analysis/dxf/format'
+import { bodyLimitError } from './body-limit'
 import { DomainError, InvalidInput, PayloadTooLarge, UnsupportedMediaType } from './errors'
 
 export interface CutFileUpload {
@@ -36,7 +37,7 @@ export async function readCutFileUpload(event: H3Event): Promise<CutFileUpload> 
   try {
     form = await readFormData(event)
   } catch {
-    throw new InvalidInput('The upload is not a readable multipart/form-data body. Send the file as a normal browser upload.')
+    throw bodyLimitError(event) ?? new InvalidInput('The upload is not a readable multipart/form-data body. Send the file as a normal browser upload.')
   }
   const file = form.get('file')
   if (!(file instanceof Blob)) throw new InvalidInput('No file was attached: add it as the field "file".')
