@@ -36,6 +36,8 @@ export interface RouteAccess {
   body?: (world: World) => unknown
   /** The call ends the caller's session, so it is made from a session of its own. */
   endsSession?: boolean
+  /** The call ends every session of the caller's account, so the matrix makes it after all other routes. */
+  endsEverySession?: boolean
   /** The path holds the member's secret link, so anyone calling it rightly sees the member's things. */
   pathIsCredential?: boolean
 }
@@ -255,6 +257,7 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   'POST /api/me/calendar-feed': { policy: signedInOnly() },
   'DELETE /api/me/calendar-feed': { policy: signedInOnly() },
   'POST /api/me/password': { policy: signedInOnly('passes') },
+  'POST /api/me/sign-out-everywhere': { policy: signedInOnly('ok'), endsSession: true, endsEverySession: true },
   'GET /api/me/sign-offs': { policy: signedInOnly() },
   'GET /api/settings': { policy: signedInOnly() },
 

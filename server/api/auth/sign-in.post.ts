@@ -9,7 +9,7 @@ export default defineApiHandler(async (event) => {
   try {
     const user = await authenticate(useDb(), email, password)
     recordSignInSuccess(ip, email)
-    await replaceUserSession(event, { user })
+    await beginUserSession(event, user)
     return user
   } catch (error) {
     if (error instanceof Unauthorized) recordSignInFailure(ip, email)
