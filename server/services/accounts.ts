@@ -38,15 +38,21 @@ export async function findActiveUser(db: Knex, id: number): Promise<SessionUser 
   return row ? toSessionUser(row) : undefined
 }
 
-export async function signUp(db: Knex, input: { name: string; email: string; password: string }) {
+export type SignUpResult = { created: true; user: SessionUser; token: string } | { created: false; existing: SessionUser }
+
+/**
+ * Creates a member with a confirmation token, or, when the address already has an account, changes
+ * nothing and names that account: the route answers the same either way, so sign-up can't be used
+ * to learn who has an account. The password is hashed either way, so both take the same time.
+ */
+export async function signUp(db: Knex, input: { name: string; email: string; password: string }): Promise<SignUpResult> {
   const passwordHash = await hashPassword(input.password)
   return db.transaction(async (trx) => {
-    if (await trx('users').where({ email: input.email }).first()) {
-      throw new Conflict('An account with this e-mail already exists. Sign in, or reset your password.', { fields: { email: 'Already registered.' } })
-    }
+    const existing = await trx<UserRow>('users').where({ email: input.email }).first()
+    if (existing) return { created: false, existing: toSessionUser(existing) }
     const [id] = await trx('users').insert({ name: input.name, email: input.email, password_hash: passwordHash, role: 'member' })
     const token = await issueToken(trx, id!, 'verify-email')
-    return { user: { id: id!, email: input.email, name: input.name, role: 'member' as Role }, token }
+    return { created: true, user: { id: id!, email: input.email, name: input.name, role: 'member' as Role }, token }
   })
 }
 

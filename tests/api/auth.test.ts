@@ -43,10 +43,33 @@ describe('sign-up, verification, sign-in, sign-out', () => {
     expect((await member.get('/api/me')).status).toBe(401)
   })
 
-  it('refuses a second account with the same e-mail, case-insensitively', async () => {
-    const response = await client().post('/api/auth/sign-up', { name: 'Copy', email: 'MEMBER@example.test', password: 'long-enough-pass' })
-    expect(response.status).toBe(409)
-    expect(response.body.data.fields.email).toBeTruthy()
+  it('answers a sign-up for a taken address exactly as for a new one, and mails the owner instead', async () => {
+    const newEmail = uniqueEmail('fresh')
+    const fresh = await client().post('/api/auth/sign-up', { name: 'Fresh', email: newEmail, password: 'long-enough-pass' })
+    const taken = await client().post('/api/auth/sign-up', { name: 'Copy', email: 'PRIYA@example.test', password: 'an-attackers-pass' })
+    expect(taken.status).toBe(fresh.status)
+    expect(taken.status).toBe(201)
+    expect(taken.body.message.replace('priya@example.test', '<address>')).toBe(fresh.body.message.replace(newEmail, '<address>'))
+    expect(Object.keys(taken.body).sort()).toEqual(Object.keys(fresh.body).sort())
+
+    const notice = await waitForMail('priya@example.test', /Someone tried to sign up with your address/)
+    expect(notice.text).toContain('/sign-in')
+    // Nothing about the existing account changed.
+    expect((await client().post('/api/auth/sign-in', { email: 'priya@example.test', password: DEMO_PASSWORD })).status).toBe(200)
+    expect((await client().post('/api/auth/sign-in', { email: 'priya@example.test', password: 'an-attackers-pass' })).status).toBe(401)
+  })
+
+  it('limits sign-ups: ten a minute from one address, three a minute to one recipient', async () => {
+    const sameAddress = client('192.0.2.88')
+    const statuses: number[] = []
+    for (let i = 0; i < 11; i++) statuses.push((await sameAddress.post('/api/auth/sign-up', { name: 'Burst', email: uniqueEmail('burst'), password: 'long-enough-pass' })).status)
+    expect(statuses.slice(0, 10).every((s) => s === 201)).toBe(true)
+    expect(statuses[10]).toBe(429)
+
+    const target = uniqueEmail('mail-bombed')
+    const toOne: number[] = []
+    for (let i = 0; i < 4; i++) toOne.push((await client().post('/api/auth/sign-up', { name: 'Bomb', email: target, password: 'long-enough-pass' })).status)
+    expect(toOne).toEqual([201, 201, 201, 429])
   })
 })
 
