@@ -1,7 +1,7 @@
 // The sign-in foundation as people use it, in a real browser: joining, confirming the e-mail,
 // signing in and out, changing the password, the keyboard path, and what each role may see.
 import type { Page } from 'playwright-core'
-import { describe, expect } from 'vitest'
+import { describe, expect, inject } from 'vitest'
 import { DEMO_PASSWORD, linkToken, uniqueEmail, waitForMail } from '../api/helpers'
 import type { Role } from '../../shared/roles'
 import { NAV_ITEMS } from '../../utils/navigation'
@@ -76,6 +76,29 @@ describe('account journey in the browser', () => {
     await page.getByRole('heading', { name: 'Sign in' }).waitFor()
     browser.expectFailedResponse(401, /\/api\/me$/)
     expect(await page.evaluate(() => fetch('/api/me').then((r) => r.status))).toBe(401)
+  })
+
+  browserTest('a sign-in link whose next address leads off the site sends the member home, saying so', async ({ browser }) => {
+    const { page } = browser
+    await browser.open('/sign-in?next=//evil.example')
+    await page.getByText('The link you followed pointed away from Kerfbook').waitFor()
+    await page.getByLabel('E-mail').fill('member@example.test')
+    await page.getByLabel('Password').fill(DEMO_PASSWORD)
+    await page.getByRole('button', { name: 'Sign in' }).click()
+    await waitForSignedIn(page)
+    expect(new URL(page.url()).pathname).toBe('/')
+    expect(new URL(page.url()).host).toBe(new URL(inject('baseUrl')).host)
+    expect(await page.getByRole('alert').count()).toBe(0)
+  })
+
+  browserTest('a sign-in link with a next address on the site goes there', async ({ browser }) => {
+    const { page } = browser
+    await browser.open('/sign-in?next=/jobs')
+    expect(await page.getByText('pointed away from Kerfbook').count()).toBe(0)
+    await page.getByLabel('E-mail').fill('member@example.test')
+    await page.getByLabel('Password').fill(DEMO_PASSWORD)
+    await page.getByRole('button', { name: 'Sign in' }).click()
+    await page.waitForURL('**/jobs')
   })
 
   browserTest('a wrong password keeps the visitor on the sign-in page with the error shown', async ({ browser }) => {
