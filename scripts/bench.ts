@@ -7,7 +7,9 @@ import { gzipSync } from 'node:zlib'
 import { parseSync } from 'svgson'
 import type { AnalysisParams, AnalysisStage } from '../server/analysis/index'
 import { encodeGeometry, encodeSites } from '../shared/packed-analysis'
+import { foldSheet } from './lib/fold-sheet'
 import { bundleForNode } from './lib/node-bundle'
+import { seededRandom } from './lib/seeded-random'
 
 const UNIT_MM = 12
 const REPEATS = 5
@@ -30,10 +32,8 @@ const REPEATING: Drawing = { mm: (value) => value.toFixed(3), nudge: () => 0 }
  * A fixed seed draws the same pattern every run.
  */
 function nonRepeating(seed: number): Drawing {
-  let state = seed >>> 0
-  // A 32-bit linear congruential generator (the constants of Numerical Recipes): ample for jitter.
-  const next = () => (state = (Math.imul(state, 1664525) + 1013904223) >>> 0) / 4294967296
-  return { mm: (value) => value.toFixed(5), nudge: () => Math.round((next() - 0.5) * 6000) / 100000 }
+  const random = seededRandom(seed)
+  return { mm: (value) => value.toFixed(5), nudge: () => Math.round((random() - 0.5) * 6000) / 100000 }
 }
 
 /**
@@ -224,3 +224,6 @@ report('card, 60 × 60 units', measure(nonRepeatingPattern, CARD_PROCESS))
 report('3 mm, 60 × 60 units', measure(nonRepeatingPattern, THICK_PROCESS))
 console.log('Findings-heavy: a pinch-hinge sheet on 3 mm plywood, every hinge narrow by design (target: JSON + sites gz ≤ 2 MB):')
 report('150 × 150 units', measure(pinchHingeSheet(150, 150), THICK_PROCESS))
+console.log('The bench:fold sheet (20 mm panels, every hinge 1.5 mm after the kerf) on 3 mm plywood, as drawn and with every unit jittered (target: ratio ≤ 2):')
+report('150 × 150 units', measure(foldSheet({ unitsAcross: 150, unitsDown: 150, cutColour: '#c2185b' }).svg, THICK_PROCESS))
+report('non-repeating', measure(foldSheet({ unitsAcross: 150, unitsDown: 150, cutColour: '#c2185b', jitterSeed: 20261204 }).svg, THICK_PROCESS))

@@ -1,8 +1,9 @@
 import { svgPathProperties } from 'svg-path-properties'
-import { CURVE_ARC, curveNumberCount } from './pathSteps'
+import { arcLengthFromOrigin, cubicLengthFromOrigin } from './curveLengthPort'
+import { CURVE_ARC, CURVE_CUBIC, curveNumberCount } from './pathSteps'
 
 // Drawings repeat the same holes, reliefs and rounded corners thousands of
-// times; past this many distinct curves the memory starts afresh.
+// times; past this many distinct curves in one analysis the memory starts afresh.
 const MAX_REMEMBERED_CURVES = 50_000
 // A curve is measured moved to the origin with its numbers rounded to a
 // nanometre, so its length depends only on its shape and copies of a shape
@@ -15,42 +16,60 @@ const MAX_ROUNDED_MM = 1e6
 
 
 /**
- * Remembered lengths by shape: the command, its rounded numbers and the
- * length in one flat row per shape, found through a numeric hash of the
- * rounded numbers (no key string per curve).
+ * Remembered lengths by shape for one analysis (nothing is shared between
+ * analyses): the command, its rounded numbers and the length in one flat row
+ * per shape, found through a numeric hash of the rounded numbers (no key
+ * string per curve).
  */
-const rememberedByHash = new Map<number, Float64Array[]>()
-let rememberedCount = 0
-// The shape being looked up: the command code, then its numbers in whole nanometres from the origin.
-const shape = new Float64Array(8)
+export class CurveLengthMemory {
+  private readonly rememberedByHash = new Map<number, Float64Array[]>()
+  private rememberedCount = 0
+  // The shape being looked up: the command code, then its numbers in whole nanometres from the origin.
+  private readonly shape = new Float64Array(8)
+
+  /**
+   * svg-path-properties' length of one absolute C, Q or A segment (command as
+   * a char code, its numbers at numbers[offset …] in svgpath's order) starting
+   * at (fromX, fromY).
+   */
+  measure(fromX: number, fromY: number, command: number, numbers: ArrayLike<number>, offset: number): number {
+    const count = curveNumberCount(command)
+    const { shape } = this
+    if (!roundShape(shape, fromX, fromY, command, numbers, offset, count)) return lengthAsDrawn(fromX, fromY, command, numbers, offset, count)
+    const hash = shapeHash(shape, count)
+    const row = rememberedRow(shape, this.rememberedByHash.get(hash), count)
+    if (row !== undefined) return row[count + 1]
+    const lengthMm = lengthFromOrigin(shape, command, count)
+    // svg-path-properties' arc solver answers NaN for some arcs whose radii just fit (a square root of a rounding error
+    // below zero); which ones depends on the last bits, so the arc as drawn may still measure.
+    if (Number.isNaN(lengthMm)) return lengthAsDrawn(fromX, fromY, command, numbers, offset, count)
+    if (this.rememberedCount >= MAX_REMEMBERED_CURVES) {
+      this.rememberedByHash.clear()
+      this.rememberedCount = 0
+    }
+    const remembered = new Float64Array(count + 2)
+    remembered.set(shape.subarray(0, count + 1))
+    remembered[count + 1] = lengthMm
+    const rows = this.rememberedByHash.get(hash)
+    if (rows === undefined) this.rememberedByHash.set(hash, [remembered])
+    else rows.push(remembered)
+    this.rememberedCount++
+    return lengthMm
+  }
+}
 
 /**
- * svg-path-properties' length of one absolute C, Q or A segment (command as
- * a char code, its numbers at numbers[offset …] in svgpath's order) starting
- * at (fromX, fromY).
+ * The shape's length as svg-path-properties measures the path "M0 0" and the
+ * segment in `shape` (its numbers written as text and read back, which gives
+ * the same numbers): arcs and cubics by the same arithmetic without the
+ * library's objects (`curveLengthPort.ts`), quadratics by the library.
  */
-export function measuredCurveLength(fromX: number, fromY: number, command: number, numbers: ArrayLike<number>, offset: number): number {
-  const count = curveNumberCount(command)
-  if (!roundShape(fromX, fromY, command, numbers, offset, count)) return lengthAsDrawn(fromX, fromY, command, numbers, offset, count)
-  const hash = shapeHash(count)
-  const row = rememberedRow(rememberedByHash.get(hash), count)
-  if (row !== undefined) return row[count + 1]
-  const lengthMm = new svgPathProperties(pathDataFromOrigin(command, count)).getTotalLength()
-  // svg-path-properties' arc solver answers NaN for some arcs whose radii just fit (a square root of a rounding error
-  // below zero); which ones depends on the last bits, so the arc as drawn may still measure.
-  if (Number.isNaN(lengthMm)) return lengthAsDrawn(fromX, fromY, command, numbers, offset, count)
-  if (rememberedCount >= MAX_REMEMBERED_CURVES) {
-    rememberedByHash.clear()
-    rememberedCount = 0
-  }
-  const remembered = new Float64Array(count + 2)
-  remembered.set(shape.subarray(0, count + 1))
-  remembered[count + 1] = lengthMm
-  const rows = rememberedByHash.get(hash)
-  if (rows === undefined) rememberedByHash.set(hash, [remembered])
-  else rows.push(remembered)
-  rememberedCount++
-  return lengthMm
+function lengthFromOrigin(shape: Float64Array, command: number, count: number): number {
+  const number = (position: number) => shape[position] / ROUNDINGS_PER_MM
+  // The library's path reader takes a flag as set when it reads exactly 1.
+  if (command === CURVE_ARC) return arcLengthFromOrigin(number(1), number(2), number(3), number(4) === 1, number(5) === 1, number(6), number(7))
+  if (command === CURVE_CUBIC) return cubicLengthFromOrigin(number(1), number(2), number(3), number(4), number(5), number(6))
+  return new svgPathProperties(pathDataFromOrigin(shape, command, count)).getTotalLength()
 }
 
 function lengthAsDrawn(fromX: number, fromY: number, command: number, numbers: ArrayLike<number>, offset: number, count: number): number {
@@ -61,7 +80,7 @@ function lengthAsDrawn(fromX: number, fromY: number, command: number, numbers: A
  * Writes the command and the segment's numbers from the origin in whole
  * nanometres into `shape`; false when a number is too large to round.
  */
-function roundShape(fromX: number, fromY: number, command: number, numbers: ArrayLike<number>, offset: number, count: number): boolean {
+function roundShape(shape: Float64Array, fromX: number, fromY: number, command: number, numbers: ArrayLike<number>, offset: number, count: number): boolean {
   const isArc = command === CURVE_ARC
   shape[0] = command
   for (let position = 1; position <= count; position++) {
@@ -76,7 +95,7 @@ function roundShape(fromX: number, fromY: number, command: number, numbers: Arra
 }
 
 /** FNV-style mix of the rounded numbers' low and high 32-bit halves (they are integers below 2^53). */
-function shapeHash(count: number): number {
+function shapeHash(shape: Float64Array, count: number): number {
   let hash = 0x811c9dc5 ^ shape[0]
   for (let position = 1; position <= count; position++) {
     const value = shape[position]
@@ -87,19 +106,19 @@ function shapeHash(count: number): number {
 }
 
 /** The remembered row of the shape in `shape`, if any (rows of one hash differ only on a hash collision). */
-function rememberedRow(rows: Float64Array[] | undefined, count: number): Float64Array | undefined {
+function rememberedRow(shape: Float64Array, rows: Float64Array[] | undefined, count: number): Float64Array | undefined {
   if (rows === undefined) return undefined
-  for (const row of rows) if (isShapeRow(row, count)) return row
+  for (const row of rows) if (isShapeRow(shape, row, count)) return row
   return undefined
 }
 
-function isShapeRow(row: Float64Array, count: number): boolean {
+function isShapeRow(shape: Float64Array, row: Float64Array, count: number): boolean {
   if (row.length !== count + 2) return false
   for (let position = 0; position <= count; position++) if (row[position] !== shape[position]) return false
   return true
 }
 
-function pathDataFromOrigin(command: number, count: number): string {
+function pathDataFromOrigin(shape: Float64Array, command: number, count: number): string {
   let numbersText = ''
   for (let position = 1; position <= count; position++) numbersText += ` ${shape[position] / ROUNDINGS_PER_MM}`
   return `M0 0${String.fromCharCode(command)}${numbersText}`

@@ -46,7 +46,7 @@ export class SiteList {
     this.contourB[site] = contourB
   }
 
-  /** Adds to a fact that counts or sums over the sites (lines in an unmapped colour, length cut twice). */
+  /** Adds to a fact that counts over the group (the lines drawn in an unmapped colour, of which only the first is a site). */
   addToFact(name: string, amount: number): void {
     const facts = (this.spec.facts ??= {})
     facts[name] = ((facts[name] as number | undefined) ?? 0) + amount
@@ -158,7 +158,7 @@ export class FindingCollector {
 const SEVERITY_RANK: Record<Severity, number> = { error: 0, warning: 1, info: 2 }
 
 /** The stable name of a group: code, cause and limit (the limit as a short decimal). */
-export function groupKey(code: string, cause: string, limitMm: number | undefined): string {
+function groupKey(code: string, cause: string, limitMm: number | undefined): string {
   return `${code}:${cause}:${limitMm === undefined ? '' : String(Number(limitMm.toPrecision(12)))}`
 }
 

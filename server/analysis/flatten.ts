@@ -1,10 +1,10 @@
 import svgpath from 'svgpath'
 import arcToCubics from 'svgpath/lib/a2c.js'
-import { measuredCurveLength } from './curveLength'
+import type { CurveLengthMemory } from './curveLength'
 import { AnalysisInputError } from './errors'
 import type { Matrix } from './matrix'
 import type { PolylineSet } from './polylines'
-import { CURVE_ARC, CURVE_CUBIC, CURVE_STRIDE, PathSteps, STEP_CLOSE, STEP_CURVE, STEP_MOVE } from './pathSteps'
+import { CURVE_ARC, CURVE_CUBIC, CURVE_STRIDE, curveNumberCount, PathSteps, STEP_CLOSE, STEP_CURVE, STEP_MOVE } from './pathSteps'
 import { hypot } from './distance'
 
 // Beyond a kilometre a coordinate is a drawing mistake (or 1e300), and sums of squares would overflow.
@@ -24,14 +24,16 @@ interface SvgPathWithState {
  * transforms arcs exactly, including skew; svg-path-properties measures them).
  * Path data that PathSteps reads skips svgpath: straight steps go through
  * the matrix as svgpath's Matrix.calc would take them, and curves are used
- * as read when the matrix is the identity (svgpath leaves them alone then).
+ * as read when the matrix is the identity (svgpath leaves them alone then),
+ * or go through the matrix as svgpath's matrix() takes them when every
+ * number of the path is absolute (`transformedCurve`).
  */
-export function flattenPath(pathData: string, matrix: Matrix, chordToleranceMm: number, target: PolylineSet, operationCode: number, elementIndex: number, forceClosed: boolean): void {
-  const subpaths = new SubpathWriter(target, operationCode, elementIndex, forceClosed)
+export function flattenPath(pathData: string, matrix: Matrix, chordToleranceMm: number, target: PolylineSet, operationCode: number, elementIndex: number, forceClosed: boolean, curveLengths: CurveLengthMemory): void {
+  const subpaths = new SubpathWriter(target, operationCode, elementIndex, forceClosed, curveLengths)
   const [a, b, c, d, e, f] = matrix
   // svgpath's own identity test: under it no arithmetic may touch the numbers.
   const identity = a === 1 && b === 0 && c === 0 && d === 1 && e === 0 && f === 0
-  if (pathSteps.read(pathData) && (identity || pathSteps.curveCount === 0)) flattenSteps(pathSteps, matrix, identity, chordToleranceMm, subpaths)
+  if (pathSteps.read(pathData) && (identity || pathSteps.curveCount === 0 || !pathSteps.hasRelative)) flattenSteps(pathSteps, matrix, identity, chordToleranceMm, subpaths)
   else flattenWithSvgpath(pathData, matrix, chordToleranceMm, subpaths)
   subpaths.finish(false)
 }
@@ -41,25 +43,106 @@ const pathSteps = new PathSteps()
 function flattenSteps(steps: PathSteps, matrix: Matrix, identity: boolean, chordToleranceMm: number, subpaths: SubpathWriter): void {
   const [a, b, c, d, e, f] = matrix
   let curve = 0
+  // The current point before the matrix, as svgpath's iterate() tracks it.
+  let userX = 0
+  let userY = 0
   for (let step = 0; step < steps.count; step++) {
     const kind = steps.kind[step]
+    if (kind === STEP_CURVE) {
+      const command = steps.curveCommand[curve]
+      const offset = curve * CURVE_STRIDE
+      if (identity) flattenCurve(command, steps.curveNumbers, offset, chordToleranceMm, subpaths)
+      else transformedCurve(command, steps.curveNumbers, offset, matrix, userX, userY, chordToleranceMm, subpaths)
+      const end = offset + curveNumberCount(command) - 2
+      userX = steps.curveNumbers[end]
+      userY = steps.curveNumbers[end + 1]
+      curve++
+      continue
+    }
+    userX = steps.x[step]
+    userY = steps.y[step]
     if (kind === STEP_CLOSE) {
       subpaths.finish(true)
       continue
     }
-    if (kind === STEP_CURVE) {
-      flattenCurve(steps.curveCommand[curve], steps.curveNumbers, curve * CURVE_STRIDE, chordToleranceMm, subpaths)
-      curve++
-      continue
-    }
-    const userX = steps.x[step]
-    const userY = steps.y[step]
     // svgpath's Matrix.calc, term for term.
     const x = identity ? userX : userX * a + userY * c + e
     const y = identity ? userY : userX * b + userY * d + f
     if (kind === STEP_MOVE) subpaths.moveTo(x, y)
     else subpaths.lineTo(x, y)
   }
+}
+
+/**
+ * An absolute C, Q or A segment through the matrix as svgpath's matrix()
+ * transforms it, term for term: control and end points by Matrix.calc; an
+ * arc's radii and rotation by its Ellipse.transform, the sweep flag turned
+ * over by a mirroring matrix, and a line instead of an arc that ends where it
+ * starts (before the matrix) or whose ellipse is degenerate.
+ */
+function transformedCurve(command: number, numbers: Float64Array, offset: number, matrix: Matrix, fromUserX: number, fromUserY: number, chordToleranceMm: number, subpaths: SubpathWriter): void {
+  const [a, b, c, d, e, f] = matrix
+  if (command !== CURVE_ARC) {
+    for (let position = 0; position < curveNumberCount(command); position += 2) {
+      const x = numbers[offset + position]
+      const y = numbers[offset + position + 1]
+      transformed[position] = x * a + y * c + e
+      transformed[position + 1] = x * b + y * d + f
+    }
+    flattenCurve(command, transformed, 0, chordToleranceMm, subpaths)
+    return
+  }
+  const ellipse = transformedEllipse(numbers[offset], numbers[offset + 1], numbers[offset + 2], matrix)
+  const sweep = numbers[offset + 4]
+  const x = numbers[offset + 5]
+  const y = numbers[offset + 6]
+  const toX = x * a + y * c + e
+  const toY = x * b + y * d + f
+  if ((x === fromUserX && y === fromUserY) || ellipse.rx < ELLIPSE_EPSILON * ellipse.ry || ellipse.ry < ELLIPSE_EPSILON * ellipse.rx) {
+    subpaths.lineTo(toX, toY)
+    return
+  }
+  transformed[0] = ellipse.rx
+  transformed[1] = ellipse.ry
+  transformed[2] = ellipse.ax
+  transformed[3] = numbers[offset + 3]
+  transformed[4] = a * d - b * c < 0 ? (sweep ? 0 : 1) : sweep
+  transformed[5] = toX
+  transformed[6] = toY
+  flattenCurve(CURVE_ARC, transformed, 0, chordToleranceMm, subpaths)
+}
+
+// One transformed segment's numbers, in the layout of PathSteps' curves.
+const transformed = new Float64Array(CURVE_STRIDE)
+
+// svgpath 2.6's ellipse.js: its tolerance, and degrees to radians as it computes them.
+const ELLIPSE_EPSILON = 0.0000000001
+const DEGREES_TO_RADIANS = Math.PI / 180
+
+/** svgpath's Ellipse(rx, ry, ax).transform(matrix), term for term: the radii and rotation (degrees) of the transformed ellipse. */
+function transformedEllipse(rxGiven: number, ryGiven: number, axGiven: number, m: Matrix): { rx: number; ry: number; ax: number } {
+  const c = Math.cos(axGiven * DEGREES_TO_RADIANS)
+  const s = Math.sin(axGiven * DEGREES_TO_RADIANS)
+  const ma0 = rxGiven * (m[0] * c + m[2] * s)
+  const ma1 = rxGiven * (m[1] * c + m[3] * s)
+  const ma2 = ryGiven * (-m[0] * s + m[2] * c)
+  const ma3 = ryGiven * (-m[1] * s + m[3] * c)
+  const J = ma0 * ma0 + ma2 * ma2
+  const K = ma1 * ma1 + ma3 * ma3
+  let D = ((ma0 - ma3) * (ma0 - ma3) + (ma2 + ma1) * (ma2 + ma1)) * ((ma0 + ma3) * (ma0 + ma3) + (ma2 - ma1) * (ma2 - ma1))
+  const JK = (J + K) / 2
+  if (D < ELLIPSE_EPSILON * JK) {
+    const radius = Math.sqrt(JK)
+    return { rx: radius, ry: radius, ax: 0 }
+  }
+  const L = ma0 * ma1 + ma2 * ma3
+  D = Math.sqrt(D)
+  const l1 = JK + D / 2
+  const l2 = JK - D / 2
+  let ax = Math.abs(L) < ELLIPSE_EPSILON && Math.abs(l1 - K) < ELLIPSE_EPSILON ? 90 : (Math.atan(Math.abs(L) > Math.abs(l1 - K) ? (l1 - J) / L : L / (l1 - K)) * 180) / Math.PI
+  if (ax >= 0) return { rx: Math.sqrt(l1), ry: Math.sqrt(l2), ax }
+  ax += 90
+  return { rx: Math.sqrt(l2), ry: Math.sqrt(l1), ax }
 }
 
 function flattenWithSvgpath(pathData: string, matrix: Matrix, chordToleranceMm: number, subpaths: SubpathWriter): void {
@@ -106,7 +189,7 @@ function flattenCurve(command: number, numbers: Float64Array, offset: number, ch
       ? addCubic(target, x, y, numbers[offset], numbers[offset + 1], numbers[offset + 2], numbers[offset + 3], numbers[offset + 4], numbers[offset + 5], chordToleranceMm)
       : addQuadratic(target, x, y, numbers[offset], numbers[offset + 1], numbers[offset + 2], numbers[offset + 3], chordToleranceMm)
     const end = offset + (isCubic ? 4 : 2)
-    subpaths.curveTo(numbers[end], numbers[end + 1], curveLength(x, y, command, numbers, offset, chordsMm))
+    subpaths.curveTo(numbers[end], numbers[end + 1], curveLength(subpaths.curveLengths, x, y, command, numbers, offset, chordsMm))
     return
   }
   const rx = numbers[offset]
@@ -129,7 +212,7 @@ function flattenCurve(command: number, numbers: Float64Array, offset: number, ch
   target.xy[2 * target.pointCount - 2] = toX
   target.xy[2 * target.pointCount - 1] = toY
   // The cubics approximating an arc bulge slightly outside it, so their chords are no lower bound here.
-  subpaths.curveTo(toX, toY, curveLength(x, y, command, numbers, offset, 0))
+  subpaths.curveTo(toX, toY, curveLength(subpaths.curveLengths, x, y, command, numbers, offset, 0))
 }
 
 /**
@@ -150,6 +233,7 @@ class SubpathWriter {
     private readonly operationCode: number,
     private readonly elementIndex: number,
     private readonly forceClosed: boolean,
+    readonly curveLengths: CurveLengthMemory,
   ) {}
 
   moveTo(x: number, y: number): void {
@@ -200,8 +284,8 @@ class SubpathWriter {
  * given: by the triangle inequality no curve is shorter than its chords, and
  * quadrature undershoots near cusps.
  */
-function curveLength(fromX: number, fromY: number, command: number, numbers: Float64Array, offset: number, chordsMm: number): number {
-  return Math.max(chordsMm, measuredCurveLength(fromX, fromY, command, numbers, offset))
+function curveLength(curveLengths: CurveLengthMemory, fromX: number, fromY: number, command: number, numbers: Float64Array, offset: number, chordsMm: number): number {
+  return Math.max(chordsMm, curveLengths.measure(fromX, fromY, command, numbers, offset))
 }
 
 function addPoint(target: PolylineSet, x: number, y: number): void {

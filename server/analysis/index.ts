@@ -1,4 +1,5 @@
 import { chainPolylines } from './chain'
+import { CurveLengthMemory } from './curveLength'
 import { runDesignRuleChecks } from './checks/index'
 import { type CutFileFormat, detectCutFileFormat } from './dxf/format'
 import { parseDxf } from './dxf/parseDxf'
@@ -56,7 +57,7 @@ export function analyzeSvgWithGeometry(svgText: string, params: AnalysisParams, 
 
 /**
  * Parse and read in a scope of their own: once the drawing is read, the
- * svgson tree (millions of small strings) is garbage, and the collector no
+ * SVG tree (millions of small objects and strings) is garbage, and the collector no
  * longer walks it during the later stages.
  */
 function readSvgText(svgText: string, params: AnalysisParams, findings: FindingCollector, lap: (stage: AnalysisStage) => void): ReadDrawing {
@@ -95,8 +96,9 @@ export function analyzeCutFileWithGeometry(text: string, params: AnalysisParams,
 
 function analyzeDrawing(drawing: ReadDrawing, params: AnalysisParams, findings: FindingCollector, lap: (stage: AnalysisStage) => void): { result: AnalysisResult; geometry: AnalysedGeometry } {
   const pieces = new PolylineSet()
+  const curveLengths = new CurveLengthMemory()
   drawing.elements.forEach((element, elementIndex) => {
-    flattenPath(element.pathData, element.matrix, params.chordToleranceMm, pieces, OPERATION_CODES[element.operation], elementIndex, element.filled)
+    flattenPath(element.pathData, element.matrix, params.chordToleranceMm, pieces, OPERATION_CODES[element.operation], elementIndex, element.filled, curveLengths)
   })
   lap('flatten')
   const contours = chainPolylines(pieces, params.chainToleranceMm)

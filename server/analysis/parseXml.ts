@@ -1,5 +1,5 @@
-import { parseSync, type INode } from 'svgson'
 import { AnalysisInputError } from './errors'
+import { parseXmlTree, type XmlNode } from './xmlTree'
 
 const DOCTYPE_PATTERN = /<!DOCTYPE/i
 // An internal subset may declare entities; the parser leaves entity references
@@ -14,10 +14,10 @@ const MAX_ATTRIBUTES_PER_TAG = 2000
 const MIN_CHARACTERS_OF_CROWDED_TAG = MAX_ATTRIBUTES_PER_TAG * 4
 
 /**
- * Parses SVG text into an svgson tree. The XML reader svgson uses is
- * iterative, so deep nesting costs time in proportion to the file, not stack.
+ * Parses SVG text into the tree svgson would give (`xmlTree.ts`). The reader
+ * is iterative, so deep nesting costs time in proportion to the file, not stack.
  */
-export function parseSvgXml(svgText: string): INode {
+export function parseSvgXml(svgText: string): XmlNode {
   if (typeof svgText !== 'string' || !SVG_ROOT_PATTERN.test(svgText)) {
     throw new AnalysisInputError('notSvg', 'This file is not an SVG drawing. Export the pattern as SVG and upload it again.')
   }
@@ -28,9 +28,9 @@ export function parseSvgXml(svgText: string): INode {
   const withoutDoctype = stripDoctype(svgText)
   const text = withoutDoctype.includes('<!--') ? withoutDoctype.replace(COMMENT_PATTERN, '') : withoutDoctype
   assertReasonableTags(text)
-  let root: INode
+  let root: XmlNode | XmlNode[]
   try {
-    root = parseSync(text)
+    root = parseXmlTree(text)
   } catch {
     throw new AnalysisInputError('malformedXml', 'This SVG file is damaged or incomplete (its XML could not be read). Save it again from your drawing program.')
   }

@@ -65,6 +65,8 @@ export class PathSteps {
   curveCommand = new Uint8Array(16)
   curveNumbers = new Float64Array(16 * CURVE_STRIDE)
   curveCount = 0
+  /** Whether a number was relative (added to the current point): svgpath transforms those before adding, so only all-absolute curves may skip it under a matrix. */
+  hasRelative = false
   private text = ''
   private index = 0
   private number = 0
@@ -75,6 +77,7 @@ export class PathSteps {
     this.index = 0
     this.count = 0
     this.curveCount = 0
+    this.hasRelative = false
     let currentX = 0
     let currentY = 0
     let subpathX = 0
@@ -95,6 +98,7 @@ export class PathSteps {
       }
       const curveParameters = CURVE_PARAMETERS[lowerCase]
       if (curveParameters !== undefined) {
+        if (relative) this.hasRelative = true
         const end = this.readCurves(command, curveParameters, relative, currentX, currentY)
         if (!end) return false
         currentX = end[0]
@@ -107,6 +111,7 @@ export class PathSteps {
       let firstPair = true
       for (;;) {
         const addsToCurrent = firstPair ? firstIsRelative : relative
+        if (addsToCurrent) this.hasRelative = true
         if (lowerCase === 0x68 || lowerCase === 0x76) {
           if (!this.scanNumber()) return false
           if (lowerCase === 0x68) currentX = addsToCurrent ? this.number + currentX : this.number

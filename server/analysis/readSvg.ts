@@ -1,4 +1,3 @@
-import type { INode } from 'svgson'
 import { parseColour, toHex } from './colour'
 import { ColourMapper } from './colourMapping'
 import { AnalysisInputError } from './errors'
@@ -11,6 +10,7 @@ import { shapeToPathData } from './shapes'
 import { type ComputedStyle, computeStyle, INITIAL_STYLE } from './style'
 import { StyleSheet } from './stylesheet'
 import { parseViewBox, rootMatrix, viewBoxMatrix } from './viewport'
+import type { XmlNode } from './xmlTree'
 
 /** A visible shape to flatten: its path data in user units and the matrix into mm. */
 export interface DrawnElement {
@@ -37,19 +37,19 @@ const CONTAINERS = new Set(['g', 'a', 'switch', 'svg'])
 const SHAPES = new Set(['path', 'rect', 'circle', 'ellipse', 'line', 'polyline', 'polygon'])
 
 interface Pending {
-  node: INode
+  node: XmlNode
   parentMatrix: Matrix
   parentStyle: ComputedStyle
   useDepth: number
 }
 
 /**
- * Walks the svgson tree without recursion and lists what a renderer would
+ * Walks the SVG tree without recursion and lists what a renderer would
  * paint, with each stroke's operation from the colour mapping. Text and
  * raster images become findings (a site each), as do stroke colours the
  * mapping lacks (a group per colour, its site at the first such line).
  */
-export function readSvgDocument(root: INode, params: AnalysisParams, findings: FindingCollector): ReadDrawing {
+export function readSvgDocument(root: XmlNode, params: AnalysisParams, findings: FindingCollector): ReadDrawing {
   const { byId, styleSheet } = indexDocument(root)
   const mapper = new ColourMapper(params.colourMapping)
   const elements: DrawnElement[] = []
@@ -57,7 +57,7 @@ export function readSvgDocument(root: INode, params: AnalysisParams, findings: F
   // Thousands of shapes share a handful of colours: each colour text is parsed once.
   const paints = new Map<string, Paint>()
   const stack: Pending[] = []
-  const pushChildren = (node: INode, matrix: Matrix, style: ComputedStyle, useDepth: number) => {
+  const pushChildren = (node: XmlNode, matrix: Matrix, style: ComputedStyle, useDepth: number) => {
     for (let index = node.children.length - 1; index >= 0; index--) stack.push({ node: node.children[index], parentMatrix: matrix, parentStyle: style, useDepth })
   }
   const rootStyle = computeStyle(root, INITIAL_STYLE, styleSheet)
@@ -147,7 +147,7 @@ function paintOfColour(colourText: string): Paint {
   return { kind: 'colour', colour, hex, label: hex, alpha: colour.a }
 }
 
-function expandUse(node: INode, matrix: Matrix, style: ComputedStyle, useDepth: number, byId: IdIndex, styleSheet: StyleSheet, stack: Pending[]): void {
+function expandUse(node: XmlNode, matrix: Matrix, style: ComputedStyle, useDepth: number, byId: IdIndex, styleSheet: StyleSheet, stack: Pending[]): void {
   const reference = node.attributes.href ?? node.attributes['xlink:href']
   const target = reference?.startsWith('#') ? byId.get(reference.slice(1)) : undefined
   if (!target) return
@@ -166,7 +166,7 @@ function expandUse(node: INode, matrix: Matrix, style: ComputedStyle, useDepth: 
   }
 }
 
-function symbolViewportMatrix(symbol: INode, use: INode): Matrix {
+function symbolViewportMatrix(symbol: XmlNode, use: XmlNode): Matrix {
   const viewBox = parseViewBox(symbol.attributes.viewBox)
   if (!viewBox) return translation(0, 0)
   const width = parseNumberAttribute(use.attributes.width ?? symbol.attributes.width, 'width', viewBox.width)
@@ -175,7 +175,7 @@ function symbolViewportMatrix(symbol: INode, use: INode): Matrix {
 }
 
 /** A nested <svg> (sizes in the parent's user units; percentages fall back to the viewBox size). */
-function nestedViewportMatrix(node: INode): Matrix {
+function nestedViewportMatrix(node: XmlNode): Matrix {
   const offset = translation(parseNumberAttribute(node.attributes.x, 'x', 0), parseNumberAttribute(node.attributes.y, 'y', 0))
   const viewBox = parseViewBox(node.attributes.viewBox)
   if (!viewBox) return offset
@@ -185,7 +185,7 @@ function nestedViewportMatrix(node: INode): Matrix {
   return multiply(offset, viewBoxMatrix(viewBox, width, height, node.attributes.preserveAspectRatio))
 }
 
-function addElementSite(sites: SiteList, node: INode, matrix: Matrix): void {
+function addElementSite(sites: SiteList, node: XmlNode, matrix: Matrix): void {
   const x = firstNumberOf(node.attributes.x)
   const y = firstNumberOf(node.attributes.y)
   sites.add(applyX(matrix, x, y), applyY(matrix, x, y))
@@ -210,10 +210,10 @@ function firstCoordinates(pathData: string): [number, number] {
  * ids are only put in a map when a <use> first asks: hashing every id of a
  * large drawing costs more than the rest of the pass.
  */
-function indexDocument(root: INode): { byId: IdIndex; styleSheet: StyleSheet } {
-  const withId: INode[] = []
+function indexDocument(root: XmlNode): { byId: IdIndex; styleSheet: StyleSheet } {
+  const withId: XmlNode[] = []
   const styleSheet = new StyleSheet()
-  const nodes: INode[] = [root]
+  const nodes: XmlNode[] = [root]
   const depths: number[] = [0]
   while (nodes.length > 0) {
     const node = nodes.pop()!
@@ -236,11 +236,11 @@ function indexDocument(root: INode): { byId: IdIndex; styleSheet: StyleSheet } {
 
 /** Elements by id (given in document order), the first of equal ids winning, as getElementById does; the map is built on the first lookup. */
 class IdIndex {
-  private map: Map<string, INode> | undefined
+  private map: Map<string, XmlNode> | undefined
 
-  constructor(private readonly withId: INode[]) {}
+  constructor(private readonly withId: XmlNode[]) {}
 
-  get(id: string): INode | undefined {
+  get(id: string): XmlNode | undefined {
     if (this.map === undefined) {
       this.map = new Map()
       for (const node of this.withId) if (!this.map.has(node.attributes.id)) this.map.set(node.attributes.id, node)

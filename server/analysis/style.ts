@@ -1,6 +1,6 @@
-import type { INode } from 'svgson'
 import { parseOpacity } from './colour'
 import { parseDeclarations, type StyleSheet } from './stylesheet'
+import type { XmlNode } from './xmlTree'
 
 /** The painting properties the engine needs, as computed for one element (SVG 1.1 §11, CSS cascade). */
 export interface ComputedStyle {
@@ -38,7 +38,7 @@ const STYLE_PROPERTIES = new Set(['stroke', 'fill', 'color', 'stroke-width', 'st
  * later wins (SVG 1.1 §6.4). Undefined when nothing applies, which is most
  * elements of a large drawing, so they cost no map.
  */
-function collectDeclarations(node: INode, styleSheet: StyleSheet): Map<string, string> | undefined {
+function collectDeclarations(node: XmlNode, styleSheet: StyleSheet): Map<string, string> | undefined {
   let declarations: Map<string, string> | undefined
   // An element has a few attributes and there are ten style properties: look through the attributes.
   for (const name in node.attributes) {
@@ -54,7 +54,7 @@ function collectDeclarations(node: INode, styleSheet: StyleSheet): Map<string, s
   return declarations
 }
 
-export function computeStyle(node: INode, parent: ComputedStyle, styleSheet: StyleSheet): ComputedStyle {
+export function computeStyle(node: XmlNode, parent: ComputedStyle, styleSheet: StyleSheet): ComputedStyle {
   const declarations = collectDeclarations(node, styleSheet)
   if (!declarations) return parent
   const value = (property: string) => {

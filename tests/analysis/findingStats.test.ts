@@ -2,6 +2,7 @@ import { equalIntervalBreaks, max, median, min } from 'simple-statistics'
 import { describe, expect, it } from 'vitest'
 import { analyzeSvg, type FindingStats, withDefaults } from '../../server/analysis/index'
 import { findingStats } from '../../server/analysis/findings'
+import { seededRandom } from '../../scripts/lib/seeded-random'
 import { foldSheet } from './checks/foldPattern'
 import { mmDocument } from './helpers'
 import { sitesOf } from './sites'
@@ -29,15 +30,9 @@ function expectAgrees(stats: FindingStats | null, values: number[], label: strin
   expect(stats, label).toEqual({ ...expected, median: expect.closeTo(expected.median, 12) })
 }
 
-function seeded(seed: number): () => number {
-  let state = seed >>> 0
-  // 32-bit linear congruential generator (Numerical Recipes' constants).
-  return () => (state = (Math.imul(state, 1664525) + 1013904223) >>> 0) / 4294967296
-}
-
 describe('statistics of a group against simple-statistics', () => {
   it('agrees on random sets: odd and even counts, one value, equal values, repeats on bin edges, negative webs', () => {
-    const random = seeded(7)
+    const random = seededRandom(7)
     const sets: number[][] = [[0.5], [0.5, 0.5, 0.5], [2, 1], [0.3, -0.1, 0.7]]
     for (const size of [2, 3, 10, 11, 99, 1000, 25000]) {
       sets.push(Array.from({ length: size }, () => random() * 3 - 0.2))
