@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { forwardedClient } from '../../server/utils/client-ip'
-import { assertUnderRateLimit, MAX_KEYS, rateLimitCount, rateLimitKeyCount, recordRateLimitHit } from '../../server/utils/rate-limit'
+import { assertUnderRateLimit, MAX_HITS, MAX_HITS_PER_KEY, MAX_KEYS, rateLimitCount, rateLimitSize, recordRateLimitHit } from '../../server/utils/rate-limit'
 import { TooManyRequests } from '../../server/utils/errors'
 import { signInSlowDownMs } from '../../server/utils/sign-in-throttle'
 
@@ -13,15 +13,32 @@ describe('the rate limiter', () => {
     expect(() => assertUnderRateLimit(['unit:a'], 3, now + 60_001)).not.toThrow()
   })
 
-  it('holds a bounded number of keys and hits however many it is given, dropping the least recently hit', () => {
+  it('holds a bounded number of keys and times however many it is given, dropping the least recently hit', () => {
     const now = 2_000_000
     recordRateLimitHit(['unit:oldest'], now)
     for (let i = 0; i < MAX_KEYS + 20_000; i++) recordRateLimitHit([`unit:rotating-${i}`], now)
-    expect(rateLimitKeyCount()).toBeLessThanOrEqual(MAX_KEYS)
+    expect(rateLimitSize().keys).toBeLessThanOrEqual(MAX_KEYS)
     expect(rateLimitCount('unit:oldest', now)).toBe(0)
     expect(rateLimitCount(`unit:rotating-${MAX_KEYS + 19_999}`, now)).toBe(1)
-    for (let i = 0; i < 10_000; i++) recordRateLimitHit(['unit:busy'], now + i / 1000)
-    expect(rateLimitCount('unit:busy', now + 10)).toBeLessThanOrEqual(64)
+    // A key hammered without end keeps its newest times only, and they stay countable.
+    for (let i = 0; i < MAX_HITS_PER_KEY + 500; i++) recordRateLimitHit(['unit:busy-999'], now + i / 1_000_000)
+    expect(rateLimitCount('unit:busy-999', now + 10)).toBe(MAX_HITS_PER_KEY)
+    // Many keys hammered: the times in all are bounded too.
+    const keys = Math.ceil((1.2 * MAX_HITS) / MAX_HITS_PER_KEY)
+    for (let i = 0; i < keys * MAX_HITS_PER_KEY; i++) recordRateLimitHit([`unit:busy-${i % keys}`], now + 1 + i / 10_000_000)
+    expect(rateLimitSize().hits).toBeLessThanOrEqual(MAX_HITS)
+    // A limit above what a key keeps is enforced as that many, never not at all.
+    for (let i = 0; i < MAX_HITS_PER_KEY; i++) recordRateLimitHit(['unit:capped'], now + 2 + i / 1_000_000)
+    expect(() => assertUnderRateLimit(['unit:capped'], 5000, now + 10)).toThrow(TooManyRequests)
+  })
+
+  it('keeps its count of stored times right as times age out and keys are cleared', () => {
+    const now = 9_000_000
+    const before = rateLimitSize().hits
+    recordRateLimitHit(['unit:aging', 'unit:aging-2'], now)
+    expect(rateLimitSize().hits).toBe(before + 2)
+    expect(rateLimitCount('unit:aging', now + 60_001)).toBe(0)
+    expect(rateLimitSize().hits).toBe(before + 1)
   })
 })
 
