@@ -47,7 +47,7 @@ export function dropRestOfBody(event: H3Event): void {
   req.on('data', () => undefined)
   req.resume()
   res.once('finish', () => {
-    if (!req.complete) setTimeout(() => req.socket?.destroy(), 2000).unref()
+    if (!req.complete) setTimeout(() => !req.complete && req.socket?.destroy(), 2000).unref()
   })
 }
 
