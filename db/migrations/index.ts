@@ -9,7 +9,7 @@ import * as cuttingDay from './0007_cutting_day'
 import * as revisionPreview from './0008_revision_preview'
 import * as dxfLayers from './0009_dxf_layers'
 import * as revisionSummaries from './0010_revision_summaries'
-import * as userSessions from './0011_user_sessions'
+import * as userSessions from './0012_user_sessions'
 
 // Append-only: a schema change is a new file added at the end of this list, never an edit of a landed one.
 // Migrations are imported statically so the bundled server and the CLI run the same list.
@@ -24,7 +24,7 @@ const migrations: Record<string, Knex.Migration> = {
   '0008_revision_preview': revisionPreview,
   '0009_dxf_layers': dxfLayers,
   '0010_revision_summaries': revisionSummaries,
-  '0011_user_sessions': userSessions,
+  '0012_user_sessions': userSessions,
 }
 
 export const migrationSource: Knex.MigrationSource<string> = {
