@@ -1,5 +1,5 @@
 import type { FindingCounts, FindingGroup, FindingSites } from '#shared/finding-groups'
-import { decodeGeometry, decodeSites, type PreviewGeometry } from '#shared/packed-analysis'
+import { PackedFormatError, decodeGeometry, decodeSites, type PreviewGeometry } from '#shared/packed-analysis'
 import { fetchBytes } from '~/utils/preview/packed-fetch'
 
 /** A revision's summary as its route answers it: no sites, no geometry. */
@@ -47,7 +47,9 @@ export function useRevisionPreview(url: () => string) {
       preview.value = markRaw({ summary, geometry: markRaw(decodeGeometry(geometryBytes)), sites: markRaw(decodeSites(sitesBytes)) })
     } catch (error) {
       if (current.signal.aborted) return
-      failure.value = error instanceof Error ? error.message : String(error)
+      // $fetch errors carry the server's sentence in data.message; a damaged download says so plainly.
+      const fromServer = (error as { data?: { message?: string } }).data?.message
+      failure.value = fromServer ?? (error instanceof PackedFormatError ? 'The stored preview of this revision is damaged; upload the file again.' : error instanceof Error ? error.message : String(error))
     }
   }
 

@@ -65,6 +65,8 @@ const isOrAre = (count: number) => (count === 1 ? 'is' : 'are')
 /** Message, headline and advice of a group in plain words, from its facts. */
 export function describeGroup(group: Described): GroupDescription {
   const title = findingTitle(group.code)
+  // Revisions stored before findings were grouped keep their first finding's sentence instead of the numbers (db/legacy).
+  if (typeof group.facts.message === 'string') return { title, headline: `${counted(group.count, 'place', 'places')}: ${group.facts.message}`, advice: '' }
   const words = WORDING[group.code]?.(group, new Facts(group)) ?? { headline: `${formatCount(group.count)} × ${title}`, advice: '' }
   return { title, ...words }
 }
@@ -72,6 +74,7 @@ export function describeGroup(group: Described): GroupDescription {
 /** The line for one site of a group: its measured value in the group's terms, or '' when the site has none (no words that are not a number). */
 export function describeSite(group: Pick<FindingGroup, 'code' | 'cause' | 'facts'>, value: number): string {
   if (!Number.isFinite(value)) return ''
+  if (typeof group.facts.message === 'string') return formatMm(value)
   const facts = new Facts(group)
   switch (group.code) {
     case 'narrow-bridge':

@@ -47,19 +47,17 @@ export function unacknowledgedWarnings(groups: WarningGroupView[]): WarningGroup
  * `sameReasonForAll` covers the rest. Every open group must end up with a reason of a few words.
  */
 export async function recordAcknowledgements(trx: Knex, member: SessionUser, fileGroups: FileFindingGroups[], open: WarningGroupView[], given: AcknowledgementInput[], sameReasonForAll: string): Promise<number> {
-  const revisionIdOf = new Map(fileGroups.map((f) => [`${f.fileId}|${f.revision}`, f.revisionId]))
-  const reasonFor = new Map(given.map((a) => [`${a.fileId}|${a.revision}|${a.key}`, a.reason.trim()]))
-  for (const key of reasonFor.keys()) {
-    const [fileId, revision, groupKey] = key.split('|')
-    if (!open.some((g) => String(g.fileId) === fileId && String(g.revision) === revision && g.group.key === groupKey)) {
-      throw new InvalidInput('One of the acknowledged warnings is no longer open on this job; reload the page and try again.')
-    }
+  const revisionIdOf = new Map(fileGroups.map((f) => [`${f.fileId}/${f.revision}`, f.revisionId]))
+  const refOf = (fileId: number, revision: number, key: string) => JSON.stringify([fileId, revision, key])
+  const reasonFor = new Map(given.filter((a) => a.reason.trim()).map((a) => [refOf(a.fileId, a.revision, a.key), a.reason.trim()]))
+  if (given.some((a) => !open.some((g) => g.fileId === a.fileId && g.revision === a.revision && g.group.key === a.key))) {
+    throw new InvalidInput('One of the acknowledged warnings is no longer open on this job; reload the page and try again.')
   }
   const missing: string[] = []
   const rows = open.map((g) => {
-    const reason = reasonFor.get(`${g.fileId}|${g.revision}|${g.group.key}`) || sameReasonForAll.trim()
-    if (reason.length < MIN_REASON_CHARS) missing.push(`${g.fileId}|${g.revision}|${g.group.key}`)
-    return { file_revision_id: revisionIdOf.get(`${g.fileId}|${g.revision}`)!, group_key: g.group.key, reason, acknowledged_by: member.id }
+    const reason = reasonFor.get(refOf(g.fileId, g.revision, g.group.key)) || sameReasonForAll.trim()
+    if (reason.length < MIN_REASON_CHARS) missing.push(g.group.key)
+    return { file_revision_id: revisionIdOf.get(`${g.fileId}/${g.revision}`)!, group_key: g.group.key, reason, acknowledged_by: member.id }
   })
   if (missing.length > 0) {
     throw new InvalidInput(

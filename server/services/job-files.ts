@@ -1,7 +1,6 @@
 import type { Knex } from 'knex'
 import { MAX_FILES_PER_JOB } from '#shared/schemas/jobs'
 import type { SessionUser } from '#shared/roles'
-import { countGroups, worstSeverity } from '#shared/finding-groups'
 import { analysisOwnerKey, analyzeInWorker, type PackedAnalysis } from '../utils/analysis-pool'
 import type { CutFileUpload } from '../utils/cut-file-upload'
 import { Conflict, NotFound } from '../utils/errors'
@@ -35,7 +34,6 @@ async function insertRevision(trx: Knex, fileId: number, revision: number, uploa
     size_bytes: upload.sizeBytes,
     content_type: upload.format === 'dxf' ? 'image/vnd.dxf' : 'image/svg+xml',
     analysis_json: JSON.stringify(analysis),
-    worst_severity: worstSeverity(countGroups(analysis.findingGroups)),
     uploaded_by: uploaderId,
     ...summaryColumns(analysis),
   })

@@ -15,7 +15,7 @@ import { availableActions, transitionJob, type JobAction, type TransitionRecord 
 import { acknowledgedGroups, recordAcknowledgements, unacknowledgedWarnings, type AcknowledgementInput } from './finding-acknowledgements'
 import { countFindings, currentFiles, currentFindingGroups, filesOfJobs, findingRefLabel, type JobFileView } from './job-revisions'
 
-export { countFindings, currentFiles, type JobFileView } from './job-revisions'
+export { currentFiles, type JobFileView } from './job-revisions'
 
 export interface JobRow {
   id: number
@@ -194,17 +194,17 @@ export async function listJobs(db: Knex, viewer: SessionUser, filter: { state?: 
 export async function submitJob(db: Knex, member: SessionUser, jobId: number, input: { acknowledgement?: string; acknowledgements?: AcknowledgementInput[] } = {}): Promise<TransitionRecord> {
   const job = await jobForViewer(db, member, jobId)
   await analysisParamsFor(db, { cutterId: job.cutter_id, materialId: job.material_id, sheetId: job.sheet_id })
-  const files = await currentFiles(db, jobId)
-  if (files.length === 0) throw new InvalidInput('Add at least one file before submitting.')
-  const counts = countFindings(files)
-  if (counts.errors > 0 && !job.override_reason) {
-    throw new InvalidInput(`${counts.errorGroups} ${counts.errorGroups === 1 ? 'kind of problem needs' : 'kinds of problem need'} fixing before this job can be submitted (${counts.errors} ${counts.errors === 1 ? 'place' : 'places'}). Upload corrected files, or ask the staff.`, { errors: counts.errors })
-  }
-  const fileGroups = await currentFindingGroups(db, files)
-  const warnings = await acknowledgedGroups(db, fileGroups)
-  const open = unacknowledgedWarnings(warnings)
+  // Files, findings and reasons are read in the transaction that submits, so a revision stored meanwhile is checked too.
   return db.transaction(async (trx) => {
-    await recordAcknowledgements(trx, member, fileGroups, open, input.acknowledgements ?? [], input.acknowledgement ?? '')
+    const files = await currentFiles(trx, jobId)
+    if (files.length === 0) throw new InvalidInput('Add at least one file before submitting.')
+    const counts = countFindings(files)
+    if (counts.errors > 0 && !job.override_reason) {
+      throw new InvalidInput(`${counts.errorGroups} ${counts.errorGroups === 1 ? 'kind of problem needs' : 'kinds of problem need'} fixing before this job can be submitted (${counts.errors} ${counts.errors === 1 ? 'place' : 'places'}). Upload corrected files, or ask the staff.`, { errors: counts.errors })
+    }
+    const fileGroups = await currentFindingGroups(trx, files)
+    const warnings = await acknowledgedGroups(trx, fileGroups)
+    await recordAcknowledgements(trx, member, fileGroups, unacknowledgedWarnings(warnings), input.acknowledgements ?? [], input.acknowledgement ?? '')
     const summary = warnings.length > 0 ? `${warnings.length} ${warnings.length === 1 ? 'group' : 'groups'} of warnings acknowledged (${counts.warnings} ${counts.warnings === 1 ? 'place' : 'places'})` : ''
     await trx('jobs').where({ id: jobId }).update({ warnings_acknowledgement: warnings.length > 0 ? summary : null })
     return transitionJob(trx, jobId, 'submit', member, { comment: summary })

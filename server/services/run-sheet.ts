@@ -19,7 +19,7 @@ export interface RunSheetEntry {
   start: string
   end: string
   paid: boolean
-  job: { id: number; title: string; state: string; notes: string; warningsAcknowledgement: string | null; overrideReason: string | null }
+  job: { id: number; title: string; state: string; notes: string; overrideReason: string | null }
   member: { name: string; email: string }
   material: { name: string; thicknessMm: number; hazardNote: string }
   sheets: { count: number; widthMm: number; heightMm: number }
@@ -55,14 +55,15 @@ export async function runSheet(db: Knex, cutterId: number, localDate: string): P
       db('cut_problems').where({ job_id: job.id }).orderBy('id').select('kind', 'note', 'created_at as at'),
     ])
     const estimate = await jobEstimate(db, job, files)
-    const warningGroups = await acknowledgedGroups(db, await currentFindingGroups(db, files))
+    const withWarnings = files.filter((f) => f.current.counts.warningGroups > 0)
+    const warningGroups = withWarnings.length ? (await acknowledgedGroups(db, await currentFindingGroups(db, withWarnings))).filter((g) => g.acknowledgement) : []
     const sheet = material.sheets.find((s) => s.id === job.sheet_id) ?? material.sheets[0]!
     entries.push({
       bookingId: booking.id,
       start: booking.starts_at,
       end: booking.ends_at,
       paid: booking.status === 'confirmed',
-      job: { id: job.id, title: job.title, state: job.state, notes: job.notes, warningsAcknowledgement: job.warnings_acknowledgement, overrideReason: job.override_reason },
+      job: { id: job.id, title: job.title, state: job.state, notes: job.notes, overrideReason: job.override_reason },
       member,
       material: { name: material.name, thicknessMm: material.thicknessMm, hazardNote: material.hazardNote },
       sheets: { count: estimate.sheetCount, widthMm: sheet.widthMm, heightMm: sheet.heightMm },

@@ -30,7 +30,8 @@ const groupRefFields = {
 export const submitJobSchema = z.object({
   /** One reason for every group of warnings not given a reason of its own. */
   acknowledgement: reasonField.optional(),
-  acknowledgements: z.array(z.object({ ...groupRefFields, reason: reasonField })).max(500).optional(),
+  // Only the groups the member wrote a reason for; the server names any group still without one.
+  acknowledgements: z.array(z.object({ ...groupRefFields, reason: reasonField })).max(MAX_FILES_PER_JOB * 50, { error: 'Too many reasons in one submission.' }).optional(),
 })
 
 export const reviewCommentSchema = z.object({

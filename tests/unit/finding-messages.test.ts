@@ -101,3 +101,13 @@ describe('messages of engine groups', () => {
     ])
   })
 })
+
+describe('groups converted from revisions stored before grouping', () => {
+  it('speak with the stored sentence and plain lengths, never with missing numbers', () => {
+    const legacy = { code: 'narrow-bridge', cause: '', count: 3, facts: { message: 'A web 1.20 mm wide is left between two cuts.', limitMm: 3 }, stats: null }
+    const { headline } = describeGroup(legacy)
+    expect(headline).toBe('3 places: A web 1.20 mm wide is left between two cuts.')
+    expect(describeSite(legacy, 1.2)).toBe('1.20 mm')
+    expect(`${headline} ${describeSite(legacy, 1.2)}`).not.toMatch(/NaN|undefined/)
+  })
+})

@@ -90,4 +90,28 @@ describe('migration 0010: summaries written once', () => {
     expect(decodeGeometry(gunzipSync(second.geometry_gz)).count).toBe(1)
     expect(decodeSites(gunzipSync(second.sites_gz)).count).toBe(0)
   })
+
+  it("keeps a damaged revision as empty figures, and turns a job's note on its warnings into a reason per warning group", async () => {
+    db = memoryDb()
+    await migrateUpTo(db, BEFORE)
+    await db.raw('PRAGMA foreign_keys = OFF')
+    await db('jobs').insert({ id: 7, member_id: 3, title: 'Lamp', cutter_id: 1, material_id: 1, sheet_id: 1, state: 'submitted', warnings_acknowledgement: 'The hinges fold by design.' })
+    await db('job_files').insert({ id: 1, job_id: 7, name: 'panel' })
+    const row = (id: number, revision: number, analysis: string) => ({ id, job_file_id: 1, revision, sha256: String(id).repeat(64).slice(0, 64), original_name: 'p.svg', size_bytes: 1, content_type: 'image/svg+xml', uploaded_by: 3, analysis_json: analysis, preview_json: null })
+    await db('file_revisions').insert([
+      row(1, 1, '{"findings": 12, "bbox": null'),
+      row(2, 2, JSON.stringify(legacyAnalysis([bridge(10, 1.5), bridge(20, 1.2), slit(30)]))),
+    ])
+    await db.migrate.latest()
+
+    const damaged = await db('file_revisions').where({ id: 1 }).first()
+    expect(damaged).toMatchObject({ cut_length_mm: 0, pierces: 0, warning_count: 0 })
+    expect(JSON.parse(damaged.analysis_json).findingGroups).toEqual([])
+    expect(decodeGeometry(gunzipSync((await db('revision_payloads').where({ file_revision_id: 1 }).first()).geometry_gz)).count).toBe(0)
+
+    const reasons = await db('finding_acknowledgements').select('file_revision_id', 'group_key', 'reason', 'acknowledged_by')
+    const warningKey = JSON.parse((await db('file_revisions').where({ id: 2 }).first()).analysis_json).findingGroups.find((g: any) => g.severity === 'warning').key
+    // Only the current revision's warning group (not the note, not the older revision).
+    expect(reasons).toEqual([{ file_revision_id: 2, group_key: warningKey, reason: 'The hinges fold by design.', acknowledged_by: 3 }])
+  })
 })

@@ -29,19 +29,12 @@ export async function decodeSitesGz(base64: string): Promise<FindingSites> {
   return decodeSites(await gunzipBase64(base64))
 }
 
-export class PackedFetchError extends Error {
-  override name = 'PackedFetchError'
-  constructor(
-    readonly status: number,
-    message: string,
-  ) {
-    super(message)
-  }
-}
-
-/** GETs `url` (same origin, with the session cookie) and returns its body as bytes. */
+/** GETs `url` (same origin, with the session cookie) and returns its body as bytes; a refusal throws the server's own message. */
 export async function fetchBytes(url: string, signal?: AbortSignal): Promise<ArrayBuffer> {
   const response = await fetch(url, { credentials: 'same-origin', headers: { accept: 'application/octet-stream' }, signal })
-  if (!response.ok) throw new PackedFetchError(response.status, `${url} answered ${response.status}`)
+  if (!response.ok) {
+    const answer = (await response.json().catch(() => null)) as { message?: string } | null
+    throw new Error(answer?.message ?? `The preview could not be loaded (the server answered ${response.status}).`)
+  }
   return response.arrayBuffer()
 }
