@@ -10,7 +10,8 @@ const MB = 1024 * KB
 const BODY_LIMITS: [RegExp, number][] = [
   // A cut file plus the multipart framing and the few text fields beside it.
   [/^\/api\/analysis$|^\/api\/jobs\/[^/]+\/files(?:\/[^/]+\/revisions)?$/, MAX_CUT_FILE_BYTES + 64 * KB],
-  // Up to 500 acknowledgement reasons of 2000 characters (shared/schemas/jobs.ts), 3 bytes a character at worst.
+  // The reasons for a job's warning groups (shared/schemas/jobs.ts): 4 MB holds some 2000 reasons of the full 2000
+  // characters; the schema's count allows more, but only short reasons come in such numbers.
   [/^\/api\/jobs\/[^/]+\/submit$/, 4 * MB],
   // Payment provider events are a few kilobytes; common practice, no source.
   [/^\/api\/webhooks\//, 256 * KB],
