@@ -20,7 +20,7 @@ if (await seedDemoIfEmpty(db)) console.log('Seeded the demo workshop (password f
 await db.destroy()
 
 const sink = await startSmtpSink({ smtpPort: Number(process.env.DEV_SMTP_PORT || 1025), httpPort: Number(process.env.DEV_OUTBOX_PORT || 1080) })
-console.log(`Mail sink: smtp://127.0.0.1:${sink.smtpPort} (read it at /staff/outbox)`)
+console.log(`Mail sink: smtp://127.0.0.1:${sink.smtpPort} (read it at /admin/outbox as an admin)`)
 
 // The local stand-in for Stripe's API and hosted checkout; real keys and STRIPE_API_BASE replace it.
 const webhookSecret = process.env.STRIPE_WEBHOOK_SECRET || 'whsec_kerfbook_local'

@@ -21,10 +21,11 @@ export const NAV_ITEMS: NavItem[] = [
   { label: 'Review', to: '/staff/review', roles: ['staff', 'admin'], area: 'workshop' },
   { label: 'Workshop setup', to: '/staff/setup/cutters', roles: ['staff', 'admin'], area: 'workshop' },
   { label: 'Members', to: '/staff/members', roles: ['staff', 'admin'], area: 'workshop' },
-  { label: 'Outbox', to: '/staff/outbox', roles: ['staff', 'admin'], area: 'workshop' },
   { label: 'Undelivered mail', to: '/staff/mail', roles: ['staff', 'admin'], area: 'workshop' },
   { label: 'Reports', to: '/staff/reports', roles: ['staff', 'admin'], area: 'workshop' },
   { label: 'People & roles', to: '/admin/users', roles: ['admin'], area: 'workshop' },
   { label: 'Payments', to: '/admin/payments', roles: ['admin'], area: 'workshop' },
   { label: 'Settings', to: '/admin/settings', roles: ['admin'], area: 'workshop' },
+  // The local mail sink's outbox exists only under `npm run dev`: reset links must never be readable elsewhere.
+  ...(import.meta.dev ? [{ label: 'Outbox', to: '/admin/outbox', roles: ['admin'] as Role[], area: 'workshop' as const }] : []),
 ]

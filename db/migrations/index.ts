@@ -10,6 +10,7 @@ import * as revisionPreview from './0008_revision_preview'
 import * as dxfLayers from './0009_dxf_layers'
 import * as revisionSummaries from './0010_revision_summaries'
 import * as moneyMail from './0011_money_mail'
+import * as userSessions from './0012_user_sessions'
 
 // Append-only: a schema change is a new file added at the end of this list, never an edit of a landed one.
 // Migrations are imported statically so the bundled server and the CLI run the same list.
@@ -25,6 +26,7 @@ const migrations: Record<string, Knex.Migration> = {
   '0009_dxf_layers': dxfLayers,
   '0010_revision_summaries': revisionSummaries,
   '0011_money_mail': moneyMail,
+  '0012_user_sessions': userSessions,
 }
 
 export const migrationSource: Knex.MigrationSource<string> = {

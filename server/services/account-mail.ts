@@ -22,6 +22,19 @@ export async function resendVerificationMail(db: Knex, email: string): Promise<b
   })
 }
 
+export function signUpAttemptMail(user: SessionUser) {
+  return sendMail({
+    to: user.email,
+    subject: 'Someone tried to sign up with your address',
+    paragraphs: [
+      `Hello ${user.name},`,
+      'Someone just tried to create a new account with this e-mail address, which already has an account here. Nothing was changed.',
+      'If it was you, sign in instead; if you forgot your password, choose a new one from the sign-in page. If it was not you, ignore this message.',
+    ],
+    action: { label: 'Sign in', url: `${serverConfig().appUrl}/sign-in` },
+  })
+}
+
 export function passwordResetMail(user: SessionUser, token: string) {
   return sendMail({
     to: user.email,

@@ -1,7 +1,8 @@
 import type { Knex } from 'knex'
 import type { Role, SessionUser } from '#shared/roles'
 import { Conflict, Forbidden, InvalidInput, NotFound, Unauthorized } from '../utils/errors'
-import { consumeToken, issueToken } from './tokens'
+import { endAllSessions } from './sessions'
+import { consumeToken, issueToken, revokeTokens } from './tokens'
 
 interface UserRow {
   id: number
@@ -37,15 +38,21 @@ export async function findActiveUser(db: Knex, id: number): Promise<SessionUser 
   return row ? toSessionUser(row) : undefined
 }
 
-export async function signUp(db: Knex, input: { name: string; email: string; password: string }) {
+export type SignUpResult = { created: true; user: SessionUser; token: string } | { created: false; existing: SessionUser }
+
+/**
+ * Creates a member with a confirmation token, or, when the address already has an account, changes
+ * nothing and names that account: the route answers the same either way, so sign-up can't be used
+ * to learn who has an account. The password is hashed either way, so both take the same time.
+ */
+export async function signUp(db: Knex, input: { name: string; email: string; password: string }): Promise<SignUpResult> {
   const passwordHash = await hashPassword(input.password)
   return db.transaction(async (trx) => {
-    if (await trx('users').where({ email: input.email }).first()) {
-      throw new Conflict('An account with this e-mail already exists. Sign in, or reset your password.', { fields: { email: 'Already registered.' } })
-    }
+    const existing = await trx<UserRow>('users').where({ email: input.email }).first()
+    if (existing) return { created: false, existing: toSessionUser(existing) }
     const [id] = await trx('users').insert({ name: input.name, email: input.email, password_hash: passwordHash, role: 'member' })
     const token = await issueToken(trx, id!, 'verify-email')
-    return { user: { id: id!, email: input.email, name: input.name, role: 'member' as Role }, token }
+    return { created: true, user: { id: id!, email: input.email, name: input.name, role: 'member' as Role }, token }
   })
 }
 
@@ -89,17 +96,26 @@ export async function resetPassword(db: Knex, token: string, newPassword: string
     // Opening the reset link proves the address, so it also counts as verification.
     await trx('users').where({ id: userId }).update({ password_hash: passwordHash, updated_at: now })
     await trx('users').where({ id: userId }).whereNull('email_verified_at').update({ email_verified_at: now })
+    // Whoever knew the old password (or holds an old session or link) is out.
+    await revokeTokens(trx, userId, 'reset-password')
+    await endAllSessions(trx, userId)
     return toSessionUser((await trx<UserRow>('users').where({ id: userId }).first())!)
   })
 }
 
-export async function changePassword(db: Knex, userId: number, currentPassword: string, newPassword: string): Promise<void> {
+/** Changes the password; every other session and every unused reset link of the account ends with the old one. */
+export async function changePassword(db: Knex, userId: number, currentPassword: string, newPassword: string, keepSessionId?: string): Promise<void> {
   const row = await db<UserRow>('users').where({ id: userId }).first()
   if (!row) throw new NotFound('Account not found.')
   if (!(await verifyPassword(row.password_hash, currentPassword))) {
     throw new InvalidInput('The current password is wrong.', { fields: { currentPassword: 'This is not your current password.' } })
   }
-  await db('users').where({ id: userId }).update({ password_hash: await hashPassword(newPassword), updated_at: new Date().toISOString() })
+  const passwordHash = await hashPassword(newPassword)
+  await db.transaction(async (trx) => {
+    await trx('users').where({ id: userId }).update({ password_hash: passwordHash, updated_at: new Date().toISOString() })
+    await revokeTokens(trx, userId, 'reset-password')
+    await endAllSessions(trx, userId, keepSessionId)
+  })
 }
 
 export async function listUsers(db: Knex, filter: { role?: Role } = {}): Promise<UserListItem[]> {
@@ -121,6 +137,8 @@ export async function updateUser(db: Knex, actorId: number, userId: number, chan
     if (change.role) patch.role = change.role
     if (change.disabled !== undefined) patch.disabled_at = change.disabled ? (row.disabled_at ?? now) : null
     await trx('users').where({ id: userId }).update(patch)
+    // A new role or a disabled account starts from a fresh sign-in on every device.
+    if ((change.role && change.role !== row.role) || (change.disabled && !row.disabled_at)) await endAllSessions(trx, userId)
     return toListItem((await trx<UserRow>('users').where({ id: userId }).first())!)
   })
 }

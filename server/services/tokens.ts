@@ -17,7 +17,7 @@ function hashToken(token: string): string {
 export async function issueToken(trx: Knex, userId: number, purpose: TokenPurpose, now = new Date()): Promise<string> {
   const token = randomBytes(32).toString('base64url')
   // A new link replaces any older one of the same purpose.
-  await trx('auth_tokens').where({ user_id: userId, purpose }).whereNull('used_at').update({ used_at: now.toISOString(), updated_at: now.toISOString() })
+  await revokeTokens(trx, userId, purpose, now)
   await trx('auth_tokens').insert({
     user_id: userId,
     purpose,
@@ -25,6 +25,11 @@ export async function issueToken(trx: Knex, userId: number, purpose: TokenPurpos
     expires_at: new Date(now.getTime() + TOKEN_TTL_MS[purpose]).toISOString(),
   })
   return token
+}
+
+/** Makes every unused link of this purpose worthless, e.g. reset links once the password has changed. */
+export async function revokeTokens(trx: Knex, userId: number, purpose: TokenPurpose, now = new Date()): Promise<void> {
+  await trx('auth_tokens').where({ user_id: userId, purpose }).whereNull('used_at').update({ used_at: now.toISOString(), updated_at: now.toISOString() })
 }
 
 /** Marks the token used and returns its user; refuses used, expired and unknown tokens alike. */

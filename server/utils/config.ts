@@ -4,7 +4,10 @@ export interface ServerConfig {
   smtpUrl: string
   mailFrom: string
   outboxUrl: string
+  /** Behind a proxy: the proxy's forwarded host and scheme are believed. */
   trustProxy: boolean
+  /** How many proxies of our own stand in front (TRUST_PROXY=N; 0: none). */
+  trustedProxyHops: number
   signInLimitPerMinute: number
 }
 
@@ -16,8 +19,14 @@ export function serverConfig(): ServerConfig {
     smtpUrl: process.env.SMTP_URL || 'smtp://127.0.0.1:1025',
     mailFrom: process.env.MAIL_FROM || 'Kerfbook <desk@example.test>',
     outboxUrl: process.env.OUTBOX_URL || '',
-    trustProxy: process.env.TRUST_PROXY === '1',
+    trustProxy: trustedProxyHops() > 0,
+    trustedProxyHops: trustedProxyHops(),
     signInLimitPerMinute: Number(process.env.SIGN_IN_LIMIT_PER_MINUTE || 10),
   }
   return cached
+}
+
+function trustedProxyHops(): number {
+  const hops = Number(process.env.TRUST_PROXY || 0)
+  return Number.isInteger(hops) && hops > 0 ? hops : 0
 }

@@ -1,9 +1,17 @@
-// RFC 4180 CSV: fields with commas, quotes or line breaks are quoted, quotes doubled, CRLF line ends.
-// A leading =, +, - or @ is prefixed with ' so a spreadsheet never runs it as a formula.
+// RFC 4180 CSV with CRLF line ends, safe to open in a spreadsheet in any locale.
+//
+// A spreadsheet takes a cell starting with = + - @ (or their full-width forms, or after a tab, CR or
+// spaces it skips) as a formula: such text gets a leading ' so it is shown as text (OWASP, "CSV
+// Injection"). Locales split on other list separators than the comma (; in much of Europe, tab, |), so
+// a field holding any of them is quoted: every spreadsheet keeps a quoted field one cell, and no formula
+// can start after a separator inside it. Numbers are written as they are.
+const FORMULA_START = /^[\s]*[=+\-@\uFF1D\uFF0B\uFF0D\uFF20]|^[\t\r]/
+const NEEDS_QUOTES = /[",;\t|\r\n]/
+
 function field(value: unknown): string {
   let text = value === null || value === undefined ? '' : String(value)
-  if (/^[=+\-@]/.test(text) && typeof value === 'string') text = `'${text}`
-  return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text
+  if (typeof value === 'string' && FORMULA_START.test(text)) text = `'${text}`
+  return NEEDS_QUOTES.test(text) ? `"${text.replace(/"/g, '""')}"` : text
 }
 
 export function toCsv(header: string[], rows: unknown[][]): string {

@@ -1,6 +1,9 @@
 import { getRequestHeader, readFormData, type H3Event } from 'h3'
 import { MAX_CUT_FILE_BYTES } from '#shared/schemas/analysis'
 import { type CutFileFormat, detectCutFileFormat } from '../analysis/dxf/format'
+import { activeContentIn } from './active-content'
+import { bodyLimitError } from './body-limit'
+import { displayFileName } from './file-name'
 import { DomainError, InvalidInput, PayloadTooLarge, UnsupportedMediaType } from './errors'
 
 export interface CutFileUpload {
@@ -36,7 +39,7 @@ export async function readCutFileUpload(event: H3Event): Promise<CutFileUpload> 
   try {
     form = await readFormData(event)
   } catch {
-    throw new InvalidInput('The upload is not a readable multipart/form-data body. Send the file as a normal browser upload.')
+    throw bodyLimitError(event) ?? new InvalidInput('The upload is not a readable multipart/form-data body. Send the file as a normal browser upload.')
   }
   const file = form.get('file')
   if (!(file instanceof Blob)) throw new InvalidInput('No file was attached: add it as the field "file".')
@@ -53,7 +56,7 @@ export async function readCutFileUpload(event: H3Event): Promise<CutFileUpload> 
   assertNoActiveContent(svgText, format)
   const fields: Record<string, string> = {}
   for (const [name, value] of form) if (typeof value === 'string') fields[name] = value
-  return { filename: (file as File).name || `upload.${format}`, svgText, format, sizeBytes: data.length, fields, closed: closedSignal(event) }
+  return { filename: displayFileName((file as File).name ?? '', `upload.${format}`), svgText, format, sizeBytes: data.length, fields, closed: closedSignal(event) }
 }
 
 function closedSignal(event: H3Event): AbortSignal {
@@ -65,20 +68,8 @@ function closedSignal(event: H3Event): AbortSignal {
   return controller.signal
 }
 
-// Scripts, event handlers, javascript: links and embedded HTML have no place in a cut file; refusing
-// them outright means no upload can ever run code, wherever its content is shown later.
-// Element names may carry any namespace prefix (<v:script> in the SVG namespace is still a script).
-const ACTIVE_CONTENT: [RegExp, string][] = [
-  [/<(?:[\w.-]+:)?script[\s>/]/i, 'a script'],
-  [/<(?:[\w.-]+:)?foreignObject[\s>/]/i, 'embedded HTML (foreignObject)'],
-  [/\son[a-z]+\s*=/i, 'an event handler (on… attribute)'],
-  [/javascript\s*:|data:\s*text\/html|vbscript\s*:/i, 'a script link'],
-  // Animation that rewrites a link can turn a harmless href into a script link after loading.
-  [/<(?:[\w.-]+:)?(?:set|animate)\b[^>]*attributeName\s*=\s*["']?(?:[\w.-]+:)?href/i, 'an animated link'],
-]
-
 export function assertNoActiveContent(svgText: string, format: CutFileFormat): void {
-  const found = ACTIVE_CONTENT.filter(([pattern]) => pattern.test(svgText)).map(([, what]) => what)
+  const found = activeContentIn(svgText, format)
   if (found.length > 0) {
     throw new DomainError(`This file contains ${found.join(' and ')}, which a cut file never needs. Export the pattern again as a plain ${format === 'dxf' ? 'DXF' : 'SVG'}.`, 422, { kind: 'activeContent' })
   }

@@ -2,6 +2,7 @@ import { createError, defineEventHandler, getQuery, getRouterParams, readBody, s
 import Stripe from 'stripe'
 import { ZodError, type ZodType } from 'zod'
 import { fieldMessages, summariseFields } from '#shared/schemas/field-messages'
+import { bodyLimitError } from './body-limit'
 import { DomainError, InvalidInput, TooManyRequests } from './errors'
 
 /** Turns a zod failure into one readable sentence plus per-field messages for forms. */
@@ -40,7 +41,7 @@ export async function readBodyAs<S extends ZodType>(event: H3Event, schema: S): 
   try {
     body = await readBody(event, { strict: true })
   } catch {
-    throw new InvalidInput('The request body is not valid JSON.')
+    throw bodyLimitError(event) ?? new InvalidInput('The request body is not valid JSON.')
   }
   return schema.parse(body ?? {})
 }

@@ -1,6 +1,6 @@
 import Database from 'better-sqlite3'
 import { describe, expect, inject, it } from 'vitest'
-import { client, linkToken, uniqueEmail, waitForMail } from './helpers'
+import { client, DEMO_PASSWORD, linkToken, uniqueEmail, waitForMail } from './helpers'
 
 /** A new account, signed up and verified through its e-mail link. */
 async function verifiedAccount(prefix: string, password: string): Promise<string> {
@@ -43,10 +43,33 @@ describe('sign-up, verification, sign-in, sign-out', () => {
     expect((await member.get('/api/me')).status).toBe(401)
   })
 
-  it('refuses a second account with the same e-mail, case-insensitively', async () => {
-    const response = await client().post('/api/auth/sign-up', { name: 'Copy', email: 'MEMBER@example.test', password: 'long-enough-pass' })
-    expect(response.status).toBe(409)
-    expect(response.body.data.fields.email).toBeTruthy()
+  it('answers a sign-up for a taken address exactly as for a new one, and mails the owner instead', async () => {
+    const newEmail = uniqueEmail('fresh')
+    const fresh = await client().post('/api/auth/sign-up', { name: 'Fresh', email: newEmail, password: 'long-enough-pass' })
+    const taken = await client().post('/api/auth/sign-up', { name: 'Copy', email: 'PRIYA@example.test', password: 'an-attackers-pass' })
+    expect(taken.status).toBe(fresh.status)
+    expect(taken.status).toBe(201)
+    expect(taken.body.message.replace('priya@example.test', '<address>')).toBe(fresh.body.message.replace(newEmail, '<address>'))
+    expect(Object.keys(taken.body).sort()).toEqual(Object.keys(fresh.body).sort())
+
+    const notice = await waitForMail('priya@example.test', /Someone tried to sign up with your address/)
+    expect(notice.text).toContain('/sign-in')
+    // Nothing about the existing account changed.
+    expect((await client().post('/api/auth/sign-in', { email: 'priya@example.test', password: DEMO_PASSWORD })).status).toBe(200)
+    expect((await client().post('/api/auth/sign-in', { email: 'priya@example.test', password: 'an-attackers-pass' })).status).toBe(401)
+  })
+
+  it('limits sign-ups: ten a minute from one address, three a minute to one recipient', async () => {
+    const sameAddress = client('192.0.2.88')
+    const statuses: number[] = []
+    for (let i = 0; i < 11; i++) statuses.push((await sameAddress.post('/api/auth/sign-up', { name: 'Burst', email: uniqueEmail('burst'), password: 'long-enough-pass' })).status)
+    expect(statuses.slice(0, 10).every((s) => s === 201)).toBe(true)
+    expect(statuses[10]).toBe(429)
+
+    const target = uniqueEmail('mail-bombed')
+    const toOne: number[] = []
+    for (let i = 0; i < 4; i++) toOne.push((await client().post('/api/auth/sign-up', { name: 'Bomb', email: target, password: 'long-enough-pass' })).status)
+    expect(toOne).toEqual([201, 201, 201, 429])
   })
 })
 
@@ -59,24 +82,57 @@ describe('credentials and rate limits', () => {
     expect(wrongPassword.body.message).toBe(unknownEmail.body.message)
   })
 
-  it('answers the 11th quick attempt for one e-mail with 429 and Retry-After', async () => {
-    // An account of its own: the lock-out must not spill into other tests' sign-ins.
-    const email = await verifiedAccount('locked-out', 'kerfbook-demo-2')
+  // SIGN_IN_LIMIT_PER_MINUTE is 10 in the test server: 10 failures per address and account, 30 per address.
+  it('refuses an attacker hammering an account from one address, while the owner signs in from another', async () => {
+    const email = await verifiedAccount('hammered', 'kerfbook-demo-2')
+    const attacker = client('192.0.2.10')
     const statuses: number[] = []
-    for (let i = 0; i < 11; i++) statuses.push((await client().post('/api/auth/sign-in', { email, password: 'wrong-password' })).status)
+    for (let i = 0; i < 12; i++) statuses.push((await attacker.post('/api/auth/sign-in', { email, password: 'wrong-password' })).status)
     expect(statuses.slice(0, 10).every((s) => s === 401)).toBe(true)
-    expect(statuses[10]).toBe(429)
-    const blocked = await client().post('/api/auth/sign-in', { email, password: 'kerfbook-demo-2' })
+    expect(statuses.slice(10)).toEqual([429, 429])
+    // The attacker is refused even with the right password now: the limit is checked before the password.
+    const blocked = await attacker.post('/api/auth/sign-in', { email, password: 'kerfbook-demo-2' })
     expect(blocked.status).toBe(429)
     expect(Number(blocked.headers.get('retry-after'))).toBeGreaterThan(0)
+
+    const owner = client('198.51.100.20')
+    expect((await owner.post('/api/auth/sign-in', { email, password: 'kerfbook-demo-2' })).status).toBe(200)
+    expect((await owner.get('/api/me')).body).toMatchObject({ email })
   })
 
-  it('limits one address trying many e-mails', async () => {
+  it('lets the owner in while the account fails from many addresses at once (slowed, never locked)', async () => {
+    const email = await verifiedAccount('besieged', 'kerfbook-demo-3')
+    const attempts = Array.from({ length: 40 }, (_, i) => client(`192.0.2.${100 + (i % 20)}`).post('/api/auth/sign-in', { email, password: `guess-${i}` }))
+    const statuses = (await Promise.all(attempts)).map((r) => r.status)
+    expect(statuses.every((s) => s === 401 || s === 429)).toBe(true)
+    const owner = client('198.51.100.21')
+    expect((await owner.post('/api/auth/sign-in', { email, password: 'kerfbook-demo-3' })).status).toBe(200)
+  })
+
+  it('does not let a rotating X-Forwarded-For get around the limit: the proxy’s right-most entry is the address', async () => {
+    const email = await verifiedAccount('rotated', 'kerfbook-demo-4')
+    const statuses: number[] = []
+    for (let i = 0; i < 12; i++) {
+      const spoofed = client(`10.${i}.${i}.${i}, 192.0.2.33`)
+      statuses.push((await spoofed.post('/api/auth/sign-in', { email, password: 'wrong-password' })).status)
+    }
+    expect(statuses.slice(0, 10).every((s) => s === 401)).toBe(true)
+    expect(statuses.slice(10)).toEqual([429, 429])
+  })
+
+  it('never refuses people signing in successfully behind one shared address', async () => {
+    const school = '192.0.2.44'
+    const statuses: number[] = []
+    for (let i = 0; i < 15; i++) statuses.push((await client(school).post('/api/auth/sign-in', { email: 'member@example.test', password: DEMO_PASSWORD })).status)
+    expect(statuses.every((s) => s === 200)).toBe(true)
+  })
+
+  it('limits one address trying many e-mails to 30 failures a minute', async () => {
     const sameAddress = client('192.0.2.77')
     const statuses: number[] = []
-    for (let i = 0; i < 11; i++) statuses.push((await sameAddress.post('/api/auth/sign-in', { email: uniqueEmail('probe'), password: 'x' })).status)
-    expect(statuses[9]).toBe(401)
-    expect(statuses[10]).toBe(429)
+    for (let i = 0; i < 31; i++) statuses.push((await sameAddress.post('/api/auth/sign-in', { email: uniqueEmail('probe'), password: 'x' })).status)
+    expect(statuses.slice(0, 30).every((s) => s === 401)).toBe(true)
+    expect(statuses[30]).toBe(429)
   })
 })
 

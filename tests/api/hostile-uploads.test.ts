@@ -154,3 +154,41 @@ describe('hostile uploads', () => {
     expect(afterSecondPassMb - rssBeforeMb).toBeLessThan(768)
   })
 })
+
+describe('honest files and hostile names', () => {
+  const honest = svgOf(`<title>Flap onset= 3 mm, fold on = line</title><desc>Hinge onto= base</desc>${outline}`)
+
+  it('accepts a drawing whose title and description read like event handlers, and still refuses a real one', async () => {
+    const member = await signedIn('member@example.test')
+    const ok = new FormData()
+    ok.set('file', new Blob([honest], { type: 'image/svg+xml' }), 'lid.svg')
+    const accepted = await member.form('/api/analysis', ok)
+    expect(accepted.status, JSON.stringify(accepted.body).slice(0, 300)).toBe(200)
+
+    const bad = new FormData()
+    bad.set('file', new Blob([svgOf(`<title>Flap onset= 3 mm</title><rect onclick="alert(1)"/>${outline}`)], { type: 'image/svg+xml' }), 'lid.svg')
+    const refused = await member.form('/api/analysis', bad)
+    expect(refused.status).toBe(422)
+    expect(refused.body.message).toMatch(/event handler/)
+  })
+
+  it('stores a file name without control or direction characters and at most 120 characters long', async () => {
+    const member = await signedIn('member@example.test')
+    const overview = (await member.get('/api/catalog/overview')).body as any[]
+    const heron = overview.find((c) => c.name.startsWith('Heron'))
+    const job = await member.post('/api/jobs', { title: 'Names', cutterId: heron.cutterId, materialId: heron.materials.find((m: any) => m.name === 'Birch plywood').materialId })
+    for (const [sent, check] of [
+      ['\u202Egvs.exe\u0000 😀 façade.svg', (name: string) => expect(name).toBe('gvs.exe 😀 façade')],
+      [`${'ш'.repeat(10_000)}.svg`, (name: string) => expect([...name].length).toBeLessThanOrEqual(120)],
+    ] as const) {
+      const form = new FormData()
+      form.set('file', new Blob([honest], { type: 'image/svg+xml' }), sent)
+      const added = await member.form(`/api/jobs/${job.body.id}/files`, form)
+      expect(added.status, JSON.stringify(added.body).slice(0, 300)).toBe(201)
+      const db = new Database(inject('databasePath'), { readonly: true })
+      const row = db.prepare('select name from job_files where id = ?').get(added.body.fileId) as { name: string }
+      db.close()
+      check(row.name)
+    }
+  })
+})

@@ -23,10 +23,13 @@ describe('roles', () => {
     const promoted = await admin.patch(`/api/admin/users/${priya.id}`, { role: 'staff' })
     expect(promoted.status).toBe(200)
     expect(promoted.body.role).toBe('staff')
-    // The same cookie now carries the new role, because the guard reads the database.
-    expect((await priyaClient.get('/api/staff/members')).status).toBe(200)
+    // A role change ends the account's sessions; the next sign-in carries the new role.
+    expect((await priyaClient.get('/api/staff/members')).status).toBe(401)
+    const promotedClient = await signedIn('priya@example.test')
+    expect((await promotedClient.get('/api/staff/members')).status).toBe(200)
     await admin.patch(`/api/admin/users/${priya.id}`, { role: 'member' })
-    expect((await priyaClient.get('/api/staff/members')).status).toBe(403)
+    expect((await promotedClient.get('/api/staff/members')).status).toBe(401)
+    expect((await (await signedIn('priya@example.test')).get('/api/staff/members')).status).toBe(403)
   })
 
   it('disabling an account ends its session; an admin cannot disable themselves', async () => {

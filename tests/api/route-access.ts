@@ -38,6 +38,8 @@ export interface RouteAccess {
   body?: (world: World) => unknown
   /** The call ends the caller's session, so it is made from a session of its own. */
   endsSession?: boolean
+  /** The call ends every session of the caller's account, so the matrix makes it after all other routes. */
+  endsEverySession?: boolean
   /** The path holds the member's secret link, so anyone calling it rightly sees the member's things. */
   pathIsCredential?: boolean
 }
@@ -241,7 +243,8 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   'PATCH /api/catalog/process-settings/:id': { policy: staffOnly(), params: (w) => ({ id: w.processSettingId }) },
   'DELETE /api/catalog/process-settings/:id': { policy: staffOnly(), params: async (w) => ({ id: await w.freshProcessSetting() }) },
 
-  'GET /api/dev/outbox': { policy: staffOnly('ok') },
+  // Development only: the app under test is a production build, where the route answers 404 to everyone.
+  'GET /api/dev/outbox': { policy: everyone(404) },
 
   'GET /api/jobs': { policy: signedInOnly() },
   'POST /api/jobs': { policy: signedInOnly('passes') },
@@ -265,6 +268,7 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   'POST /api/me/calendar-feed': { policy: signedInOnly() },
   'DELETE /api/me/calendar-feed': { policy: signedInOnly() },
   'POST /api/me/password': { policy: signedInOnly('passes') },
+  'POST /api/me/sign-out-everywhere': { policy: signedInOnly('ok'), endsSession: true, endsEverySession: true },
   'GET /api/me/sign-offs': { policy: signedInOnly() },
   'GET /api/settings': { policy: signedInOnly() },
 

@@ -124,3 +124,13 @@ describe('security headers', () => {
     if (path.startsWith('/api')) expect(policy).toMatch(/(?:default|script)-src 'none'/)
   })
 })
+
+describe('development helpers', () => {
+  it('has no dev outbox in a production build, even for an admin and with OUTBOX_URL set', async () => {
+    const admin = await signedIn('admin@example.test')
+    const staff = await signedIn('staff@example.test')
+    expect((await admin.get('/api/dev/outbox')).status).toBe(404)
+    expect((await staff.get('/api/dev/outbox')).status).toBe(404)
+    expect((await fetch(`${baseUrl()}/api/dev/outbox`)).status).toBe(404)
+  })
+})

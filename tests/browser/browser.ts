@@ -279,12 +279,12 @@ export async function signInThroughForm(browser: BrowserSession, email: string, 
 /** Waits until the sign-in page has sent the user on; the session store is set before that navigation ends. */
 export async function waitForSignedIn(page: Page): Promise<void> {
   await page.waitForURL((url) => url.pathname !== '/sign-in')
-  await page.getByRole('button', { name: 'Sign out' }).waitFor()
+  await page.getByRole('button', { name: 'Sign out', exact: true }).waitFor()
 }
 
 /** Signs out with the header button and waits for the sign-in page. */
 export async function signOutThroughHeader(page: Page): Promise<void> {
-  await page.getByRole('button', { name: 'Sign out' }).click()
+  await page.getByRole('button', { name: 'Sign out', exact: true }).click()
   await page.waitForURL('**/sign-in')
   await page.getByRole('heading', { name: 'Sign in' }).waitFor()
 }

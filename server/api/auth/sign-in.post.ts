@@ -1,20 +1,18 @@
 import { signInSchema } from '#shared/schemas/auth'
 import { authenticate } from '../../services/accounts'
+import { Unauthorized } from '../../utils/errors'
 
 export default defineApiHandler(async (event) => {
   const { email, password } = await readBodyAs(event, signInSchema)
-  const emailKey = `sign-in-email:${email}`
-  const ipKey = `sign-in-ip:${clientIp(event)}`
-  const limit = serverConfig().signInLimitPerMinute
-  assertUnderRateLimit([emailKey, ipKey], limit)
-  // Every attempt from an address counts; for an e-mail only the failed ones, so its owner isn't locked out by signing in.
-  recordRateLimitHit([ipKey])
+  const ip = clientIp(event)
+  await beforeSignInAttempt(ip, email)
   try {
     const user = await authenticate(useDb(), email, password)
-    await replaceUserSession(event, { user })
+    recordSignInSuccess(ip, email)
+    await beginUserSession(event, user)
     return user
   } catch (error) {
-    recordRateLimitHit([emailKey])
+    if (error instanceof Unauthorized) recordSignInFailure(ip, email)
     throw error
   }
 })

@@ -1,4 +1,4 @@
 export default defineApiHandler(async (event) => {
-  await clearUserSession(event)
+  await endUserSession(event)
   return { ok: true }
 })

@@ -4,6 +4,6 @@ import { verifyEmail } from '../../services/accounts'
 export default defineApiHandler(async (event) => {
   const { token } = await readBodyAs(event, verifyEmailSchema)
   const user = await verifyEmail(useDb(), token)
-  await replaceUserSession(event, { user })
+  await beginUserSession(event, user)
   return user
 })
