@@ -10,6 +10,8 @@ export default defineConfig({
           name: 'unit',
           include: ['tests/analysis/**/*.test.ts', 'tests/unit/**/*.test.ts'],
           environment: 'node',
+          // One fast-check seed for the whole run, overridable with KERFBOOK_FC_SEED (see the file).
+          setupFiles: ['tests/setup/fast-check.ts'],
         },
       },
       {

@@ -23,17 +23,23 @@ export function ramanujanPerimeter(a: number, b: number): number {
   return Math.PI * (a + b) * (1 + (3 * h) / (10 + Math.sqrt(4 - 3 * h)))
 }
 
-/** `analyse` must refuse its file with a typed, member-readable error of this kind and status, and in bounded time (a generous bound: the point is "no hang", not a speed target). */
+/**
+ * `analyse` must refuse its file with a typed, member-readable error of this kind and status. No clock is read: each
+ * hostile input is built so that without its guard the outcome is different (it is read as a drawing, the stack
+ * overflows with a RangeError, the heap runs out, or another check answers), so a guard that breaks fails here
+ * however busy the machine. The guards stop at fixed counts (elements, entities, attributes, depth), which bounds their
+ * work without a timer; speed belongs in the benchmarks, not in an assertion.
+ */
 export function expectRefused(analyse: () => unknown, kind: string, status: number): void {
-  const started = performance.now()
+  let refusal: unknown
   try {
     analyse()
-    expect.unreachable('should have been refused')
   } catch (error) {
-    expect(error).toBeInstanceOf(AnalysisInputError)
-    expect((error as AnalysisInputError).kind).toBe(kind)
-    expect((error as AnalysisInputError).status).toBe(status)
-    expect((error as AnalysisInputError).message.length).toBeGreaterThan(20)
+    refusal = error
   }
-  expect(performance.now() - started).toBeLessThan(5000)
+  expect(refusal, 'should have been refused').toBeInstanceOf(AnalysisInputError)
+  const { kind: refusedKind, status: refusedStatus, message } = refusal as AnalysisInputError
+  expect(refusedKind).toBe(kind)
+  expect(refusedStatus).toBe(status)
+  expect(message.length).toBeGreaterThan(20)
 }

@@ -10,8 +10,8 @@ import type * as Axe from 'axe-core'
 import { chromium, type BrowserContext, type Page } from 'playwright-core'
 import { expect, inject, test } from 'vitest'
 import { DEMO_PASSWORD } from '../api/helpers'
+import { CHROMIUM_MISSING, CHROMIUM_PATH, chromiumInstalled } from '../setup/chromium'
 
-const CHROMIUM_PATH = '/usr/bin/chromium'
 // No GPU here, and nothing may leave the machine: no updates, sync or background fetches.
 const CHROMIUM_ARGS = [
   '--headless',
@@ -78,6 +78,8 @@ export class BrowserSession {
   }
 
   static async launch(): Promise<BrowserSession> {
+    // The global setup normally stops a run without Chromium before it gets here; this covers runs it let through.
+    if (!chromiumInstalled()) throw new Error(CHROMIUM_MISSING)
     const profileDir = mkdtempSync(join(tmpdir(), 'kerfbook-chromium-'))
     const context = await chromium.launchPersistentContext(profileDir, {
       executablePath: CHROMIUM_PATH,

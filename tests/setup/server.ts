@@ -4,6 +4,7 @@
 import { spawnSync } from 'node:child_process'
 import type { TestProject } from 'vitest/node'
 import { startBuiltApp } from '../../scripts/lib/built-app'
+import { requireChromium } from './chromium'
 
 declare module 'vitest' {
   export interface ProvidedContext {
@@ -18,6 +19,8 @@ declare module 'vitest' {
 }
 
 export default async function setup(project: TestProject) {
+  // Before the build: a run with browser tests on a machine without Chromium stops here, at once.
+  await requireChromium(project)
   if (process.env.KERFBOOK_SKIP_BUILD !== '1') {
     const build = spawnSync('npx', ['nuxt', 'build'], { stdio: 'inherit', env: { ...process.env, NODE_ENV: 'production' } })
     if (build.status !== 0) throw new Error('nuxt build failed')
