@@ -42,6 +42,22 @@ export function viewBoxMatrix(viewBox: ViewBox, viewportWidth: number, viewportH
   return multiply(translation(offsetX, offsetY), multiply(scaling(scale, scale), translation(-viewBox.x, -viewBox.y)))
 }
 
+/** A viewport's size in the user units of the coordinate system it establishes; undefined sides are unknown. */
+export interface ViewportSize {
+  width: number | undefined
+  height: number | undefined
+}
+
+/** The root viewport in its user units: the viewBox, else the width and height in px; what percentages inside the drawing refer to. */
+export function rootViewportSize(attributes: Record<string, string>, dpi: number): ViewportSize {
+  const viewBox = parseViewBox(attributes.viewBox)
+  if (viewBox) return { width: viewBox.width, height: viewBox.height }
+  const pixelMm = mmPerPixel(dpi)
+  const widthMm = parseAbsoluteLengthMm(attributes.width, 'width', dpi)
+  const heightMm = parseAbsoluteLengthMm(attributes.height, 'height', dpi)
+  return { width: widthMm === undefined ? undefined : widthMm / pixelMm, height: heightMm === undefined ? undefined : heightMm / pixelMm }
+}
+
 /** The matrix from the root's user units to mm. */
 export function rootMatrix(attributes: Record<string, string>, dpi: number): Matrix {
   const viewBox = parseViewBox(attributes.viewBox)
