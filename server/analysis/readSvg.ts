@@ -34,7 +34,7 @@ const MAX_USE_DEPTH = 32
 const MAX_RENDERED_ELEMENTS = 2_000_000
 
 const NOT_RENDERED = new Set(['defs', 'clipPath', 'mask', 'symbol', 'marker', 'pattern', 'linearGradient', 'radialGradient', 'filter', 'style', 'title', 'desc', 'metadata', 'script', 'foreignObject'])
-const CONTAINERS = new Set(['g', 'a', 'switch', 'svg'])
+const CONTAINERS = new Set(['g', 'a'])
 const SHAPES = new Set(['path', 'rect', 'circle', 'ellipse', 'line', 'polyline', 'polygon'])
 
 interface Pending {
@@ -83,6 +83,9 @@ export function readSvgDocument(root: XmlNode, params: AnalysisParams, findings:
     if (node.name === 'svg') {
       const nested = nestedViewport(node, viewport, sizeFromUse)
       if (nested) pushChildren(node, multiply(matrix, nested.matrix), style, useDepth, nested.size)
+    } else if (node.name === 'switch') {
+      const chosen = chosenChild(node)
+      if (chosen) stack.push({ node: chosen, parentMatrix: matrix, parentStyle: style, useDepth, viewport })
     } else if (CONTAINERS.has(node.name)) {
       pushChildren(node, matrix, style, useDepth, viewport)
     } else if (node.name === 'use') {
@@ -221,6 +224,32 @@ function nestedViewport(node: XmlNode, parent: ViewportSize, sizeFromUse: Pendin
 function nonNegativeSize(value: number, name: string): number {
   if (value < 0) throw new AnalysisInputError('badSize', `A nested drawing has a negative ${name} (${value}); fix it in your drawing program.`)
   return value
+}
+
+// The language the conditions of a <switch> are tested against: the server has no reader's language, so English
+// (common practice, no source: drawing programs write their default text in English).
+const READER_LANGUAGE = 'en'
+
+/**
+ * The one child a <switch> renders (SVG 1.1 §5.8.2, SVG 2 §5.8): the first
+ * direct child element whose conditions pass, skipping what is never
+ * rendered (title, desc, metadata…). Kerfbook supports no extension, so any
+ * requiredExtensions fails (an empty one too); requiredFeatures no longer
+ * counts (SVG 2 dropped it); systemLanguage passes when one of its tags is
+ * the reader's language or that language with a region (en, en-GB).
+ */
+function chosenChild(node: XmlNode): XmlNode | undefined {
+  return node.children.find((child) => child.type === 'element' && (!NOT_RENDERED.has(child.name) || child.name === 'foreignObject') && conditionsPass(child.attributes))
+}
+
+function conditionsPass(attributes: Record<string, string>): boolean {
+  if (attributes.requiredExtensions !== undefined) return false
+  const languages = attributes.systemLanguage
+  if (languages === undefined) return true
+  return languages.split(',').some((tag) => {
+    const language = tag.trim().toLowerCase()
+    return language === READER_LANGUAGE || language.startsWith(`${READER_LANGUAGE}-`)
+  })
 }
 
 function addElementSite(sites: SiteList, node: XmlNode, matrix: Matrix): void {
