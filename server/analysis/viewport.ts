@@ -30,7 +30,8 @@ export function parseViewBox(value: string | undefined): ViewBox | undefined {
 export function viewBoxMatrix(viewBox: ViewBox, viewportWidth: number, viewportHeight: number, preserveAspectRatio: string | undefined): Matrix {
   const scaleX = viewportWidth / viewBox.width
   const scaleY = viewportHeight / viewBox.height
-  const [align = 'xMidYMid', meetOrSlice = 'meet'] = (preserveAspectRatio ?? '').trim().split(/\s+/).filter((word) => word !== 'defer')
+  // An absent (or blank) attribute is the initial value, xMidYMid meet.
+  const [align = 'xMidYMid', meetOrSlice = 'meet'] = (preserveAspectRatio ?? '').trim().split(/\s+/).filter((word) => word !== '' && word !== 'defer')
   if (align === 'none') {
     return multiply(scaling(scaleX, scaleY), translation(-viewBox.x, -viewBox.y))
   }
