@@ -3,13 +3,14 @@ import { ColourMapper } from './colourMapping'
 import { AnalysisInputError } from './errors'
 import type { FindingCollector, SiteList } from './findings'
 import { applyX, applyY, type Matrix, multiply, parseTransform, translation } from './matrix'
-import { NUMBER_GRAMMAR, parseNumberAttribute } from './numbers'
+import { NUMBER_GRAMMAR } from './numbers'
 import type { AnalysisParams } from './params'
 import type { DrawnOperation } from './polylines'
 import { shapeToPathData } from './shapes'
 import { type ComputedStyle, computeStyle, INITIAL_STYLE } from './style'
 import { StyleSheet } from './stylesheet'
-import { parseViewBox, rootMatrix, viewBoxMatrix } from './viewport'
+import { parseUserLength } from './units'
+import { parseViewBox, rootMatrix, rootViewportSize, viewBoxMatrix, type ViewportSize } from './viewport'
 import type { XmlNode } from './xmlTree'
 
 /** A visible shape to flatten: its path data in user units and the matrix into mm. */
@@ -33,7 +34,7 @@ const MAX_USE_DEPTH = 32
 const MAX_RENDERED_ELEMENTS = 2_000_000
 
 const NOT_RENDERED = new Set(['defs', 'clipPath', 'mask', 'symbol', 'marker', 'pattern', 'linearGradient', 'radialGradient', 'filter', 'style', 'title', 'desc', 'metadata', 'script', 'foreignObject'])
-const CONTAINERS = new Set(['g', 'a', 'switch', 'svg'])
+const CONTAINERS = new Set(['g', 'a'])
 const SHAPES = new Set(['path', 'rect', 'circle', 'ellipse', 'line', 'polyline', 'polygon'])
 
 interface Pending {
@@ -41,6 +42,10 @@ interface Pending {
   parentMatrix: Matrix
   parentStyle: ComputedStyle
   useDepth: number
+  /** The nearest viewport, which percentages refer to. */
+  viewport: ViewportSize
+  /** For an <svg> a <use> refers to: the use's width and height, which take the place of the svg's own. */
+  sizeFromUse?: { width?: string; height?: string }
 }
 
 /**
@@ -57,15 +62,15 @@ export function readSvgDocument(root: XmlNode, params: AnalysisParams, findings:
   // Thousands of shapes share a handful of colours: each colour text is parsed once.
   const paints = new Map<string, Paint>()
   const stack: Pending[] = []
-  const pushChildren = (node: XmlNode, matrix: Matrix, style: ComputedStyle, useDepth: number) => {
-    for (let index = node.children.length - 1; index >= 0; index--) stack.push({ node: node.children[index], parentMatrix: matrix, parentStyle: style, useDepth })
+  const pushChildren = (node: XmlNode, matrix: Matrix, style: ComputedStyle, useDepth: number, viewport: ViewportSize) => {
+    for (let index = node.children.length - 1; index >= 0; index--) stack.push({ node: node.children[index], parentMatrix: matrix, parentStyle: style, useDepth, viewport })
   }
   const rootStyle = computeStyle(root, INITIAL_STYLE, styleSheet)
-  pushChildren(root, multiply(rootMatrix(root.attributes, params.dpi), parseTransform(root.attributes.transform)), rootStyle, 0)
+  pushChildren(root, multiply(rootMatrix(root.attributes, params.dpi), parseTransform(root.attributes.transform)), rootStyle, 0, rootViewportSize(root.attributes, params.dpi))
   let rendered = 0
 
   while (stack.length > 0) {
-    const { node, parentMatrix, parentStyle, useDepth } = stack.pop()!
+    const { node, parentMatrix, parentStyle, useDepth, viewport, sizeFromUse } = stack.pop()!
     if (node.type !== 'element' || NOT_RENDERED.has(node.name)) continue
     if (++rendered > MAX_RENDERED_ELEMENTS) {
       throw new AnalysisInputError('tooComplex', 'This drawing repeats shapes too often to analyse (its <use> references multiply into millions of shapes).')
@@ -75,14 +80,19 @@ export function readSvgDocument(root: XmlNode, params: AnalysisParams, findings:
     // Most elements carry no transform; they share their parent's matrix instead of multiplying by the identity.
     let matrix = node.attributes.transform ? multiply(parentMatrix, parseTransform(node.attributes.transform)) : parentMatrix
 
-    if (CONTAINERS.has(node.name)) {
-      if (node.name === 'svg') matrix = multiply(matrix, nestedViewportMatrix(node))
-      pushChildren(node, matrix, style, useDepth)
+    if (node.name === 'svg') {
+      const nested = nestedViewport(node, viewport, sizeFromUse)
+      if (nested) pushChildren(node, multiply(matrix, nested.matrix), style, useDepth, nested.size)
+    } else if (node.name === 'switch') {
+      const chosen = chosenChild(node)
+      if (chosen) stack.push({ node: chosen, parentMatrix: matrix, parentStyle: style, useDepth, viewport })
+    } else if (CONTAINERS.has(node.name)) {
+      pushChildren(node, matrix, style, useDepth, viewport)
     } else if (node.name === 'use') {
       if (useDepth >= MAX_USE_DEPTH) {
         throw new AnalysisInputError('tooComplex', 'This drawing has <use> references nested too deep (or referring to themselves).')
       }
-      expandUse(node, matrix, style, useDepth, byId, styleSheet, stack)
+      expandUse(node, matrix, style, useDepth, viewport, byId, styleSheet, stack)
     } else if (!style.visible) {
       continue
     } else if (SHAPES.has(node.name)) {
@@ -147,42 +157,99 @@ function paintOfColour(colourText: string): Paint {
   return { kind: 'colour', colour, hex, label: hex, alpha: colour.a }
 }
 
-function expandUse(node: XmlNode, matrix: Matrix, style: ComputedStyle, useDepth: number, byId: IdIndex, styleSheet: StyleSheet, stack: Pending[]): void {
+function expandUse(node: XmlNode, matrix: Matrix, style: ComputedStyle, useDepth: number, viewport: ViewportSize, byId: IdIndex, styleSheet: StyleSheet, stack: Pending[]): void {
   const reference = node.attributes.href ?? node.attributes['xlink:href']
   const target = reference?.startsWith('#') ? byId.get(reference.slice(1)) : undefined
   if (!target) return
-  const offset = translation(parseNumberAttribute(node.attributes.x, 'x', 0), parseNumberAttribute(node.attributes.y, 'y', 0))
+  const offset = translation(parseUserLength(node.attributes.x, 'x', viewport.width, 0), parseUserLength(node.attributes.y, 'y', viewport.height, 0))
   // SVG 1.1 §5.6: x/y translate after the use element's own transform, before the target's.
   if (target.name !== 'symbol') {
-    stack.push({ node: target, parentMatrix: multiply(matrix, offset), parentStyle: style, useDepth: useDepth + 1 })
+    // SVG 2 §5.6: a use's width and height (other than auto) replace those of an <svg> it refers to.
+    const sizeFromUse = target.name === 'svg' ? { width: givenSize(node.attributes.width), height: givenSize(node.attributes.height) } : undefined
+    stack.push({ node: target, parentMatrix: multiply(matrix, offset), parentStyle: style, useDepth: useDepth + 1, viewport, sizeFromUse })
     return
   }
   // A symbol behaves as a nested viewport sized by the use element.
   const symbolStyle = computeStyle(target, style, styleSheet)
   if (symbolStyle.displayNone) return
-  const symbolMatrix = multiply(matrix, multiply(offset, symbolViewportMatrix(target, node)))
+  const symbolMatrix = multiply(matrix, multiply(offset, symbolViewportMatrix(target, node, viewport)))
   for (let index = target.children.length - 1; index >= 0; index--) {
-    stack.push({ node: target.children[index], parentMatrix: symbolMatrix, parentStyle: symbolStyle, useDepth: useDepth + 1 })
+    stack.push({ node: target.children[index], parentMatrix: symbolMatrix, parentStyle: symbolStyle, useDepth: useDepth + 1, viewport: symbolViewport(target, node, viewport) })
   }
 }
 
-function symbolViewportMatrix(symbol: XmlNode, use: XmlNode): Matrix {
+function symbolViewportMatrix(symbol: XmlNode, use: XmlNode, viewport: ViewportSize): Matrix {
   const viewBox = parseViewBox(symbol.attributes.viewBox)
   if (!viewBox) return translation(0, 0)
-  const width = parseNumberAttribute(use.attributes.width ?? symbol.attributes.width, 'width', viewBox.width)
-  const height = parseNumberAttribute(use.attributes.height ?? symbol.attributes.height, 'height', viewBox.height)
+  const width = parseUserLength(use.attributes.width ?? symbol.attributes.width, 'width', viewport.width, viewBox.width)
+  const height = parseUserLength(use.attributes.height ?? symbol.attributes.height, 'height', viewport.height, viewBox.height)
   return viewBoxMatrix(viewBox, width, height, symbol.attributes.preserveAspectRatio)
 }
 
-/** A nested <svg> (sizes in the parent's user units; percentages fall back to the viewBox size). */
-function nestedViewportMatrix(node: XmlNode): Matrix {
-  const offset = translation(parseNumberAttribute(node.attributes.x, 'x', 0), parseNumberAttribute(node.attributes.y, 'y', 0))
-  const viewBox = parseViewBox(node.attributes.viewBox)
-  if (!viewBox) return offset
-  const userSize = (value: string | undefined, name: string, fallback: number) => (value === undefined || value.endsWith('%') ? fallback : parseNumberAttribute(value, name, fallback))
-  const width = userSize(node.attributes.width, 'width', viewBox.width)
-  const height = userSize(node.attributes.height, 'height', viewBox.height)
-  return multiply(offset, viewBoxMatrix(viewBox, width, height, node.attributes.preserveAspectRatio))
+/** What percentages inside a symbol refer to: its viewBox, else the viewport the use is in. */
+function symbolViewport(symbol: XmlNode, use: XmlNode, viewport: ViewportSize): ViewportSize {
+  const viewBox = parseViewBox(symbol.attributes.viewBox)
+  return viewBox ? { width: viewBox.width, height: viewBox.height } : viewport
+}
+
+/** A width or height attribute that sets a size: absent and SVG 2's "auto" leave it to the element. */
+function givenSize(value: string | undefined): string | undefined {
+  return value === undefined || value.trim() === 'auto' ? undefined : value
+}
+
+/**
+ * A nested <svg> (SVG 2 §8.2, SVG 1.1 §7.9): a new viewport at x, y of the
+ * parent's user space, its width and height 100 % of the parent viewport
+ * unless given (a <use> that refers to it gives its own); a viewBox fills it
+ * by preserveAspectRatio. The viewport size is in the parent's user units;
+ * its viewBox (or, without one, that size) is what percentages inside refer
+ * to. Undefined when a zero width or height disables rendering.
+ */
+function nestedViewport(node: XmlNode, parent: ViewportSize, sizeFromUse: Pending['sizeFromUse']): { matrix: Matrix; size: ViewportSize } | undefined {
+  const { attributes } = node
+  const offset = translation(parseUserLength(attributes.x, 'x', parent.width, 0), parseUserLength(attributes.y, 'y', parent.height, 0))
+  const viewBox = parseViewBox(attributes.viewBox)
+  // A side nothing gives a size to (a percentage of an unknown viewport) takes the viewBox's.
+  const side = (fromUse: string | undefined, own: string | undefined, name: string, percentOf: number | undefined, viewBoxSide: number | undefined): number | undefined => {
+    const size = parseUserLength(fromUse ?? givenSize(own) ?? '100%', name, percentOf, Number.NaN)
+    return Number.isNaN(size) ? viewBoxSide : nonNegativeSize(size, name)
+  }
+  const width = side(sizeFromUse?.width, attributes.width, 'width', parent.width, viewBox?.width)
+  const height = side(sizeFromUse?.height, attributes.height, 'height', parent.height, viewBox?.height)
+  if (width === 0 || height === 0) return undefined
+  if (!viewBox) return { matrix: offset, size: { width, height } }
+  return { matrix: multiply(offset, viewBoxMatrix(viewBox, width ?? viewBox.width, height ?? viewBox.height, attributes.preserveAspectRatio)), size: { width: viewBox.width, height: viewBox.height } }
+}
+
+function nonNegativeSize(value: number, name: string): number {
+  if (value < 0) throw new AnalysisInputError('badSize', `A nested drawing has a negative ${name} (${value}); fix it in your drawing program.`)
+  return value
+}
+
+// The language the conditions of a <switch> are tested against: the server has no reader's language, so English
+// (common practice, no source: drawing programs write their default text in English).
+const READER_LANGUAGE = 'en'
+
+/**
+ * The one child a <switch> renders (SVG 1.1 §5.8.2, SVG 2 §5.8): the first
+ * direct child element whose conditions pass, skipping what is never
+ * rendered (title, desc, metadata…). Kerfbook supports no extension, so any
+ * requiredExtensions fails (an empty one too); requiredFeatures no longer
+ * counts (SVG 2 dropped it); systemLanguage passes when one of its tags is
+ * the reader's language or that language with a region (en, en-GB).
+ */
+function chosenChild(node: XmlNode): XmlNode | undefined {
+  return node.children.find((child) => child.type === 'element' && (!NOT_RENDERED.has(child.name) || child.name === 'foreignObject') && conditionsPass(child.attributes))
+}
+
+function conditionsPass(attributes: Record<string, string>): boolean {
+  if (attributes.requiredExtensions !== undefined) return false
+  const languages = attributes.systemLanguage
+  if (languages === undefined) return true
+  return languages.split(',').some((tag) => {
+    const language = tag.trim().toLowerCase()
+    return language === READER_LANGUAGE || language.startsWith(`${READER_LANGUAGE}-`)
+  })
 }
 
 function addElementSite(sites: SiteList, node: XmlNode, matrix: Matrix): void {

@@ -38,3 +38,28 @@ export function parseAbsoluteLengthMm(value: string | undefined, attributeName: 
   }
   return number * unitMm
 }
+
+// CSS Values and Units Level 3, §6.2: the user unit of SVG is the CSS px, 96 to the inch whatever the drawing's dpi.
+const USER_UNITS_PER_MM = 96 / MM_PER_INCH
+
+/**
+ * A length attribute inside the drawing (x, width, r, …) in user units:
+ * a number, px, an absolute unit (SVG 2 §8.7 and CSS Values 3: 1mm = 96/25.4
+ * user units), or a percentage of `percentOf` (the viewport size the
+ * attribute refers to); `fallback` when absent, or when a percentage has
+ * nothing known to refer to.
+ */
+export function parseUserLength(value: string | undefined, attributeName: string, percentOf: number | undefined, fallback: number): number {
+  if (value === undefined || value.trim() === '') return fallback
+  const match = LENGTH_PATTERN.exec(value)
+  if (!match) return parseNumberAttribute(value, attributeName, fallback)
+  const unit = match[2].toLowerCase()
+  if (unit === '' || unit === 'px') return parseNumberAttribute(match[1], attributeName, fallback)
+  const number = parseNumberAttribute(match[1], attributeName, fallback)
+  if (unit === '%') return percentOf === undefined ? fallback : (number / 100) * percentOf
+  const unitMm = ABSOLUTE_UNIT_MM[unit]
+  if (unitMm === undefined) {
+    throw new AnalysisInputError('badUnit', `A shape's ${attributeName}="${shorten(value)}" uses the unit "${match[2]}", which depends on fonts or the screen. Use numbers, px, mm, cm, in, pt, pc or %.`)
+  }
+  return number * unitMm * USER_UNITS_PER_MM
+}

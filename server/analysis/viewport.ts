@@ -30,7 +30,8 @@ export function parseViewBox(value: string | undefined): ViewBox | undefined {
 export function viewBoxMatrix(viewBox: ViewBox, viewportWidth: number, viewportHeight: number, preserveAspectRatio: string | undefined): Matrix {
   const scaleX = viewportWidth / viewBox.width
   const scaleY = viewportHeight / viewBox.height
-  const [align = 'xMidYMid', meetOrSlice = 'meet'] = (preserveAspectRatio ?? '').trim().split(/\s+/).filter((word) => word !== 'defer')
+  // An absent (or blank) attribute is the initial value, xMidYMid meet.
+  const [align = 'xMidYMid', meetOrSlice = 'meet'] = (preserveAspectRatio ?? '').trim().split(/\s+/).filter((word) => word !== '' && word !== 'defer')
   if (align === 'none') {
     return multiply(scaling(scaleX, scaleY), translation(-viewBox.x, -viewBox.y))
   }
@@ -40,6 +41,22 @@ export function viewBoxMatrix(viewBox: ViewBox, viewportWidth: number, viewportH
   const offsetX = align.includes('xMid') ? freeX / 2 : align.includes('xMax') ? freeX : 0
   const offsetY = align.includes('YMid') ? freeY / 2 : align.includes('YMax') ? freeY : 0
   return multiply(translation(offsetX, offsetY), multiply(scaling(scale, scale), translation(-viewBox.x, -viewBox.y)))
+}
+
+/** A viewport's size in the user units of the coordinate system it establishes; undefined sides are unknown. */
+export interface ViewportSize {
+  width: number | undefined
+  height: number | undefined
+}
+
+/** The root viewport in its user units: the viewBox, else the width and height in px; what percentages inside the drawing refer to. */
+export function rootViewportSize(attributes: Record<string, string>, dpi: number): ViewportSize {
+  const viewBox = parseViewBox(attributes.viewBox)
+  if (viewBox) return { width: viewBox.width, height: viewBox.height }
+  const pixelMm = mmPerPixel(dpi)
+  const widthMm = parseAbsoluteLengthMm(attributes.width, 'width', dpi)
+  const heightMm = parseAbsoluteLengthMm(attributes.height, 'height', dpi)
+  return { width: widthMm === undefined ? undefined : widthMm / pixelMm, height: heightMm === undefined ? undefined : heightMm / pixelMm }
 }
 
 /** The matrix from the root's user units to mm. */

@@ -4,7 +4,8 @@ import { BoxGrid } from './boxGrid'
 import { OPERATION_CODES, type PolylineSet } from '../polylines'
 import type { CheckGeometry } from './index'
 import { oncePerGeometry } from '../memo'
-import type { ClosestPoints } from './segmentGeometry'
+import { type ClosestPoints, closestPointsAt, emptyClosestPoints } from './segmentGeometry'
+import type { AnalysisParams } from '../params'
 import { hypot } from '../distance'
 
 /**
@@ -47,7 +48,8 @@ export class CutSegments {
   /** Built on first use: the pair scan's neighbour lists come from a grid, so most drawings never search the tree. */
   private chunkIndex: Flatbush | null | undefined
 
-  constructor(geometry: CheckGeometry) {
+  /** `reachMm`: how near an open cut must come to a closed cut to show which side of it is material (see `materialSides`). */
+  constructor(geometry: CheckGeometry, reachMm: number) {
     const { contours } = geometry
     this.contours = contours
     const cutIds = cutContourIds(contours)
@@ -108,7 +110,7 @@ export class CutSegments {
     this.chunkStart = chunkStart.subarray(0, chunkCount + 1)
     this.chunkCount = chunkCount
     this.chunkBox = chunkBoxes.slice(0, 4 * chunkCount)
-    this.materialSide = materialSides(geometry, cutIds)
+    this.materialSide = materialSides(geometry, cutIds, (closedCut, looseCut) => this.comesWithin(closedCut, looseCut, reachMm))
   }
 
   /** The tree of the chunk boxes, null when there are none. */
@@ -160,6 +162,21 @@ export class CutSegments {
       }
       return false
     })
+  }
+
+  /** Whether a segment of one of the contours `others` accepts comes within `reachMm` of the given contour. */
+  private comesWithin(contour: number, others: (contour: number) => boolean, reachMm: number): boolean {
+    const { xy, start } = this.contours
+    const closest = emptyClosestPoints()
+    let found = false
+    for (let point = start[contour]; point < start[contour + 1] - 1 && !found; point++) {
+      const near = [Math.min(xy[2 * point], xy[2 * point + 2]) - reachMm, Math.min(xy[2 * point + 1], xy[2 * point + 3]) - reachMm, Math.max(xy[2 * point], xy[2 * point + 2]) + reachMm, Math.max(xy[2 * point + 1], xy[2 * point + 3]) + reachMm]
+      this.forEachNear(near[0], near[1], near[2], near[3], (segment) => {
+        if (found || !others(this.contourOf[segment])) return
+        found = closestPointsAt(xy, 2 * point, 2 * this.firstPoint[segment], closest).distanceMm <= reachMm
+      })
+    }
+    return found
   }
 
   /** [ax, ay, bx, by] of a segment. */
@@ -325,24 +342,64 @@ const CHUNK_SIDE_MM = 4
 /**
  * Which side of each closed cut contour is material. Closed cuts nest: the
  * outermost is a part (material inside), one inside it a hole, and so on.
- * Open cuts that lie outside every closed cut mean the drawing is cut out of
- * a sheet whose edge is not drawn (fold patterns often are): then the
- * outermost closed cuts are holes in that sheet.
+ * A drawing may also be cut out of a sheet whose edge is not drawn (fold
+ * patterns often are): then its outermost closed cuts are holes in that
+ * sheet. That is decided per outermost closed cut from the open cuts that lie
+ * outside every closed cut ("loose" cuts): it is a hole when the middle of
+ * its box lies within the box of the loose cuts (it sits among the slits) or
+ * a loose cut comes within `comesWithin`'s reach of it (a slit ending at a
+ * relief hole: what lies between them is material). So a stray line beside a
+ * part (a construction line left on the cut layer, out of bridge reach)
+ * leaves the part a part: an open cut that does not cross a part reaches
+ * round the middle of its box only when it is at least half the box's
+ * diagonal long.
  */
-function materialSides(geometry: CheckGeometry, cutIds: number[]): Int8Array {
-  const { contours } = geometry
+function materialSides(geometry: CheckGeometry, cutIds: number[], comesWithin: (closedCut: number, isLoose: (contour: number) => boolean) => boolean): Int8Array {
+  const { contours, bounds } = geometry
   const sides = new Int8Array(contours.count)
   const closedIds = cutIds.filter((id) => contours.closed[id] === 1)
   if (closedIds.length === 0) return sides
   const { parentOf, depth } = cutNesting(geometry)
-  const sheetIsUndrawn = cutIds.some((id) => contours.closed[id] === 0 && parentOf[id] < 0)
+  const isLoose = (id: number) => contours.closed[id] === 0 && parentOf[id] < 0
+  const looseBox = boxOf(geometry, cutIds.filter(isLoose))
+  const inUndrawnSheet = new Map<number, boolean>()
+  const isInUndrawnSheet = (outermost: number): boolean => {
+    if (looseBox === null) return false
+    let inSheet = inUndrawnSheet.get(outermost)
+    if (inSheet === undefined) {
+      const middleX = (bounds[4 * outermost] + bounds[4 * outermost + 2]) / 2
+      const middleY = (bounds[4 * outermost + 1] + bounds[4 * outermost + 3]) / 2
+      inSheet = (middleX >= looseBox[0] && middleY >= looseBox[1] && middleX <= looseBox[2] && middleY <= looseBox[3]) || comesWithin(outermost, isLoose)
+      inUndrawnSheet.set(outermost, inSheet)
+    }
+    return inSheet
+  }
   for (const id of closedIds) {
-    const insideIsMaterial = (depth[id] + (sheetIsUndrawn ? 1 : 0)) % 2 === 0
+    let outermost = id
+    while (parentOf[outermost] >= 0) outermost = parentOf[outermost]
+    const insideIsMaterial = (depth[id] + (isInUndrawnSheet(outermost) ? 1 : 0)) % 2 === 0
     // A positive shoelace area means the inside is where cross(direction, offset) > 0.
     sides[id] = Math.sign(contours.signedArea(id)) * (insideIsMaterial ? 1 : -1)
   }
   return sides
 }
 
+/** [minX, minY, maxX, maxY] round the given contours, null when there are none. */
+function boxOf({ bounds }: CheckGeometry, ids: number[]): Float64Array | null {
+  const box = new Float64Array([Infinity, Infinity, -Infinity, -Infinity])
+  for (const id of ids) {
+    box[0] = Math.min(box[0], bounds[4 * id])
+    box[1] = Math.min(box[1], bounds[4 * id + 1])
+    box[2] = Math.max(box[2], bounds[4 * id + 2])
+    box[3] = Math.max(box[3], bounds[4 * id + 3])
+  }
+  return box[0] <= box[2] ? box : null
+}
+
+/** How far apart two cuts may be and still leave too narrow a web between them. */
+export function bridgeReachMm(params: AnalysisParams): number {
+  return params.minBridgeMm + params.kerfMm
+}
+
 /** The cut segments of a geometry, built once and shared by the checks. */
-export const cutSegmentsOf = oncePerGeometry<void, CutSegments>(() => '', (geometry) => new CutSegments(geometry))
+export const cutSegmentsOf = oncePerGeometry((params: AnalysisParams) => String(bridgeReachMm(params)), (geometry, params) => new CutSegments(geometry, bridgeReachMm(params)))

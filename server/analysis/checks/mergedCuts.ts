@@ -13,7 +13,7 @@ import { contourPairKey, NEAR_KIND } from './pairScan'
  * by the narrow-bridge check; exact repeats by the duplicate-cut check.)
  */
 export function checkMergedCuts(geometry: CheckGeometry, params: AnalysisParams, findings: FindingCollector): void {
-  const segments = cutSegmentsOf(geometry)
+  const segments = cutSegmentsOf(geometry, params)
   const nearCuts = nearCutsOf(geometry, params)
   const { kind, distanceMm } = nearCuts
   const { touch, scrap } = NEAR_KIND

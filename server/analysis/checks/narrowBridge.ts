@@ -13,7 +13,7 @@ import { NEAR_KIND, type NearCutList, pairScanOf } from './pairScan'
  * that no other cut screens, narrowest bridge first.
  */
 export function checkNarrowBridges(geometry: CheckGeometry, params: AnalysisParams, findings: FindingCollector): void {
-  const segments = cutSegmentsOf(geometry)
+  const segments = cutSegmentsOf(geometry, params)
   const nearCuts = nearCutsOf(geometry, params)
   const { neighbours } = pairScanOf(geometry, params)
   const web = NEAR_KIND.web

@@ -11,7 +11,7 @@ function findNearCuts(geometry: CheckGeometry, params: AnalysisParams): NearCutL
   const { nearCuts } = pairScanOf(geometry, params)
   const { repeatingPairs } = repeatedCutsOf(geometry, params)
   if (repeatingPairs.size === 0) return nearCuts
-  const { contours, contourOf } = cutSegmentsOf(geometry)
+  const { contours, contourOf } = cutSegmentsOf(geometry, params)
   return nearCuts.filter((slot) => nearCuts.sameContour[slot] === 1 || !repeatingPairs.has(contourPairKey(contours, contourOf[nearCuts.first[slot]], contourOf[nearCuts.second[slot]])))
 }
 

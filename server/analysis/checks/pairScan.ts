@@ -1,7 +1,7 @@
 import type { AnalysisParams } from '../params'
 import type { PolylineSet } from '../polylines'
 import { hypot } from '../distance'
-import { type ChunkNeighbours, type CutSegments, cutSegmentsOf, grownBox } from './cutSegments'
+import { bridgeReachMm, type ChunkNeighbours, type CutSegments, cutSegmentsOf, grownBox } from './cutSegments'
 import type { CheckGeometry } from './index'
 import { oncePerGeometry } from '../memo'
 import { type ClosestPoints, closestPointsAt, emptyClosestPoints, stretchWithin } from './segmentGeometry'
@@ -117,11 +117,6 @@ export function repeatToleranceMm(params: AnalysisParams): number {
   return 2 * params.chordToleranceMm + params.chainToleranceMm
 }
 
-/** How far apart two cuts may be and still leave too narrow a web between them. */
-function bridgeReachMm(params: AnalysisParams): number {
-  return params.minBridgeMm + params.kerfMm
-}
-
 export function contourPairKey(contours: PolylineSet, first: number, second: number): number {
   return Math.min(first, second) * contours.count + Math.max(first, second)
 }
@@ -143,7 +138,7 @@ const SHORTEST_REPEAT_IN_TOLERANCES = 2
  * plus twice the reach, so the contour never leaves and comes back).
  */
 function scanPairs(geometry: CheckGeometry, params: AnalysisParams): PairScan {
-  const segments = cutSegmentsOf(geometry)
+  const segments = cutSegmentsOf(geometry, params)
   const reachMm = bridgeReachMm(params)
   const repeatMm = repeatToleranceMm(params)
   const scanMm = Math.max(reachMm, repeatMm)

@@ -18,7 +18,7 @@ export interface RepeatedCuts {
  * line drawn three times adds two extra passes, counted once per later copy).
  */
 function findRepeatedCuts(geometry: CheckGeometry, params: AnalysisParams): RepeatedCuts {
-  const segments = cutSegmentsOf(geometry)
+  const segments = cutSegmentsOf(geometry, params)
   const result: RepeatedCuts = { repeatingPairs: new Set(), sites: new Map() }
   for (const [later, stretches] of pairScanOf(geometry, params).repeatsOf) {
     const [cx, cy, dx, dy] = segments.ends(later)

@@ -7,7 +7,7 @@ import { NEAR_KIND } from './pairScan'
 
 /** Cut contours that cross or touch themselves away from their own corners; one site per contour, at its first crossing. */
 export function checkSelfIntersections(geometry: CheckGeometry, params: AnalysisParams, findings: FindingCollector): void {
-  const segments = cutSegmentsOf(geometry)
+  const segments = cutSegmentsOf(geometry, params)
   const nearCuts = nearCutsOf(geometry, params)
   const { touch } = NEAR_KIND
   const reported = new Set<number>()

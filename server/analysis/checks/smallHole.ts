@@ -9,7 +9,7 @@ import type { CheckGeometry } from './index'
  * bounding box.
  */
 export function checkSmallHoles(geometry: CheckGeometry, params: AnalysisParams, findings: FindingCollector): void {
-  const segments = cutSegmentsOf(geometry)
+  const segments = cutSegmentsOf(geometry, params)
   const holes = findings.group({ code: 'small-hole', severity: 'warning', limitMm: params.minHoleMm, facts: { thicknessMm: params.thicknessMm }, worstFirst: 'smallest' })
   const { bounds } = geometry
   for (let contour = 0; contour < geometry.contours.count; contour++) {

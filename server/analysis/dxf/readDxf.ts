@@ -1,7 +1,7 @@
-import type { IDxf, IEntity, IInsertEntity, IPoint } from 'dxf-parser'
+import type { IDxf, IEllipseEntity, IEntity, IInsertEntity, IPoint, IPolylineEntity } from 'dxf-parser'
 import { AnalysisInputError } from '../errors'
 import type { FindingCollector, GroupSpec, SiteList } from '../findings'
-import { applyX, applyY, type Matrix, multiply, scaling, translation } from '../matrix'
+import { applyX, applyY, IDENTITY, type Matrix, multiply, scaling, translation } from '../matrix'
 import type { AnalysisParams } from '../params'
 import type { DrawnElement, ReadDrawing } from '../readSvg'
 import { entityPathData } from './entityPaths'
@@ -76,8 +76,9 @@ export function readDxfDocument(dxf: IDxf, params: AnalysisParams, findings: Fin
     const layerName = effectiveLayer(entity, insertLayer)
     const layer = layers.state(layerName)
     const colour = entityColour(entity, layer.colour, byBlockColour)
-    const matrix = withExtrusion(parentMatrix, entity)
-    const findingMatrix = matrix ?? parentMatrix
+    const matrix = withObjectCoordinates(parentMatrix, entity)
+    // An ELLIPSE's points stay in world coordinates, whatever matrix draws it.
+    const findingMatrix = matrix && entity.type !== 'ELLIPSE' ? matrix : parentMatrix
     const at = (point: IPoint | undefined): [number, number] => [applyX(findingMatrix, point?.x ?? 0, point?.y ?? 0), applyY(findingMatrix, point?.x ?? 0, point?.y ?? 0)]
     if (!matrix) {
       if (!layer.frozen) reportNotCut({ code: 'dxf-not-planar' }, ...at(firstPointOf(entity)))
@@ -96,7 +97,7 @@ export function readDxfDocument(dxf: IDxf, params: AnalysisParams, findings: Fin
     }
     // A mirroring matrix (DXF's Y flip, a mirrored block or extrusion) is undone in the path data: see PathDataWriter.
     const mirrored = matrix[0] * matrix[3] - matrix[1] * matrix[2] < 0
-    const drawn = entityPathData(entity, params.chordToleranceMm / linearScale(matrix), mirrored)
+    const drawn = entityPathData(entity.type === 'ELLIPSE' ? ellipseInObjectCoordinates(entity as IEllipseEntity) : entity, params.chordToleranceMm / linearScale(matrix), mirrored)
     if (drawn === undefined) {
       const entityType = entity.type.slice(0, 20)
       reportNotCut({ code: 'dxf-entity-not-read', cause: `unsupported-${entityType.toLowerCase()}`, facts: { entityType } }, ...at(firstPointOf(entity)))
@@ -171,18 +172,77 @@ function insertMatrix(insert: IInsertEntity, basePoint: IPoint | undefined, colu
 }
 
 /**
- * Entities in object coordinates (ARC, LWPOLYLINE, POLYLINE, INSERT) with the
- * extrusion direction (0, 0, −1) — what CAD programs write for mirrored
- * geometry — have their X axis reversed by the arbitrary axis algorithm;
- * other directions leave the plane and give undefined. dxf-parser 1.1.2
- * does not read CIRCLE's and ELLIPSE's extrusion, which therefore count as +Z.
+ * Entity types whose points are in their object coordinate system (OCS), set
+ * by the extrusion direction (groups 210/220/230); a POLYLINE only when it is
+ * 2D. LINE, POINT, 3D polylines and meshes are in world coordinates (DXF
+ * reference, Object Coordinate Systems); ELLIPSE, SPLINE and MTEXT are in
+ * world coordinates too, with the extrusion as their normal.
  */
-function withExtrusion(matrix: Matrix, entity: IEntity): Matrix | undefined {
-  const fields = entity as IEntity & { extrusionDirectionZ?: number; extrusionDirection?: IPoint }
-  const z = fields.extrusionDirectionZ ?? fields.extrusionDirection?.z
-  if (z === undefined || z >= PLANAR_EXTRUSION_Z) return matrix
-  if (z <= -PLANAR_EXTRUSION_Z) return multiply(matrix, scaling(-1, 1))
-  return undefined
+const IN_OBJECT_COORDINATES = new Set(['CIRCLE', 'ARC', 'SOLID', 'TRACE', 'TEXT', 'ATTRIB', 'ATTDEF', 'SHAPE', 'INSERT', 'POLYLINE', 'LWPOLYLINE', 'HATCH', 'IMAGE'])
+
+/**
+ * The entity's matrix into mm: the parent's, after the entity's OCS for the
+ * types that have one; undefined when its plane is tilted out of the
+ * drawing plane. An ELLIPSE's points are in world coordinates but it runs
+ * counter-clockwise about its extrusion, so it is read in the OCS of that
+ * extrusion (`ellipseInObjectCoordinates`) and placed by the same matrix.
+ */
+function withObjectCoordinates(matrix: Matrix, entity: IEntity): Matrix | undefined {
+  const inObjectCoordinates = IN_OBJECT_COORDINATES.has(entity.type) && !(entity as IPolylineEntity).is3dPolyline
+  if (!inObjectCoordinates && entity.type !== 'ELLIPSE') return matrix
+  const extrusion = extrusionOf(entity)
+  // Almost every entity lies in the world's own plane: no matrix to multiply.
+  if (extrusion.x === 0 && extrusion.y === 0 && extrusion.z > 0) return matrix
+  const objectToWorld = objectAxes(extrusion)
+  return objectToWorld && multiply(matrix, objectToWorld)
+}
+
+/** The extrusion direction as dxf-parser (or the raw group reader) gives it, +Z when absent. */
+function extrusionOf(entity: IEntity): IPoint {
+  const fields = entity as IEntity & { extrusionDirection?: IPoint; extrusionDirectionX?: number; extrusionDirectionY?: number; extrusionDirectionZ?: number }
+  if (fields.extrusionDirection) return { x: fields.extrusionDirection.x ?? 0, y: fields.extrusionDirection.y ?? 0, z: fields.extrusionDirection.z ?? 0 }
+  return { x: fields.extrusionDirectionX ?? 0, y: fields.extrusionDirectionY ?? 0, z: fields.extrusionDirectionZ ?? 1 }
+}
+
+/**
+ * The OCS axes of an extrusion direction N in the drawing plane, as the matrix
+ * from OCS (x, y) to world (x, y), by the DXF reference's arbitrary axis
+ * algorithm: Ax = Wy × N when |Nx| and |Ny| are both below 1/64, else
+ * Wz × N; Ay = N × Ax; both normalised. The OCS origin is the world's.
+ * Undefined when N leaves the drawing plane's normal (a tilted entity).
+ */
+export function objectAxes(extrusion: IPoint): Matrix | undefined {
+  const length = Math.hypot(extrusion.x, extrusion.y, extrusion.z ?? 0)
+  if (!(length > 0)) return IDENTITY
+  const n = [extrusion.x / length, extrusion.y / length, (extrusion.z ?? 0) / length] as const
+  if (Math.abs(n[2]) < PLANAR_EXTRUSION_Z) return undefined
+  const arbitraryBound = 1 / 64
+  const ax = normalised(Math.abs(n[0]) < arbitraryBound && Math.abs(n[1]) < arbitraryBound ? cross([0, 1, 0], n) : cross([0, 0, 1], n))
+  const ay = normalised(cross(n, ax))
+  return [ax[0], ax[1], ay[0], ay[1], 0, 0]
+}
+
+type Vector3 = readonly [number, number, number]
+
+function cross(a: Vector3, b: Vector3): Vector3 {
+  return [a[1] * b[2] - a[2] * b[1], a[2] * b[0] - a[0] * b[2], a[0] * b[1] - a[1] * b[0]]
+}
+
+function normalised(v: Vector3): Vector3 {
+  const length = Math.hypot(v[0], v[1], v[2])
+  return [v[0] / length, v[1] / length, v[2] / length]
+}
+
+/**
+ * An ELLIPSE with its world centre and major axis taken into the OCS of its
+ * extrusion (`objectAxes` is a rotation or reflection, so its inverse is its
+ * transpose), where it runs counter-clockwise like every OCS arc.
+ */
+function ellipseInObjectCoordinates(ellipse: IEllipseEntity): IEllipseEntity {
+  const axes = objectAxes(extrusionOf(ellipse))
+  if (!axes || !ellipse.center || !ellipse.majorAxisEndPoint) return ellipse
+  const toObject = (point: IPoint): IPoint => ({ x: axes[0] * point.x + axes[1] * point.y, y: axes[2] * point.x + axes[3] * point.y, z: point.z })
+  return { ...ellipse, center: toObject(ellipse.center), majorAxisEndPoint: toObject(ellipse.majorAxisEndPoint) }
 }
 
 /** An upper bound of how much the matrix stretches lengths (its Frobenius norm), to turn mm tolerances into entity units. */

@@ -8,7 +8,7 @@ describe('cut segment neighbours', () => {
   it('links the segments of an open cut in a row and wraps a closed one round', () => {
     // Contour 0: an open cut of three segments; contour 1: a closed square of four.
     const { geometry } = analyse(['M0 0H10V10H20', rectanglePath(50, 50, 10, 10)])
-    const segments = cutSegmentsOf(geometry)
+    const segments = cutSegmentsOf(geometry, withDefaults(HAND_PARAMS))
     expect(Array.from(segments.contourOf)).toEqual([0, 0, 0, 1, 1, 1, 1])
     expect(Array.from(segments.previousOf)).toEqual([-1, 0, 1, 6, 3, 4, 5])
     expect(Array.from(segments.nextOf)).toEqual([1, 2, -1, 4, 5, 6, 3])
@@ -18,7 +18,7 @@ describe('cut segment neighbours', () => {
 
   it('gives each segment of a closed cut there and back the other as both neighbours', () => {
     const { geometry } = analyse(['M0 0H10Z'])
-    const segments = cutSegmentsOf(geometry)
+    const segments = cutSegmentsOf(geometry, withDefaults(HAND_PARAMS))
     expect(Array.from(segments.previousOf)).toEqual([1, 0])
     expect(Array.from(segments.nextOf)).toEqual([1, 0])
   })

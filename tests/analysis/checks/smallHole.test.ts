@@ -26,6 +26,6 @@ describe('small-hole', () => {
   })
 
   it('treats a circle among free slits as a hole in the undrawn sheet', () => {
-    expect(findingsOf('small-hole', ['M0 0H20', circlePath(50, 50, 0.5)], steel3mm)).toHaveLength(1)
+    expect(findingsOf('small-hole', ['M0 0H100', 'M0 100H100', circlePath(50, 50, 0.5)], steel3mm)).toHaveLength(1)
   })
 })
