@@ -6,6 +6,7 @@ import { randomBytes } from 'node:crypto'
 import { mkdtempSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
+import type { Knex } from 'knex'
 import { migrateLatest, openDatabase, seedDemoIfEmpty } from '../../db/index'
 import { freePort } from './free-port'
 import { startSmtpSink } from './smtp-sink'
@@ -38,6 +39,8 @@ export interface BuiltAppOptions {
   env?: Record<string, string>
   /** Show the server's stdout (its stderr always shows). */
   showOutput?: boolean
+  /** Writes more into the seeded database before the server starts (e.g. years of history). */
+  prepare?: (db: Knex) => Promise<void>
 }
 
 async function waitForServer(url: string, child: ChildProcess, timeoutMs = 60_000): Promise<void> {
@@ -57,6 +60,7 @@ export async function startBuiltApp(options: BuiltAppOptions): Promise<BuiltApp>
   const db = openDatabase(databasePath)
   await migrateLatest(db)
   await seedDemoIfEmpty(db)
+  await options.prepare?.(db)
   await db.destroy()
 
   const sink = await startSmtpSink()
