@@ -12,6 +12,7 @@ import { transitionJob } from './job-states'
 import { currentFiles, jobEstimate, type JobRow } from './jobs'
 import { workshopSettings } from './settings'
 import { addMinutes, describeLocal, inZone, localWeek, minutesBetween, onGrid, openingIntervals, type UtcInterval } from './workshop-time'
+import { earliestStartTouching } from './booking-spans'
 
 export type BookingRefusal =
   | 'in-past'
@@ -107,7 +108,7 @@ async function assertSlotAllowed(trx: Knex, check: SlotCheck): Promise<void> {
       throw new BookingRefused('no-sign-off', `A valid induction sign-off for ${cutter.name} is needed to book it. Ask the staff about the next induction.`)
     }
     const week = localWeek(startIso, zone)
-    const booked = await liveBookings(trx('bookings').where({ member_id: check.memberId }).where('starts_at', '<', week.end).where('ends_at', '>', week.start))
+    const booked = await liveBookings(trx('bookings').where({ member_id: check.memberId }).where('starts_at', '<', week.end).where('ends_at', '>', week.start).where('starts_at', '>', await earliestStartTouching(trx, week.start)))
       .whereNot('id', check.excludeBookingId ?? 0)
       .select('starts_at', 'ends_at')
     const used = booked.reduce((sum: number, b: { starts_at: string; ends_at: string }) => sum + minutesBetween(b.starts_at, b.ends_at), 0)
@@ -115,7 +116,7 @@ async function assertSlotAllowed(trx: Knex, check: SlotCheck): Promise<void> {
       throw new BookingRefused('weekly-limit', `That would take your bookings this week to ${used + minutesBetween(startIso, endIso)} minutes; the workshop allows ${settings.weeklyLimitMinutes} per member per week.`)
     }
   }
-  const clash = await liveBookings(trx('bookings').where({ cutter_id: cutter.id }).where('starts_at', '<', endIso).where('ends_at', '>', startIso))
+  const clash = await liveBookings(trx('bookings').where({ cutter_id: cutter.id }).where('starts_at', '<', endIso).where('ends_at', '>', startIso).where('starts_at', '>', await earliestStartTouching(trx, startIso, cutter.id)))
     .whereNot('id', check.excludeBookingId ?? 0)
     .first('id')
   if (clash) throw new BookingRefused('overlap', 'Someone else has that time on this cutter. Pick another slot.')
@@ -342,6 +343,7 @@ export async function listBookings(db: Knex, viewer: SessionUser, filter: { cutt
     .leftJoin('users as u', 'u.id', 'b.member_id')
     .where('b.starts_at', '<', filter.to)
     .where('b.ends_at', '>', filter.from)
+    .where('b.starts_at', '>', await earliestStartTouching(db, filter.from, filter.cutterId))
     .orderBy('b.starts_at')
     .select('b.*', 'j.title as job_title', 'u.name as member_name')
   if (filter.cutterId) query.where('b.cutter_id', filter.cutterId)
@@ -368,7 +370,7 @@ export async function suggestSlots(db: Knex, cutterId: number, minutes: number, 
   const cutter = await getCutter(db, cutterId)
   const until = addMinutes(from, settings.bookingHorizonDays * 24 * 60)
   const { open, closures } = await cutterAvailability(db, cutterId, from, until)
-  const taken = [...closures, ...(await liveBookings(db('bookings').where({ cutter_id: cutterId }).where('ends_at', '>', from).where('starts_at', '<', until)).select('starts_at as start', 'ends_at as end'))]
+  const taken = [...closures, ...(await liveBookings(db('bookings').where({ cutter_id: cutterId }).where('ends_at', '>', from).where('starts_at', '<', until).where('starts_at', '>', await earliestStartTouching(db, from, cutterId))).select('starts_at as start', 'ends_at as end'))]
   const step = cutter.bookingGranularityMinutes
   const found: UtcInterval[] = []
   for (const period of open) {

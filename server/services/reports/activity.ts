@@ -1,4 +1,5 @@
 import type { Knex } from 'knex'
+import { earliestStartTouching } from '../booking-spans'
 import { liveBookings } from '../bookings'
 import type { ReportRange } from './range'
 
@@ -17,18 +18,22 @@ export interface FinishedJob {
   finished_at: string
 }
 
+const FINISHED_JOB_COLUMNS = ['j.id', 'j.title', 'j.member_id', 'j.cutter_id', 'j.material_id', 'j.actual_minutes', 'j.estimated_minutes', 'j.estimated_setup_s', 'j.sheets_used']
+
 /**
  * Jobs whose cut was finished in the range, with the minutes logged at finish (typed by staff or the
  * timer's own). Jobs finished before `cut_finished_at` was recorded fall back to their move to `cut`.
+ * Both halves find their rows through an index (jobs.cut_finished_at, migration 0013), never by a scan of every job.
  */
 export function finishedJobs(db: Knex, range: ReportRange): Promise<FinishedJob[]> {
-  const withFinish = db('jobs as j')
-    .whereNotNull('j.actual_minutes')
-    .select('j.id', 'j.title', 'j.member_id', 'j.cutter_id', 'j.material_id', 'j.actual_minutes', 'j.estimated_minutes', 'j.estimated_setup_s', 'j.sheets_used')
-    .select(db.raw("coalesce(j.cut_finished_at, (select max(e.created_at) from job_events e where e.job_id = j.id and e.to_state = 'cut')) as finished_at"))
-  const query = db.from(withFinish.as('f')).where('finished_at', '>=', range.fromIso).where('finished_at', '<', range.toIso).orderBy('finished_at')
-  if (range.cutterId) query.where('cutter_id', range.cutterId)
-  return query
+  const recorded = db('jobs as j').whereNotNull('j.actual_minutes').where('j.cut_finished_at', '>=', range.fromIso).where('j.cut_finished_at', '<', range.toIso).select(...FINISHED_JOB_COLUMNS, 'j.cut_finished_at as finished_at')
+  const lastCut = db('job_events as e').whereRaw('e.job_id = j.id').where('e.to_state', 'cut').max('e.created_at')
+  const older = db.from(db('jobs as j').whereNotNull('j.actual_minutes').whereNull('j.cut_finished_at').select(...FINISHED_JOB_COLUMNS, lastCut.as('finished_at')).as('o')).where('finished_at', '>=', range.fromIso).where('finished_at', '<', range.toIso).select('*')
+  if (range.cutterId) {
+    recorded.where('j.cutter_id', range.cutterId)
+    older.where('cutter_id', range.cutterId)
+  }
+  return db.from(recorded.unionAll(older).as('f')).orderBy(['finished_at', 'id']).select('*')
 }
 
 export interface JobBooking {
@@ -38,8 +43,8 @@ export interface JobBooking {
 }
 
 /** Live job bookings (held within their time to pay, or confirmed) touching the range; staff blocks left out. */
-export function jobBookings(db: Knex, range: ReportRange): Promise<JobBooking[]> {
+export async function jobBookings(db: Knex, range: ReportRange): Promise<JobBooking[]> {
   const query = liveBookings(db('bookings').where({ kind: 'job' }).where('starts_at', '<', range.toIso).where('ends_at', '>', range.fromIso))
   if (range.cutterId) query.where({ cutter_id: range.cutterId })
-  return query.select('member_id', 'starts_at', 'ends_at')
+  return query.where('starts_at', '>', await earliestStartTouching(db, range.fromIso, range.cutterId)).select('member_id', 'starts_at', 'ends_at')
 }

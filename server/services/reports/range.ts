@@ -44,6 +44,39 @@ export function weekOf(iso: string, zone: string): WeekColumns {
   return weekColumns(inZone(iso, zone).startOf('week'))
 }
 
+/** The index of the range's week holding the instant (−1 outside the range): a binary search over the week starts, no date arithmetic per row. */
+export function weekIndexOf(range: Pick<ReportRange, 'weeks'>, iso: string): number {
+  const { weeks } = range
+  if (!weeks.length || iso < weeks[0]!.start || iso >= weeks[weeks.length - 1]!.end) return -1
+  let low = 0
+  let high = weeks.length - 1
+  while (low < high) {
+    const middle = (low + high + 1) >> 1
+    if (weeks[middle]!.start <= iso) low = middle
+    else high = middle - 1
+  }
+  return low
+}
+
+/** Calls `add` with each week's share, in minutes, of [start, end): the weeks it touches only. */
+export function spreadOverWeeks(range: Pick<ReportRange, 'weeks'>, start: string, end: string, add: (weekIndex: number, minutes: number) => void): void {
+  const { weeks } = range
+  if (!weeks.length) return
+  for (let i = Math.max(0, weekIndexOf(range, start > weeks[0]!.start ? start : weeks[0]!.start)); i < weeks.length && weeks[i]!.start < end; i++) {
+    const minutes = overlapMinutes(start, end, weeks[i]!)
+    if (minutes > 0) add(i, minutes)
+  }
+}
+
+/**
+ * The range's weeks as a table for SQL (week_index, start_at, end_at), so a report can join its rows to their
+ * week and group them in the database. Plain `select … union all`, which SQLite and PostgreSQL both read.
+ */
+export function weeksTable(db: Knex, range: Pick<ReportRange, 'weeks'>): Knex.Raw {
+  const weeks = range.weeks.length ? range.weeks : [{ start: '', end: '' }]
+  return db.raw(weeks.map(() => 'select ? as week_index, ? as start_at, ? as end_at').join(' union all '), weeks.flatMap((w, i) => [i, w.start, w.end]))
+}
+
 /** Minutes that [start, end) shares with the interval. */
 export function overlapMinutes(start: string, end: string, interval: UtcInterval): number {
   const from = start > interval.start ? start : interval.start

@@ -3,7 +3,7 @@ import type { UtilisationReport } from '#shared/schemas/reports'
 import { cutterAvailability } from '../bookings'
 import type { UtcInterval } from '../workshop-time'
 import { finishedJobs, jobBookings } from './activity'
-import { overlapMinutes, reportOf, weekOf, type ReportRange } from './range'
+import { reportOf, spreadOverWeeks, weekIndexOf, type ReportRange } from './range'
 import { rounded } from './statistics'
 
 /** What is left of an interval once the closures are cut out of it. */
@@ -37,15 +37,18 @@ async function openIntervals(db: Knex, range: ReportRange): Promise<UtcInterval[
 /**
  * Per ISO week, over the cutters in scope: minutes open (opening hours less closures), minutes held by
  * live job bookings (staff blocks left out), and minutes actually cut (logged at finish, in the week the cut finished).
+ * One pass over each record: each is added to the weeks it touches, found by a binary search over the week starts.
  */
 export async function utilisationReport(db: Knex, range: ReportRange): Promise<UtilisationReport> {
-  const open = await openIntervals(db, range)
-  const bookings = await jobBookings(db, range)
-  const cuts = await finishedJobs(db, range)
-  const rows = range.weeks.map((week) => {
-    const openMinutes = open.reduce((sum, i) => sum + overlapMinutes(i.start, i.end, week), 0)
-    const bookedMinutes = bookings.reduce((sum, b) => sum + overlapMinutes(b.starts_at, b.ends_at, week), 0)
-    const cuttingMinutes = cuts.filter((j) => weekOf(j.finished_at, range.zone).week === week.week).reduce((sum, j) => sum + j.actual_minutes, 0)
+  const totals = range.weeks.map(() => ({ open: 0, booked: 0, cutting: 0 }))
+  for (const interval of await openIntervals(db, range)) spreadOverWeeks(range, interval.start, interval.end, (i, minutes) => (totals[i]!.open += minutes))
+  for (const booking of await jobBookings(db, range)) spreadOverWeeks(range, booking.starts_at, booking.ends_at, (i, minutes) => (totals[i]!.booked += minutes))
+  for (const job of await finishedJobs(db, range)) {
+    const i = weekIndexOf(range, job.finished_at)
+    if (i >= 0) totals[i]!.cutting += job.actual_minutes
+  }
+  const rows = range.weeks.map((week, i) => {
+    const { open: openMinutes, booked: bookedMinutes, cutting: cuttingMinutes } = totals[i]!
     const percentOfOpen = (minutes: number) => (openMinutes > 0 ? rounded((minutes / openMinutes) * 100) : null)
     return {
       week: week.week,

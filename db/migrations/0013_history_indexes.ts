@@ -1,0 +1,64 @@
+import type { Knex } from 'knex'
+
+// Years of history: the reports find their rows by time through indexes, and every read of a cutter's
+// bookings round a time (the calendar, the clash check, the overlap trigger) gets a lower bound on
+// `starts_at` as well as the upper one, so it walks only the bookings near that time, not the cutter's past.
+// The bound is `start − the longest booking the cutter ever had`: a booking that ends after `start` began
+// after it. `booking_spans` keeps that longest length per cutter, raised by triggers on every write.
+
+const NOW = "strftime('%Y-%m-%dT%H:%M:%fZ','now')"
+// Whole seconds, rounded up (and a second more, so floating-point day fractions never make it short).
+const spanSeconds = (row: string) => `CAST((julianday(${row}.ends_at) - julianday(${row}.starts_at)) * 86400 + 1 AS INTEGER)`
+
+const overlapGuard = (event: 'INSERT' | 'UPDATE', bounded: boolean) => `
+CREATE TRIGGER bookings_no_overlap_${event.toLowerCase()} BEFORE ${event} ON bookings
+WHEN NEW.status != 'cancelled' AND EXISTS (
+  SELECT 1 FROM bookings b
+  WHERE b.cutter_id = NEW.cutter_id AND b.status != 'cancelled' AND b.id IS NOT NEW.id
+    AND b.starts_at < NEW.ends_at AND b.ends_at > NEW.starts_at${
+      bounded
+        ? `
+    AND b.starts_at > strftime('%Y-%m-%dT%H:%M:%fZ', NEW.starts_at, '-' || coalesce((SELECT s.longest_s FROM booking_spans s WHERE s.cutter_id = NEW.cutter_id), 0) || ' seconds')`
+        : ''
+    }
+    AND (b.hold_expires_at IS NULL OR b.hold_expires_at > ${NOW})
+)
+BEGIN SELECT RAISE(ABORT, 'booking_overlap'); END;`
+
+const spanKeeper = (event: 'INSERT' | 'UPDATE') => `
+CREATE TRIGGER bookings_span_${event.toLowerCase()} AFTER ${event === 'INSERT' ? 'INSERT' : 'UPDATE OF cutter_id, starts_at, ends_at'} ON bookings
+BEGIN
+  INSERT INTO booking_spans (cutter_id, longest_s) VALUES (NEW.cutter_id, ${spanSeconds('NEW')})
+  ON CONFLICT (cutter_id) DO UPDATE SET longest_s = max(longest_s, excluded.longest_s);
+END;`
+
+export async function up(knex: Knex): Promise<void> {
+  await knex.schema.alterTable('payment_ledger', (t) => t.index(['created_at']))
+  await knex.schema.alterTable('bookings', (t) => t.index(['starts_at']))
+  await knex.schema.alterTable('jobs', (t) => t.index(['cut_finished_at']))
+  await knex.schema.alterTable('job_events', (t) => t.index(['to_state', 'created_at']))
+  await knex.schema.createTable('booking_spans', (t) => {
+    t.integer('cutter_id').primary().references('cutters.id')
+    t.integer('longest_s').notNullable()
+  })
+  await knex.raw(`INSERT INTO booking_spans (cutter_id, longest_s) SELECT cutter_id, max(${spanSeconds('bookings')}) FROM bookings GROUP BY cutter_id`)
+  await knex.raw(spanKeeper('INSERT'))
+  await knex.raw(spanKeeper('UPDATE'))
+  for (const event of ['INSERT', 'UPDATE'] as const) {
+    await knex.raw(`DROP TRIGGER IF EXISTS bookings_no_overlap_${event.toLowerCase()}`)
+    await knex.raw(overlapGuard(event, true))
+  }
+}
+
+export async function down(knex: Knex): Promise<void> {
+  for (const event of ['INSERT', 'UPDATE'] as const) {
+    await knex.raw(`DROP TRIGGER IF EXISTS bookings_no_overlap_${event.toLowerCase()}`)
+    await knex.raw(overlapGuard(event, false))
+    await knex.raw(`DROP TRIGGER IF EXISTS bookings_span_${event.toLowerCase()}`)
+  }
+  await knex.schema.dropTable('booking_spans')
+  await knex.schema.alterTable('job_events', (t) => t.dropIndex(['to_state', 'created_at']))
+  await knex.schema.alterTable('jobs', (t) => t.dropIndex(['cut_finished_at']))
+  await knex.schema.alterTable('bookings', (t) => t.dropIndex(['starts_at']))
+  await knex.schema.alterTable('payment_ledger', (t) => t.dropIndex(['created_at']))
+}
