@@ -4,7 +4,7 @@ import { Conflict, Forbidden, InvalidInput, NotFound, Unauthorized } from '../ut
 import { endAllSessions } from './sessions'
 import { consumeToken, issueToken, revokeTokens } from './tokens'
 
-interface UserRow {
+export interface UserRow {
   id: number
   email: string
   name: string
@@ -29,7 +29,7 @@ function toSessionUser(row: UserRow): SessionUser {
   return { id: row.id, email: row.email, name: row.name, role: row.role }
 }
 
-function toListItem(row: UserRow): UserListItem {
+export function toListItem(row: UserRow): UserListItem {
   return { ...toSessionUser(row), verified: !!row.email_verified_at, disabled: !!row.disabled_at, createdAt: row.created_at }
 }
 

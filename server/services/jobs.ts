@@ -5,6 +5,7 @@ import { worstSeverity } from '#shared/finding-groups'
 import type { FindingRef, JobCreateInput } from '#shared/schemas/jobs'
 import { Conflict, InvalidInput, NotFound } from '../utils/errors'
 import { nowIso } from '../utils/rows'
+import { keysetPage, mapPage, type PageOrder } from '../utils/paging'
 import { analysisParamsFor } from './analysis-profile'
 import { getCutter } from './catalog/cutters'
 import { getMaterial } from './catalog/materials'
@@ -156,7 +157,9 @@ export async function jobDetail(db: Knex, viewer: SessionUser, jobId: number) {
   }
 }
 
-export async function listJobs(db: Knex, viewer: SessionUser, filter: { state?: string; scope?: 'mine' | 'all' }) {
+export type JobListFilter = { state?: string; scope?: 'mine' | 'all' }
+
+function jobListQuery(db: Knex, viewer: SessionUser, filter: JobListFilter) {
   const query = db('jobs as j')
     .join('users as u', 'u.id', 'j.member_id')
     .join('cutters as c', 'c.id', 'j.cutter_id')
@@ -164,14 +167,29 @@ export async function listJobs(db: Knex, viewer: SessionUser, filter: { state?: 
     .select('j.*', 'u.name as member_name', 'c.name as cutter_name', 'm.name as material_name', 'm.thickness_mm')
   if (!isStaff(viewer) || filter.scope !== 'all') query.where('j.member_id', viewer.id)
   if (filter.state) query.whereIn('j.state', filter.state.split(','))
-  query.orderByRaw('coalesce(j.submitted_at, j.created_at) asc')
-  const rows = await query
+  return query
+}
+
+// Oldest waiting first: the order of the review queue.
+const JOB_LIST_ORDER = { columns: ['coalesce(j.submitted_at, j.created_at)', 'j.id'], direction: 'asc', keyOf: (row: JobRow) => [row.submitted_at ?? row.created_at, row.id] } satisfies PageOrder<JobRow>
+
+/** Every job the viewer may list (staff: `scope=all`), oldest waiting first. */
+export async function listJobs(db: Knex, viewer: SessionUser, filter: JobListFilter) {
+  return jobSummaries(db, await jobListQuery(db, viewer, filter).orderByRaw('coalesce(j.submitted_at, j.created_at) asc, j.id asc'))
+}
+
+/** One page of the same list: estimates are computed for the page's jobs only. */
+export async function listJobsPage(db: Knex, viewer: SessionUser, filter: JobListFilter, page: { limit: number; cursor?: string }) {
+  return mapPage(await keysetPage(jobListQuery(db, viewer, filter), JOB_LIST_ORDER, page), (rows) => jobSummaries(db, rows))
+}
+
+async function jobSummaries(db: Knex, rows: (JobRow & Record<string, any>)[]) {
   const summaries = []
   const lookups = estimateLookups(db)
   const filesByJob = await filesOfJobs(db, rows.map((r) => r.id))
   for (const row of rows) {
     const files = filesByJob.get(row.id)!
-    const estimate = await jobEstimate(db, row as JobRow, files, lookups)
+    const estimate = await jobEstimate(db, row, files, lookups)
     const counts = countFindings(files)
     summaries.push({
       id: row.id,

@@ -1,4 +1,6 @@
 import type { Knex } from 'knex'
+import type { Page } from '#shared/schemas/paging'
+import { keysetPage, mapPage } from '../utils/paging'
 import { nowIso } from '../utils/rows'
 
 /** A mail as the services write it; the mailer renders it (HTML and text) when it is sent. */
@@ -98,10 +100,18 @@ export interface UndeliveredMail {
   createdAt: string
 }
 
+const undeliveredQuery = (db: Knex) => db('mail_outbox').whereNot('status', 'sent').where((q) => q.where('attempts', '>', 0).orWhere('status', 'dead'))
+const toUndelivered = (r: Record<string, any>): UndeliveredMail => ({ id: r.id, recipient: r.recipient, subject: r.subject, status: r.status, attempts: r.attempts, lastError: r.last_error, nextAttemptAt: r.next_attempt_at, createdAt: r.created_at })
+
 /** Mail not delivered yet: waiting for a retry after a failure, being sent, or dead-lettered. Newest first. */
 export async function undeliveredMail(db: Knex): Promise<UndeliveredMail[]> {
-  const rows = await db('mail_outbox').whereNot('status', 'sent').where((q) => q.where('attempts', '>', 0).orWhere('status', 'dead')).orderBy('id', 'desc').limit(200)
-  return rows.map((r) => ({ id: r.id, recipient: r.recipient, subject: r.subject, status: r.status, attempts: r.attempts, lastError: r.last_error, nextAttemptAt: r.next_attempt_at, createdAt: r.created_at }))
+  return (await undeliveredQuery(db).orderBy('id', 'desc').limit(200)).map(toUndelivered)
+}
+
+/** The same, a page at a time. */
+export async function undeliveredMailPage(db: Knex, page: { limit: number; cursor?: string }): Promise<Page<UndeliveredMail>> {
+  const order = { columns: ['id'], direction: 'desc' as const, keyOf: (r: { id: number }) => [r.id] }
+  return mapPage(await keysetPage(undeliveredQuery(db).select('*'), order, page), (rows) => rows.map(toUndelivered))
 }
 
 /** Staff send a dead (or waiting) mail again now; a mail already sent or being sent is left alone. */

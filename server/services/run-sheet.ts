@@ -7,10 +7,9 @@ import { balancesOwed } from './balance'
 import { liveBookings } from './bookings'
 import { listColours } from './catalog/colours'
 import { getCutter } from './catalog/cutters'
-import { getMaterial } from './catalog/materials'
 import { acknowledgedGroups, type WarningGroupView } from './finding-acknowledgements'
-import { currentFindingGroups } from './job-revisions'
-import { currentFiles, jobEstimate, type JobRow } from './jobs'
+import { currentFindingGroups, filesOfJobs } from './job-revisions'
+import { currentFiles, estimateLookups, jobEstimate, type JobRow } from './jobs'
 import { timerMinutes, type TimerKind } from './operations'
 import { workshopSettings } from './settings'
 import { inZone, toUtcIso } from './workshop-time'
@@ -44,40 +43,50 @@ export async function runSheet(db: Knex, cutterId: number, localDate: string): P
   if (!day.isValid) throw new NotFound('No such day.')
   const from = toUtcIso(day)
   const to = toUtcIso(day.plus({ days: 1 }))
-  const bookings = await liveBookings(db('bookings').where({ cutter_id: cutterId, kind: 'job' }).where('starts_at', '>=', from).where('starts_at', '<', to)).orderBy('starts_at')
-  const entries: RunSheetEntry[] = []
-  for (const booking of bookings) {
-    const job = (await db<JobRow & Record<string, any>>('jobs').where({ id: booking.job_id }).first())!
+  // A fixed number of queries however many jobs the day holds: each kind of record is read for all of them at once.
+  const bookings = await liveBookings(db('bookings as b').where({ 'b.cutter_id': cutterId, 'b.kind': 'job' }).where('b.starts_at', '>=', from).where('b.starts_at', '<', to))
+    .join('jobs as j', 'j.id', 'b.job_id')
+    .join('users as u', 'u.id', 'j.member_id')
     // Handed over: nothing left to do at the machine or the shelf.
-    if (job.state === 'collected') continue
-    const [member, material, files, events, problems] = await Promise.all([
-      db('users').where({ id: job.member_id }).first('name', 'email'),
-      getMaterial(db, job.material_id),
-      currentFiles(db, job.id),
-      db('cut_timer_events').where({ job_id: job.id }).orderBy('id').select('kind', 'at') as Promise<{ kind: TimerKind; at: string }[]>,
-      db('cut_problems').where({ job_id: job.id }).orderBy('id').select('kind', 'note', 'created_at as at'),
-    ])
-    const estimate = await jobEstimate(db, job, files)
-    const withWarnings = files.filter((f) => f.current.counts.warningGroups > 0)
-    const warningGroups = withWarnings.length ? (await acknowledgedGroups(db, await currentFindingGroups(db, withWarnings))).filter((g) => g.acknowledgement) : []
+    .whereNot('j.state', 'collected')
+    .orderBy('b.starts_at')
+    .select('b.id as booking_id', 'b.starts_at', 'b.ends_at', 'b.status', 'u.name as member_name', 'u.email as member_email', 'j.*')
+  const jobIds = bookings.map((b) => b.id as number)
+  const lookups = estimateLookups(db)
+  const [filesByJob, timerEvents, problems, balances] = await Promise.all([
+    filesOfJobs(db, jobIds),
+    db('cut_timer_events').whereIn('job_id', jobIds).orderBy('id').select('job_id', 'kind', 'at') as Promise<{ job_id: number; kind: TimerKind; at: string }[]>,
+    db('cut_problems').whereIn('job_id', jobIds).orderBy('id').select('job_id', 'kind', 'note', 'created_at as at') as Promise<{ job_id: number; kind: string; note: string; at: string }[]>,
+    balancesOwed(db, { bookingIds: bookings.map((b) => b.booking_id as number) }),
+  ])
+  const withWarnings = [...filesByJob.values()].flat().filter((f) => f.current.counts.warningGroups > 0)
+  const accepted = withWarnings.length ? (await acknowledgedGroups(db, await currentFindingGroups(db, withWarnings))).filter((g) => g.acknowledgement) : []
+  const entries: RunSheetEntry[] = []
+  for (const row of bookings) {
+    const job = row as JobRow & Record<string, any>
+    const files = filesByJob.get(job.id)!
+    const material = await lookups.material(job.material_id)
+    const estimate = await jobEstimate(db, job, files, lookups)
+    const fileIds = new Set(files.map((f) => f.id))
     const sheet = material.sheets.find((s) => s.id === job.sheet_id) ?? material.sheets[0]!
+    const balance = balances.find((b) => b.bookingId === row.booking_id)
     entries.push({
-      bookingId: booking.id,
-      start: booking.starts_at,
-      end: booking.ends_at,
-      paid: booking.status === 'confirmed',
-      balanceOwed: (await balancesOwed(db, { bookingId: booking.id }))[0] ?? null,
+      bookingId: row.booking_id,
+      start: row.starts_at,
+      end: row.ends_at,
+      paid: row.status === 'confirmed',
+      balanceOwed: balance ?? null,
       job: { id: job.id, title: job.title, state: job.state, notes: job.notes, overrideReason: job.override_reason },
-      member,
+      member: { name: row.member_name, email: row.member_email },
       material: { name: material.name, thicknessMm: material.thicknessMm, hazardNote: material.hazardNote },
       sheets: { count: estimate.sheetCount, widthMm: sheet.widthMm, heightMm: sheet.heightMm },
       files: files.map((f) => ({ name: f.name, quantity: f.quantity, revision: f.current.revision })),
-      warningGroups,
+      warningGroups: accepted.filter((g) => fileIds.has(g.fileId)),
       cautions: cautionsFor(cutter.kind, material),
-      timer: timerMinutes(events),
+      timer: timerMinutes(timerEvents.filter((e) => e.job_id === job.id)),
       actualMinutes: job.actual_minutes ?? null,
       pickupLocation: job.pickup_location ?? null,
-      problems,
+      problems: problems.filter((p) => p.job_id === job.id).map(({ kind, note, at }) => ({ kind, note, at })),
     })
   }
   return { cutterName: cutter.name, date: localDate, timeZone: settings.timeZone, entries }

@@ -8,6 +8,23 @@ export type JobTimeCorrection = TimeCorrection & { scope: CalibrationScope }
  * finished jobs), learnt from the actual minutes staff logged; null until enough jobs exist.
  */
 export async function timeCorrectionFor(db: Knex, cutterId: number, materialFamily: string): Promise<JobTimeCorrection | null> {
+  // The fit over years of finished jobs takes a good part of a second; it is redone only when the jobs it learns from change.
+  const state = await db('jobs')
+    .where({ cutter_id: cutterId })
+    .whereNotNull('actual_minutes')
+    .first(db.raw('count(*) as n, max(id) as last_id, max(cut_finished_at) as last_finish, sum(actual_minutes) as actual, sum(estimated_cut_s) as cut'))
+  const key = JSON.stringify([cutterId, materialFamily, state])
+  if (fitted.has(key)) return fitted.get(key)!
+  const correction = await fitCorrection(db, cutterId, materialFamily)
+  if (fitted.size >= MAX_FITS_KEPT) fitted.delete(fitted.keys().next().value!)
+  fitted.set(key, correction)
+  return correction
+}
+
+const MAX_FITS_KEPT = 256
+const fitted = new Map<string, JobTimeCorrection | null>()
+
+async function fitCorrection(db: Knex, cutterId: number, materialFamily: string): Promise<JobTimeCorrection | null> {
   const rows = await db('jobs as j')
     .join('materials as m', 'm.id', 'j.material_id')
     .where('j.cutter_id', cutterId)

@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { idField, optionalText, requiredText, wholeNumber } from './fields'
+import { pageQuerySchema } from './paging'
 
 export const MAX_FILES_PER_JOB = 200
 
@@ -46,7 +47,7 @@ export const overrideSchema = z.object({ reason: requiredText('Reason', 1000) })
 export const jobListQuerySchema = z.object({
   state: z.string().optional(),
   scope: z.enum(['mine', 'all']).optional(),
-})
+}).extend(pageQuerySchema.shape)
 
 export const jobFileParamsSchema = z.object({
   id: z.coerce.number().int().positive({ error: 'The job id must be a positive whole number.' }),

@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { requiredText, wholeNumber } from './fields'
+import { pageQuerySchema } from './paging'
 
 // Cutting minutes: machine time spent cutting, without the setup (the cutter's setup minutes are charged on top, once).
 const cuttingMinutes = z.number({ error: 'Cutting minutes must be a number.' }).positive({ error: 'Cutting minutes must be more than 0.' }).max(24 * 60, { error: 'At most 1440 minutes.' })
@@ -24,7 +25,7 @@ export const paymentListQuerySchema = z.object({
   to: z.iso.datetime({ offset: true }).optional(),
   state: z.enum(['awaiting', 'authorised', 'captured', 'refunded', 'partly-refunded', 'released', 'balance-due']).optional(),
   format: z.enum(['json', 'csv']).optional(),
-})
+}).extend(pageQuerySchema.shape)
 
 export const problemSchema = z.object({
   kind: z.enum(['failed-cut', 're-cut', 'material-defect', 'other'], { error: 'Choose what went wrong.' }),

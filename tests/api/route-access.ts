@@ -249,6 +249,7 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   'GET /api/jobs': { policy: signedInOnly() },
   'POST /api/jobs': { policy: signedInOnly('passes') },
   'GET /api/jobs/:id': { policy: ownerAndStaff('ok'), params: job },
+  'GET /api/jobs/:id/events': { policy: ownerAndStaff('ok'), params: job },
   'PATCH /api/jobs/:id': { policy: ownerAndStaff(), params: job },
   'POST /api/jobs/:id/approve': { policy: STAFF_MOVE, params: freshJob },
   'POST /api/jobs/:id/files': { policy: ownerAndStaff(), params: job },

@@ -1,10 +1,11 @@
 import { paymentListQuerySchema } from '#shared/schemas/payments'
-import { listPayments } from '../../services/payments'
+import { listPayments, listPaymentsPage } from '../../services/payment-list'
 
-// Every booking's payment with its ledger; `format=csv` gives the table as a file.
+// Every booking's payment with its ledger, in pages with `limit`; `format=csv` gives the whole table as a file.
 export default defineApiHandler(async (event) => {
   await requireRole(event, 'admin')
-  const { format, ...filter } = readQueryAs(event, paymentListQuerySchema)
+  const { format, limit, cursor, ...filter } = readQueryAs(event, paymentListQuerySchema)
+  if (format !== 'csv' && limit) return listPaymentsPage(useDb(), filter, { limit, cursor })
   const payments = await listPayments(useDb(), filter)
   if (format !== 'csv') return payments
   setResponseHeader(event, 'content-type', 'text/csv; charset=utf-8')

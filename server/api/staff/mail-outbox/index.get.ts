@@ -1,7 +1,9 @@
-import { undeliveredMail } from '../../../services/mail-outbox'
+import { pageQuerySchema } from '#shared/schemas/paging'
+import { undeliveredMail, undeliveredMailPage } from '../../../services/mail-outbox'
 
-// Mail the outbox could not deliver yet (waiting for a retry, or dead-lettered), for the staff to see and act on.
+// Mail the outbox could not deliver yet (waiting for a retry, or dead-lettered), for the staff to see and act on; in pages with `limit`.
 export default defineApiHandler(async (event) => {
   await requireRole(event, 'staff', 'admin')
-  return undeliveredMail(useDb())
+  const { limit, cursor } = readQueryAs(event, pageQuerySchema)
+  return limit ? undeliveredMailPage(useDb(), { limit, cursor }) : undeliveredMail(useDb())
 })
