@@ -157,7 +157,7 @@ export async function jobDetail(db: Knex, viewer: SessionUser, jobId: number) {
   }
 }
 
-export type JobListFilter = { state?: string; scope?: 'mine' | 'all' }
+export type JobListFilter = { state?: string; scope?: 'mine' | 'all'; order?: 'waiting' | 'newest' }
 
 function jobListQuery(db: Knex, viewer: SessionUser, filter: JobListFilter) {
   const query = db('jobs as j')
@@ -170,8 +170,12 @@ function jobListQuery(db: Knex, viewer: SessionUser, filter: JobListFilter) {
   return query
 }
 
-// Oldest waiting first: the order of the review queue.
-const JOB_LIST_ORDER = { columns: ['coalesce(j.submitted_at, j.created_at)', 'j.id'], direction: 'asc', keyOf: (row: JobRow) => [row.submitted_at ?? row.created_at, row.id] } satisfies PageOrder<JobRow>
+const JOB_LIST_ORDERS = {
+  // Oldest waiting first: the order of the review queue.
+  waiting: { columns: ['coalesce(j.submitted_at, j.created_at)', 'j.id'], direction: 'asc', keyOf: (row: JobRow) => [row.submitted_at ?? row.created_at, row.id] },
+  // Newest first: a member's own list.
+  newest: { columns: ['j.created_at', 'j.id'], direction: 'desc', keyOf: (row: JobRow) => [row.created_at, row.id] },
+} satisfies Record<string, PageOrder<JobRow>>
 
 /** Every job the viewer may list (staff: `scope=all`), oldest waiting first. */
 export async function listJobs(db: Knex, viewer: SessionUser, filter: JobListFilter) {
@@ -180,7 +184,7 @@ export async function listJobs(db: Knex, viewer: SessionUser, filter: JobListFil
 
 /** One page of the same list: estimates are computed for the page's jobs only. */
 export async function listJobsPage(db: Knex, viewer: SessionUser, filter: JobListFilter, page: { limit: number; cursor?: string }) {
-  return mapPage(await keysetPage(jobListQuery(db, viewer, filter), JOB_LIST_ORDER, page), (rows) => jobSummaries(db, rows))
+  return mapPage(await keysetPage(jobListQuery(db, viewer, filter), JOB_LIST_ORDERS[filter.order ?? 'waiting'], page), (rows) => jobSummaries(db, rows))
 }
 
 async function jobSummaries(db: Knex, rows: (JobRow & Record<string, any>)[]) {

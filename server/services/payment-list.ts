@@ -130,3 +130,18 @@ export async function listPaymentsPage(db: Knex, filter: PaymentFilter, page: Re
     return bookings.map((b) => toView(b, rowsOf.get(b.id) ?? []))
   })
 }
+
+export interface PaymentTotals {
+  currency: string
+  capturedMinor: number
+  refundedMinor: number
+}
+
+/** Charged and refunded over every payment the filter selects, per currency (the admin page's totals, whatever page is shown). */
+export async function paymentTotals(db: Knex, filter: PaymentFilter): Promise<PaymentTotals[]> {
+  const rows = await db('payment_ledger as l')
+    .join(paymentQuery(db, filter).clearSelect().select('b.id').as('f'), 'f.id', 'l.booking_id')
+    .groupBy('l.currency')
+    .select('l.currency', db.raw(`${sumOf(['captured', 'fee', 'charged'])} as captured`), db.raw(`${sumOf(['refunded'])} as refunded`))
+  return rows.map((r: { currency: string; captured: number | string; refunded: number | string }) => ({ currency: r.currency, capturedMinor: Number(r.captured), refundedMinor: Number(r.refunded) }))
+}

@@ -47,6 +47,8 @@ export const overrideSchema = z.object({ reason: requiredText('Reason', 1000) })
 export const jobListQuerySchema = z.object({
   state: z.string().optional(),
   scope: z.enum(['mine', 'all']).optional(),
+  // Pages only: oldest waiting first (the review queue) or newest first.
+  order: z.enum(['waiting', 'newest']).optional(),
 }).extend(pageQuerySchema.shape)
 
 export const jobFileParamsSchema = z.object({

@@ -1,11 +1,12 @@
 import { paymentListQuerySchema } from '#shared/schemas/payments'
-import { listPayments, listPaymentsPage } from '../../services/payment-list'
+import { listPayments, listPaymentsPage, paymentTotals } from '../../services/payment-list'
 
 // Every booking's payment with its ledger, in pages with `limit`; `format=csv` gives the whole table as a file.
 export default defineApiHandler(async (event) => {
   await requireRole(event, 'admin')
   const { format, limit, cursor, ...filter } = readQueryAs(event, paymentListQuerySchema)
-  if (format !== 'csv' && limit) return listPaymentsPage(useDb(), filter, { limit, cursor })
+  // The first page carries the totals of everything the filter selects.
+  if (format !== 'csv' && limit) return { ...(await listPaymentsPage(useDb(), filter, { limit, cursor })), totals: cursor ? undefined : await paymentTotals(useDb(), filter) }
   const payments = await listPayments(useDb(), filter)
   if (format !== 'csv') return payments
   setResponseHeader(event, 'content-type', 'text/csv; charset=utf-8')
