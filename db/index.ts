@@ -12,11 +12,11 @@ export async function migrateLatest(db: Knex): Promise<void> {
   await db.migrate.latest()
 }
 
-/** Seeds the demo workshop only when the database has no users yet, so a re-run never duplicates it. */
-export async function seedDemoIfEmpty(db: Knex): Promise<boolean> {
+/** Seeds the demo workshop only when the database has no users yet, so a re-run never duplicates it; `history` adds its half year of activity. */
+export async function seedDemoIfEmpty(db: Knex, options: { history?: boolean } = {}): Promise<boolean> {
   const row = await db('users').count<{ n: number }[]>({ n: '*' }).first()
   if (Number(row?.n ?? 0) > 0) return false
-  await seedDemo(db, hashPasswordOffline)
+  await seedDemo(db, hashPasswordOffline, options)
   return true
 }
 

@@ -12,7 +12,7 @@ const db = openDatabase()
 try {
   await migrateLatest(db)
   if (command !== 'migrate') {
-    const seeded = await seedDemoIfEmpty(db)
+    const seeded = await seedDemoIfEmpty(db, { history: true })
     console.log(seeded ? 'Demo workshop seeded.' : 'Database already has users; seed skipped (use db:reset).')
   }
   console.log(`Database ready: ${databasePath()}`)

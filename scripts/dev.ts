@@ -16,7 +16,7 @@ if (!existsSync('.env') || !readFileSync('.env', 'utf8').includes('NUXT_SESSION_
 
 const db = openDatabase()
 await migrateLatest(db)
-if (await seedDemoIfEmpty(db)) console.log('Seeded the demo workshop (password for every demo account: kerfbook-demo).')
+if (await seedDemoIfEmpty(db, { history: true })) console.log('Seeded the demo workshop (password for every demo account: kerfbook-demo).')
 await db.destroy()
 
 const sink = await startSmtpSink({ smtpPort: Number(process.env.DEV_SMTP_PORT || 1025), httpPort: Number(process.env.DEV_OUTBOX_PORT || 1080) })

@@ -1,5 +1,6 @@
 import type { Knex } from 'knex'
 import { seedDemoCatalog } from './demo-catalog'
+import { seedHistory } from './history'
 
 // The demo scenario is invented: Wrenfield Sheetworks, a community fabrication
 // workshop in the fictional river town of Wrenfield. Every name here is made up.
@@ -21,8 +22,14 @@ export const demoSettings = {
   currency: 'EUR',
 }
 
-/** Fills an empty database with the demo workshop. `hash` turns a password into a stored hash. */
-export async function seedDemo(knex: Knex, hash: (password: string) => Promise<string>): Promise<void> {
+/** About six months of invented activity, so reports, the estimate-accuracy plot and the dashboards have something to show. */
+export const DEMO_HISTORY = { jobs: 160, days: 182, members: 14, bookings: 260, seed: 20_260_601, withExistingMembers: true }
+
+/**
+ * Fills an empty database with the demo workshop. `hash` turns a password into a stored hash. With `history`, the
+ * workshop has run for half a year (npm run dev, db:seed); without, it starts empty (the tests and benchmarks).
+ */
+export async function seedDemo(knex: Knex, hash: (password: string) => Promise<string>, options: { history?: boolean } = {}): Promise<void> {
   const passwordHash = await hash(DEMO_PASSWORD)
   const verifiedAt = new Date().toISOString()
   await knex.transaction(async (trx) => {
@@ -32,4 +39,5 @@ export async function seedDemo(knex: Knex, hash: (password: string) => Promise<s
     )
     await seedDemoCatalog(trx)
   })
+  if (options.history) await seedHistory(knex, DEMO_HISTORY)
 }

@@ -20,6 +20,8 @@ export interface HistoryOptions {
   /** Bookings in all, cancelled ones included; by default five per job, as a busy workshop's abandoned holds and moves add up. */
   bookings?: number
   now?: Date
+  /** Give the members already in the database (the demo's named ones) a share of the past too; bookings ahead stay with invented members. */
+  withExistingMembers?: boolean
 }
 
 export interface HistoryCounts {
@@ -93,6 +95,8 @@ export async function seedHistory(knex: Knex, options: HistoryOptions): Promise<
       users.push({ id: userId++, email, name, password_hash: passwordHash, role: 'member', email_verified_at: joined, created_at: joined, updated_at: joined })
     }
     await insertAll(trx, 'users', users)
+    const invented = [...members]
+    if (options.withExistingMembers) members.push(...(await trx('users').where({ role: 'member' }).whereNotIn('id', invented.map((m) => m.id)).select('id', 'email', 'name')))
     await insertAll(trx, 'sign_offs', members.flatMap((m) => cutters.map((c) => ({ user_id: m.id, cutter_id: c.id, signed_off_on: DateTime.fromMillis(historyStart, { zone }).toISODate(), signed_off_by: staffId, note: 'Induction' }))))
 
     // Every opening period of the history (and two weeks ahead) tiled with slots on each cutter's grid.
@@ -193,8 +197,12 @@ export async function seedHistory(knex: Knex, options: HistoryOptions): Promise<
 
     // Booked jobs: one per taken slot, in time order.
     const bookedJobs: { job: Record<string, any>; booking: Record<string, unknown>; bookedAt: number }[] = []
+    // The last cut of all still waits to be put on the shelf, the two before it wait for their members.
+    const past = taken.filter((slot) => slot.end <= now - HOUR)
+    const lastCut = past.at(-1)
+    const waiting = new Set(past.slice(-3, -1))
     for (const slot of taken) {
-      const member = pick(members)
+      const member = pick(slot.start > now ? invented : members)
       const grid = cutters[slot.cutter]!.grid as number
       const machineMinutes = (slot.end - slot.start) / 60_000 - between(0, grid * 0.9)
       // Everything before the cut happened before now, even for a booking ahead.
@@ -231,21 +239,23 @@ export async function seedHistory(knex: Knex, options: HistoryOptions): Promise<
         if (finished < now - 2 * DAY) ledger(booking, 'charged', charge - authorised, finished + between(1, 48) * HOUR)
       }
       if (chance(0.02)) ledger(booking, 'refunded', Math.floor(Math.min(charge, authorised) / 2), finished + 3 * DAY, 'Parts re-cut on the workshop')
-      const ready = finished + between(0.5, 4) * HOUR
-      if (ready > now) continue
+      const ready = Math.min(finished + between(0.5, 4) * HOUR, now - 60_000)
+      if (slot === lastCut) continue
       Object.assign(job, { ready_at: iso(ready), pickup_location: `Shelf ${1 + Math.floor(random() * 12)}`, pickup_code: String(100_000 + Math.floor(random() * 900_000)), state: 'ready' })
       event(job.id, staffId, 'cut', 'ready', ready)
       mail(member.email, 'Your parts are ready', ready, [`${job.title} waits on ${job.pickup_location}.`])
       const collected = ready + between(2, 120) * HOUR
-      if (collected > now) continue
+      if (collected > now || waiting.has(slot)) continue
       Object.assign(job, { collected_at: iso(collected), state: 'collected' })
       event(job.id, staffId, 'ready', 'collected', collected)
     }
 
     // Jobs never booked: older ones ended as drafts left, withdrawn, turned down; recent ones wait somewhere.
-    for (let i = bookedJobs.length; i < options.jobs; i++) {
+    const unbooked = options.jobs - bookedJobs.length
+    for (let i = 0; i < unbooked; i++) {
       const member = pick(members)
-      const created = historyStart + random() * (now - historyStart - HOUR)
+      // The last few are recent, so the queues have something waiting however small the history.
+      const created = i >= unbooked - Math.max(8, unbooked * 0.02) ? now - between(1, 13 * 24) * HOUR : historyStart + random() * (now - historyStart - HOUR)
       const recent = created > now - 14 * DAY
       const roll = random()
       const changes = chance(0.1)
