@@ -97,7 +97,7 @@ export async function seedHistory(knex: Knex, options: HistoryOptions): Promise<
     await insertAll(trx, 'users', users)
     const invented = [...members]
     if (options.withExistingMembers) members.push(...(await trx('users').where({ role: 'member' }).whereNotIn('id', invented.map((m) => m.id)).select('id', 'email', 'name')))
-    await insertAll(trx, 'sign_offs', members.flatMap((m) => cutters.map((c) => ({ user_id: m.id, cutter_id: c.id, signed_off_on: DateTime.fromMillis(historyStart, { zone }).toISODate(), signed_off_by: staffId, note: 'Induction' }))))
+    await insertAll(trx, 'sign_offs', members.flatMap((m) => cutters.map((c) => ({ user_id: m.id, cutter_id: c.id, signed_off_on: DateTime.fromMillis(historyStart, { zone }).toISODate(), signed_off_by: staffId, note: 'Induction', created_at: iso(historyStart), updated_at: iso(historyStart) }))))
 
     // Every opening period of the history (and two weeks ahead) tiled with slots on each cutter's grid.
     const candidates: Slot[] = []
