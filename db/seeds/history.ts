@@ -299,7 +299,7 @@ export async function seedHistory(knex: Knex, options: HistoryOptions): Promise<
       }
     }
     // Ledger rows were made before their booking had its id.
-    const ledgerRows = rows.ledger.map(({ booking, ...row }) => ({ ...row, booking_id: (booking as Record<string, unknown>).id }))
+    const ledgerRows: Record<string, unknown>[] = rows.ledger.map(({ booking, ...row }) => ({ ...row, booking_id: (booking as Record<string, unknown>).id }))
     const byStartDescending = [...allBookings].sort((a, b) => String(b.starts_at).localeCompare(String(a.starts_at)))
     const bookingColumns = ['id', 'cutter_id', 'job_id', 'member_id', 'kind', 'starts_at', 'ends_at', 'status', 'hold_expires_at', 'note', 'ical_uid', 'ical_sequence', 'created_by', 'cancelled_at', 'cancel_reason', 'reminder_sent_at', 'estimate_minor', 'authorised_minor', 'currency', 'checkout_session_id', 'payment_intent_id', 'created_at', 'updated_at']
     const fullRow = (b: Record<string, unknown>) => Object.fromEntries(bookingColumns.map((k) => [k, b[k] ?? (k === 'note' ? '' : k === 'ical_sequence' ? 0 : null)]))

@@ -20,7 +20,7 @@ export interface JobEventView {
 export async function jobEventsPage(db: Knex, viewer: SessionUser, jobId: number, page: { limit: number; cursor?: string }): Promise<Page<JobEventView>> {
   await jobForViewer(db, viewer, jobId)
   const query = db('job_events as e').leftJoin('users as u', 'u.id', 'e.actor_id').where('e.job_id', jobId).select('e.*', 'u.name as actor_name')
-  const order = { columns: ['e.id'], direction: 'asc' as const, keyOf: (e: { id: number }) => [e.id] }
+  const order = { columns: ['e.id'], direction: 'asc' as const, keyOf: (e: Record<string, any>) => [e.id as number] }
   return mapPage(await keysetPage<Record<string, any>>(query, order, page), (events) =>
     Promise.all(
       events.map(async (e) => ({

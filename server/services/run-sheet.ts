@@ -44,7 +44,7 @@ export async function runSheet(db: Knex, cutterId: number, localDate: string): P
   const from = toUtcIso(day)
   const to = toUtcIso(day.plus({ days: 1 }))
   // A fixed number of queries however many jobs the day holds: each kind of record is read for all of them at once.
-  const bookings = await liveBookings(db('bookings as b').where({ 'b.cutter_id': cutterId, 'b.kind': 'job' }).where('b.starts_at', '>=', from).where('b.starts_at', '<', to))
+  const bookings: (JobRow & Record<string, any>)[] = await liveBookings(db('bookings as b').where({ 'b.cutter_id': cutterId, 'b.kind': 'job' }).where('b.starts_at', '>=', from).where('b.starts_at', '<', to))
     .join('jobs as j', 'j.id', 'b.job_id')
     .join('users as u', 'u.id', 'j.member_id')
     // Handed over: nothing left to do at the machine or the shelf.
@@ -63,7 +63,7 @@ export async function runSheet(db: Knex, cutterId: number, localDate: string): P
   const accepted = withWarnings.length ? (await acknowledgedGroups(db, await currentFindingGroups(db, withWarnings))).filter((g) => g.acknowledgement) : []
   const entries: RunSheetEntry[] = []
   for (const row of bookings) {
-    const job = row as JobRow & Record<string, any>
+    const job = row
     const files = filesByJob.get(job.id)!
     const material = await lookups.material(job.material_id)
     const estimate = await jobEstimate(db, job, files, lookups)
