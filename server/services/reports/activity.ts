@@ -26,6 +26,11 @@ const FINISHED_JOB_COLUMNS = ['j.id', 'j.title', 'j.member_id', 'j.cutter_id', '
  * Both halves find their rows through an index (jobs.cut_finished_at, migration 0013), never by a scan of every job.
  */
 export function finishedJobs(db: Knex, range: ReportRange): Promise<FinishedJob[]> {
+  return db.from(finishedJobsQuery(db, range).as('f')).orderBy(['finished_at', 'id']).select('*')
+}
+
+/** The same jobs as a subquery, for reports that sum them in the database. */
+export function finishedJobsQuery(db: Knex, range: ReportRange): Knex.QueryBuilder {
   const recorded = db('jobs as j').whereNotNull('j.actual_minutes').where('j.cut_finished_at', '>=', range.fromIso).where('j.cut_finished_at', '<', range.toIso).select(...FINISHED_JOB_COLUMNS, 'j.cut_finished_at as finished_at')
   const lastCut = db('job_events as e').whereRaw('e.job_id = j.id').where('e.to_state', 'cut').max('e.created_at')
   const older = db.from(db('jobs as j').whereNotNull('j.actual_minutes').whereNull('j.cut_finished_at').select(...FINISHED_JOB_COLUMNS, lastCut.as('finished_at')).as('o')).where('finished_at', '>=', range.fromIso).where('finished_at', '<', range.toIso).select('*')
@@ -33,7 +38,7 @@ export function finishedJobs(db: Knex, range: ReportRange): Promise<FinishedJob[
     recorded.where('j.cutter_id', range.cutterId)
     older.where('cutter_id', range.cutterId)
   }
-  return db.from(recorded.unionAll(older).as('f')).orderBy(['finished_at', 'id']).select('*')
+  return recorded.unionAll(older)
 }
 
 export interface JobBooking {
