@@ -32,6 +32,29 @@ BEGIN
   ON CONFLICT (cutter_id) DO UPDATE SET longest_s = max(longest_s, excluded.longest_s);
 END;`
 
+// A booking's payment state as a column, so the payments list filters by it through an index instead of summing
+// the whole ledger per request. Kept by triggers on the ledger; the rule is payments.ts `paymentStateOf`, frozen
+// here as this migration writes it (tests/unit/history/volume.test.ts checks the two agree).
+const sumOf = (kinds: string[]) => `coalesce(sum(case when l.kind in (${kinds.map((k) => `'${k}'`).join(', ')}) then l.amount_minor else 0 end), 0)`
+const paymentStateOf = (bookingId: string) => `(SELECT CASE
+    WHEN s.owed > s.charged THEN 'balance-due'
+    WHEN s.refunded > 0 THEN (CASE WHEN s.refunded >= s.captured THEN 'refunded' ELSE 'partly-refunded' END)
+    WHEN s.captured > 0 THEN 'captured'
+    WHEN s.releases > 0 THEN 'released'
+    WHEN s.authorised > 0 THEN 'authorised'
+    ELSE 'awaiting' END
+  FROM (SELECT ${sumOf(['authorised'])} AS authorised, ${sumOf(['captured', 'fee', 'charged'])} AS captured, ${sumOf(['refunded'])} AS refunded,
+    ${sumOf(['owed'])} AS owed, ${sumOf(['charged'])} AS charged, coalesce(sum(case when l.kind = 'released' then 1 else 0 end), 0) AS releases
+    FROM payment_ledger l WHERE l.booking_id = ${bookingId}) s)`
+const stateKeeper = (event: 'INSERT' | 'UPDATE' | 'DELETE') => {
+  const row = event === 'DELETE' ? 'OLD' : 'NEW'
+  return `
+CREATE TRIGGER payment_ledger_state_${event.toLowerCase()} AFTER ${event} ON payment_ledger WHEN ${row}.booking_id IS NOT NULL
+BEGIN
+  UPDATE bookings SET payment_state = ${paymentStateOf(`${row}.booking_id`)} WHERE id = ${row}.booking_id;
+END;`
+}
+
 export async function up(knex: Knex): Promise<void> {
   await knex.schema.alterTable('payment_ledger', (t) => t.index(['created_at']))
   await knex.schema.alterTable('bookings', (t) => t.index(['starts_at']))
@@ -48,9 +71,18 @@ export async function up(knex: Knex): Promise<void> {
     await knex.raw(`DROP TRIGGER IF EXISTS bookings_no_overlap_${event.toLowerCase()}`)
     await knex.raw(overlapGuard(event, true))
   }
+  await knex.schema.alterTable('bookings', (t) => {
+    t.string('payment_state').notNullable().defaultTo('awaiting')
+    t.index(['payment_state', 'starts_at'])
+  })
+  await knex.raw(`UPDATE bookings SET payment_state = ${paymentStateOf('bookings.id')} WHERE id IN (SELECT booking_id FROM payment_ledger)`)
+  for (const event of ['INSERT', 'UPDATE', 'DELETE'] as const) await knex.raw(stateKeeper(event))
 }
 
 export async function down(knex: Knex): Promise<void> {
+  for (const event of ['INSERT', 'UPDATE', 'DELETE'] as const) await knex.raw(`DROP TRIGGER IF EXISTS payment_ledger_state_${event.toLowerCase()}`)
+  await knex.schema.alterTable('bookings', (t) => t.dropIndex(['payment_state', 'starts_at']))
+  await knex.schema.alterTable('bookings', (t) => t.dropColumn('payment_state'))
   for (const event of ['INSERT', 'UPDATE'] as const) {
     await knex.raw(`DROP TRIGGER IF EXISTS bookings_no_overlap_${event.toLowerCase()}`)
     await knex.raw(overlapGuard(event, false))
