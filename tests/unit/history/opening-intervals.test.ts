@@ -37,7 +37,7 @@ describe('opening intervals', () => {
       }),
       { numRuns: 150 },
     )
-  })
+  }, 60_000)
 
   it('match across the night the clocks go back and forward, with hours inside the changed hour', () => {
     const periods = [1, 2, 3, 4, 5, 6, 7].flatMap((weekday) => [{ weekday, opensAt: '00:30', closesAt: '03:15' }, { weekday, opensAt: '09:00', closesAt: '17:00' }])
@@ -45,5 +45,5 @@ describe('opening intervals', () => {
       expect(openingIntervals(periods, zone, '2026-03-20T00:00:00.000Z', '2026-04-10T00:00:00.000Z')).toEqual(reference(periods, zone, '2026-03-20T00:00:00.000Z', '2026-04-10T00:00:00.000Z'))
       expect(openingIntervals(periods, zone, '2026-09-20T00:00:00.000Z', '2026-11-10T00:00:00.000Z')).toEqual(reference(periods, zone, '2026-09-20T00:00:00.000Z', '2026-11-10T00:00:00.000Z'))
     }
-  })
+  }, 60_000)
 })

@@ -21,7 +21,7 @@ beforeAll(async () => {
   ;({ db, close } = await demoDatabase())
   staff.id = (await db('users').where({ email: 'staff@example.test' }).first('id')).id
   await seedHistory(db, { jobs: 300, days: 120, seed: 11, bookings: 700, now: new Date('2026-11-20T12:00:00Z') })
-})
+}, 120_000)
 
 afterAll(() => close())
 
@@ -65,7 +65,7 @@ describe('paged lists while rows are added', () => {
     jobId = (await db('job_events').groupBy('job_id').orderByRaw('count(*) desc').first('job_id')).job_id
   })
 
-  it('every job (staff), oldest waiting first and newest first', async () => {
+  it('every job (staff), oldest waiting first and newest first', { timeout: 120_000 }, async () => {
     const before = (await listJobs(db, staff, { scope: 'all' })).map((j) => j.id)
     expect(before.length).toBeGreaterThanOrEqual(300)
     expectOnceEach(await readAll((cursor) => listJobsPage(db, staff, { scope: 'all' }, { limit: 37, cursor }), (j) => j.id, jobId), before)
@@ -73,13 +73,13 @@ describe('paged lists while rows are added', () => {
     expectOnceEach(await readAll((cursor) => listJobsPage(db, staff, { scope: 'all', order: 'newest' }, { limit: 41, cursor }), (j) => j.id, jobId), now)
   })
 
-  it('the review queue', async () => {
+  it('the review queue', { timeout: 120_000 }, async () => {
     const before = (await listJobs(db, staff, { scope: 'all', state: 'submitted' })).map((j) => j.id)
     expect(before.length).toBeGreaterThan(3)
     expectOnceEach(await readAll((cursor) => listJobsPage(db, staff, { scope: 'all', state: 'submitted' }, { limit: 2, cursor }), (j) => j.id, jobId), before)
   })
 
-  it('payments, every one and one state', async () => {
+  it('payments, every one and one state', { timeout: 120_000 }, async () => {
     const before = (await listPayments(db, {})).map((p) => p.bookingId)
     expect(before.length).toBeGreaterThan(500)
     expectOnceEach(await readAll((cursor) => listPaymentsPage(db, {}, { limit: 50, cursor }), (p) => p.bookingId, jobId), before)
@@ -88,29 +88,29 @@ describe('paged lists while rows are added', () => {
     expectOnceEach(await readAll((cursor) => listPaymentsPage(db, { state: 'captured' }, { limit: 9, cursor }), (p) => p.bookingId, jobId), captured)
   })
 
-  it('a member’s own payments', async () => {
+  it('a member’s own payments', { timeout: 120_000 }, async () => {
     const memberId = (await db('bookings').whereNotNull('checkout_session_id').groupBy('member_id').orderByRaw('count(*) desc').first('member_id')).member_id
     const before = (await listPayments(db, { memberId })).map((p) => p.bookingId)
     expectOnceEach(await readAll((cursor) => listPaymentsPage(db, { memberId }, { limit: 4, cursor }), (p) => p.bookingId, jobId), before)
   })
 
-  it('members by name', async () => {
+  it('members by name', { timeout: 120_000 }, async () => {
     const before = (await listUsers(db, { role: 'member' })).map((u) => u.id)
     expectOnceEach(await readAll((cursor) => listUsersPage(db, { role: 'member' }, { limit: 3, cursor }), (u) => u.id, jobId), before)
   })
 
-  it('undelivered mail, newest first', async () => {
+  it('undelivered mail, newest first', { timeout: 120_000 }, async () => {
     const before = (await undeliveredMail(db)).map((m) => m.id)
     expect(before.length).toBeGreaterThan(2)
     expectOnceEach(await readAll((cursor) => undeliveredMailPage(db, { limit: 2, cursor }), (m) => m.id, jobId), before)
   })
 
-  it('a job’s history', async () => {
+  it('a job’s history', { timeout: 120_000 }, async () => {
     const before = (await db('job_events').where({ job_id: jobId }).pluck('id')) as number[]
     expectOnceEach(await readAll((cursor) => jobEventsPage(db, staff, jobId, { limit: 2, cursor }), (e) => e.id, jobId), before)
   })
 
-  it('refuses a damaged cursor with a sentence, not a server error', async () => {
+  it('refuses a damaged cursor with a sentence, not a server error', { timeout: 120_000 }, async () => {
     await expect(listJobsPage(db, staff, { scope: 'all' }, { limit: 5, cursor: 'bm90LWpzb24' })).rejects.toThrow('This page link is damaged')
   })
 })

@@ -2,9 +2,12 @@
 // workshop's zone (Europe/Dublin: IST = UTC+1 until 01:00 UTC on Sunday 25 October 2026, then GMT = UTC). Every
 // expected figure is worked out in the comments from the rows inserted here, not taken from the code under test.
 import type { Knex } from 'knex'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest'
 import { REPORTS, resolveRange } from '../../../server/services/reports/index'
 import { demoDatabase } from './database'
+
+// Databases of a busy history take seconds to write on a shared machine.
+vi.setConfig({ testTimeout: 120_000, hookTimeout: 120_000 })
 
 let db: Knex
 let close: () => Promise<void>

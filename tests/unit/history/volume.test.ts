@@ -2,13 +2,16 @@
 // one rule in payments.ts, the run sheet's query count, the lower bound on a cutter's bookings, the generator's repeatability.
 import fc from 'fast-check'
 import type { Knex } from 'knex'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest'
 import { seedHistory } from '../../../db/seeds/history'
 import { listBookings } from '../../../server/services/bookings'
 import { listPayments, listPaymentsPage, paymentTotals } from '../../../server/services/payment-list'
 import { paymentStateOf, type LedgerKind } from '../../../server/services/payments'
 import { runSheet } from '../../../server/services/run-sheet'
 import { demoDatabase } from './database'
+
+// Databases of a busy history take seconds to write on a shared machine.
+vi.setConfig({ testTimeout: 120_000, hookTimeout: 120_000 })
 
 const NOW = new Date('2026-11-20T12:00:00Z')
 
