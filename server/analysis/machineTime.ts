@@ -1,5 +1,5 @@
 import { cutNesting } from './containment'
-import { PolylinePlanner, restToRestTimeS } from './motion'
+import { PolylineTimer, restToRestTimeS } from './motion'
 import type { AnalysisParams } from './params'
 import { OPERATION_CODES, type PolylineSet } from './polylines'
 import { planTour, type TourStops, tourTravel } from './tour'
@@ -79,23 +79,23 @@ function appendRunOrder(runOrder: Int32Array, written: number, order: Int32Array
 
 /** Cut and score time of each contour at its operation's speed, summed in id order, and the number of cuts (one pierce each). */
 function contourRunTimes(contours: PolylineSet, params: AnalysisParams): { cutS: number; scoreS: number; cutCount: number } {
-  const planner = new PolylinePlanner()
+  const timer = new PolylineTimer()
   let cutS = 0
   let scoreS = 0
   let cutCount = 0
   for (let id = 0; id < contours.count; id++) {
     const operation = contours.operation[id]
     if (operation === OPERATION_CODES.cut) {
-      cutS += runTimeS(planner, contours, id, params.cutSpeedMmPerMin, params)
+      cutS += runTimeS(timer, contours, id, params.cutSpeedMmPerMin, params)
       cutCount++
     }
-    if (operation === OPERATION_CODES.score) scoreS += runTimeS(planner, contours, id, params.scoreSpeedMmPerMin, params)
+    if (operation === OPERATION_CODES.score) scoreS += runTimeS(timer, contours, id, params.scoreSpeedMmPerMin, params)
   }
   return { cutS, scoreS, cutCount }
 }
 
-function runTimeS(planner: PolylinePlanner, contours: PolylineSet, id: number, speedMmPerMin: number, params: AnalysisParams): number {
-  return planner.timeS(contours.xy, contours.start[id], contours.start[id + 1], speedMmPerMin / 60, params.accelMmPerS2, params.junctionDeviationMm)
+function runTimeS(timer: PolylineTimer, contours: PolylineSet, id: number, speedMmPerMin: number, params: AnalysisParams): number {
+  return timer.timeS(contours.xy, contours.start[id], contours.start[id + 1], speedMmPerMin / 60, params.accelMmPerS2, params.junctionDeviationMm)
 }
 
 interface TourLevels {
