@@ -1,6 +1,5 @@
 import type { AnalysisParams } from '../params'
 import type { PolylineSet } from '../polylines'
-import { hypot } from '../distance'
 import { grownArray } from '../growArray'
 import { bridgeReachMm, type ChunkNeighbours, type CutSegments, cutSegmentsOf, grownBox } from './cutSegments'
 import type { CheckGeometry } from './index'
@@ -237,8 +236,8 @@ function addRepeat(xy: Float64Array, firstPoint: Uint32Array, earlier: number, l
   const cross = (bx - ax) * (dy - cy) - (by - ay) * (dx - cx)
   // Most pairs that get here are neighbours meeting at an angle: clearly not parallel by squares, before the two roots.
   if (cross * cross > PARALLEL_SINE_SQUARED_CLEARLY * ((bx - ax) ** 2 + (by - ay) ** 2) * ((dx - cx) ** 2 + (dy - cy) ** 2)) return false
-  const earlierLength = hypot(bx - ax, by - ay)
-  const laterLength = hypot(dx - cx, dy - cy)
+  const earlierLength = Math.hypot(bx - ax, by - ay)
+  const laterLength = Math.hypot(dx - cx, dy - cy)
   if (earlierLength === 0 || laterLength === 0) return false
   const sine = Math.abs(cross) / (earlierLength * laterLength)
   if (sine > PARALLEL_SINE) return false
