@@ -2,7 +2,7 @@ import { Bezier } from 'bezier-js'
 import fc from 'fast-check'
 import { describe, expect, it } from 'vitest'
 import { arcLengthMm, cubicLengthMm, quadraticLengthMm } from '../../server/analysis/curveLength'
-import { ramanujanPerimeter } from './helpers'
+import { PROPERTY_TIMEOUT_MS, ramanujanPerimeter } from './helpers'
 
 /**
  * Closed form for a cubic whose control points lie on one line (values v0…v3 along it): the curve runs to and fro
@@ -71,7 +71,7 @@ describe('curve length', () => {
       }),
       { numRuns: 400 },
     )
-  })
+  }, PROPERTY_TIMEOUT_MS)
 
   // Seed 582422631's counterexample of the old method, a 1-D cusp too.
   it('measures the shrunk counterexample (0,0)(84.09,0)(3.19,0)(0,0) as its closed form', () => {
@@ -89,7 +89,7 @@ describe('curve length', () => {
       }),
       { numRuns: 400 },
     )
-  })
+  }, PROPERTY_TIMEOUT_MS)
 
   // Independent package: bezier-js 6.1.4 measures with its own 24-point Legendre–Gauss rule, accurate on smooth curves (no cusp).
   it.each([
@@ -123,7 +123,7 @@ describe('curve length', () => {
       ),
       { numRuns: 400 },
     )
-  })
+  }, PROPERTY_TIMEOUT_MS)
 
   it('follows the SVG arc rules for zero radii, radii too small and an arc that ends where it starts', () => {
     // SVG 1.1 F.6.2: a zero radius is a straight line; F.6.6: radii too small grow to a half ellipse through both ends.

@@ -1,7 +1,7 @@
 import { Bezier } from 'bezier-js'
 import fc from 'fast-check'
 import { describe, expect, it } from 'vitest'
-import { analyze, CUT, cutPath, mmDocument, ramanujanPerimeter } from './helpers'
+import { analyze, CUT, cutPath, mmDocument, PROPERTY_TIMEOUT_MS, ramanujanPerimeter } from './helpers'
 
 describe('lengths and areas against closed forms', () => {
   // Circumference 2πr (Euclid/Archimedes closed form).
@@ -52,7 +52,7 @@ describe('lengths and areas against closed forms', () => {
       }),
       { numRuns: 60 },
     )
-  })
+  }, PROPERTY_TIMEOUT_MS)
 
   // SVG 1.1 §11.3 fill rules: with evenodd an inner square drawn the same way round is a hole; with nonzero it is filled over.
   it('subtracts holes by fill rule', () => {

@@ -1,6 +1,7 @@
 import fc from 'fast-check'
 import { describe, expect, it } from 'vitest'
 import { planTour, type TourStops, tourTravel } from '../../server/analysis/tour'
+import { PROPERTY_TIMEOUT_MS } from './helpers'
 
 // The reference is an exhaustive nearest-neighbour search (every remaining end tried at every step), ties to the lower end id as documented.
 function exhaustiveNearestNeighbourTravel(stops: TourStops, count: number, startX: number, startY: number): number {
@@ -50,7 +51,7 @@ describe('tour', () => {
       }),
       { numRuns: 300 },
     )
-  })
+  }, PROPERTY_TIMEOUT_MS)
 
   // Holes on a square grid of pitch d, started from a corner hole: every move joins two different holes, so no tour
   // is shorter than (n − 1)·d, and a serpentine row by row reaches that. The tour must stay within 10 % of it
