@@ -1,0 +1,110 @@
+// The overview each role lands on, and a cutter going out of service as staff and a member see it, in a real browser.
+import { DateTime } from 'luxon'
+import { describe, expect, inject } from 'vitest'
+import { payCheckout, waitForPaymentState } from '../api/payment-helpers'
+import { bookingBench } from '../api/workshop-setup'
+import { BrowserSession, browserTest, checkAccessibility, screenshot, signInThroughForm } from './browser'
+
+/** A second browser for the staff, checked for problems like the member's own. */
+const deskTest = browserTest.extend<{ staff: BrowserSession }>({
+  staff: async ({}, use) => {
+    const staff = await BrowserSession.launch()
+    try {
+      await use(staff)
+      expect(staff.unexpectedProblems(), 'console errors or failed requests in the staff browser').toEqual([])
+    } finally {
+      await staff.close()
+    }
+  },
+})
+
+describe('the overview per role in the browser', () => {
+  browserTest('a member sees open jobs with what each waits for; staff and admin see the desk', async ({ browser }) => {
+    const bench = await bookingBench()
+    const title = `Overview bracket ${Date.now()}`
+    await bench.approvedJob(title)
+    const cutterName = (await bench.staff.get(`/api/catalog/cutters/${bench.cutterId}`)).body.name as string
+    const { page } = browser
+
+    await signInThroughForm(browser, 'member@example.test')
+    await browser.open('/')
+    await page.getByRole('heading', { name: 'Hello, Juno' }).waitFor()
+    const jobRow = page.getByRole('listitem').filter({ hasText: title })
+    await expect.poll(() => jobRow.textContent()).toMatch(/Waiting for you:\s*Book a time on Bench laser/)
+    expect(await jobRow.getByRole('link', { name: 'Book a time' }).getAttribute('href')).toMatch(/^\/calendar\?job=\d+$/)
+    for (const card of ['Next booking', 'Ready to collect', 'Balance owed', 'Your open jobs']) await page.getByRole('heading', { name: card }).waitFor()
+    await checkAccessibility(page)
+    await screenshot(page, 'home-member')
+
+    // Phone width: the cards stack and nothing runs off the side.
+    await page.setViewportSize({ width: 390, height: 844 })
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390)
+    await screenshot(page, 'home-member-phone')
+    await page.setViewportSize({ width: 1280, height: 800 })
+
+    await page.getByRole('button', { name: 'Sign out', exact: true }).click()
+    await page.waitForURL('**/sign-in')
+    await signInThroughForm(browser, 'staff@example.test')
+    await browser.open('/')
+    for (const card of ['Cutters out of service', 'Review queue', 'Waiting for pickup', /^Today's run sheet/]) await page.getByRole('heading', { name: card }).waitFor()
+    await page.getByRole('region', { name: `Today on ${cutterName}` }).getByText('Nothing booked today.').waitFor()
+    expect(await page.getByRole('heading', { name: /^This week/ }).count(), 'the week is the admin’s').toBe(0)
+    await checkAccessibility(page)
+    await screenshot(page, 'home-staff')
+
+    await page.getByRole('button', { name: 'Sign out', exact: true }).click()
+    await page.waitForURL('**/sign-in')
+    await signInThroughForm(browser, 'admin@example.test')
+    await browser.open('/')
+    await page.getByRole('heading', { name: /^This week/ }).waitFor()
+    await page.getByRole('table', { name: 'Utilisation per cutter this week' }).getByRole('rowheader', { name: cutterName }).waitFor()
+    await checkAccessibility(page)
+    await screenshot(page, 'home-admin')
+  })
+
+  deskTest('staff mark a cutter out of service; the member finds the booking called off and books a new time', { timeout: 90_000 }, async ({ browser: member, staff }) => {
+    const bench = await bookingBench()
+    const cutterName = (await bench.staff.get(`/api/catalog/cutters/${bench.cutterId}`)).body.name as string
+    const title = `Fence brackets ${Date.now()}`
+    const jobId = await bench.approvedJob(title)
+    const booked = await bench.member.post('/api/bookings', { jobId, cutterId: bench.cutterId, start: bench.at(5, '09:00') })
+    expect(booked.status).toBe(201)
+    await payCheckout(booked.body.checkoutUrl)
+    await waitForPaymentState(bench.member, booked.body.id, 'authorised')
+    const local = (days: number, clock: string) => DateTime.fromISO(bench.at(days, clock)).setZone(bench.zone).toFormat("yyyy-MM-dd'T'HH:mm")
+
+    await signInThroughForm(staff, 'staff@example.test')
+    await staff.open('/')
+    const { page } = staff
+    await page.getByLabel('Cutter').selectOption({ label: cutterName })
+    await page.getByLabel('Reason').fill('Mirror mount cracked')
+    await page.getByLabel('Out of service from').fill(local(5, '08:00'))
+    await page.getByLabel('Expected back').fill(local(6, '20:00'))
+    await page.getByRole('button', { name: 'Mark out of service' }).click()
+    const dialog = page.getByRole('dialog')
+    await dialog.getByText('Every booking on').waitFor()
+    await checkAccessibility(page)
+    await dialog.getByRole('button', { name: 'Mark out of service and tell the members' }).click()
+    const done = page.getByRole('status').filter({ hasText: 'Marked out of service' })
+    await expect.poll(() => done.textContent()).toMatch(new RegExp(`Juno Castellane · ${title} · .* · hold released`))
+    await page.getByRole('listitem').filter({ hasText: `${cutterName}: Mirror mount cracked` }).getByText('1 booking called off').waitFor()
+    await screenshot(page, 'home-staff-outage')
+
+    await signInThroughForm(member, 'member@example.test')
+    await member.open('/')
+    const notice = member.page.getByRole('status').filter({ hasText: `${cutterName} is out of service: your booking is called off` })
+    await expect.poll(() => notice.textContent()).toContain('Mirror mount cracked')
+    const offers = notice.getByRole('list', { name: `Free times for ${title}` }).getByRole('button')
+    await offers.first().waitFor()
+    await checkAccessibility(member.page)
+    await screenshot(member.page, 'home-member-called-off')
+
+    const checkoutOrigin = new URL(inject('stripeFakeUrl')).origin
+    // The stand-in card page serves no icon; the browser asks for one anyway.
+    member.expectFailedResponse(404, new RegExp(`^${checkoutOrigin.replaceAll('.', '\\.')}/favicon\\.ico$`))
+    await offers.first().click()
+    await member.page.waitForURL((url) => url.origin === checkoutOrigin)
+    const job = (await bench.member.get(`/api/jobs/${jobId}`)).body
+    expect(job.state).toBe('booked')
+  })
+})
