@@ -151,8 +151,10 @@ export interface CutterWeek {
 
 export interface AdminHome extends StaffHome {
   week: {
+    /** Local dates: Monday, the next Monday (exclusive), and the Sunday between. */
     from: string
     to: string
+    lastDay: string
     revenue: { currency: string; revenueMinor: number }[]
     utilisation: CutterWeek[]
     total: { openMinutes: number; bookedMinutes: number; bookedPercent: number | null }
@@ -191,6 +193,7 @@ export async function adminHome(db: Knex, now = new Date().toISOString()): Promi
     week: {
       from: range.from,
       to: range.to,
+      lastDay: monday.plus({ days: 6 }).toISODate()!,
       revenue: [...revenue].map(([currency, revenueMinor]) => ({ currency, revenueMinor })),
       utilisation,
       total: { openMinutes, bookedMinutes, bookedPercent: percent(bookedMinutes, openMinutes) },

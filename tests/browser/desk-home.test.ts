@@ -76,6 +76,7 @@ describe('the overview per role in the browser', () => {
     await signInThroughForm(staff, 'staff@example.test')
     await staff.open('/')
     const { page } = staff
+    await page.getByRole('button', { name: 'Mark a cutter out of service…' }).click()
     await page.getByLabel('Cutter').selectOption({ label: cutterName })
     await page.getByLabel('Reason').fill('Mirror mount cracked')
     await page.getByLabel('Out of service from').fill(local(5, '08:00'))
