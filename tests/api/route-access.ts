@@ -317,6 +317,8 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   // The code exists only while the parts wait, and only the owner ever reads it; staff ask the member.
   'GET /api/jobs/:id/pickup': { policy: { anonymous: 401, member: 404, otherMember: 404, staff: 404, admin: 404 }, params: job },
   'POST /api/pickups/collect': { policy: staffOnly() },
+  'GET /api/me/units': { policy: signedInOnly() },
+  'PATCH /api/me/units': { policy: signedInOnly('passes') },
   'GET /api/home/member': { policy: signedInOnly() },
   'GET /api/home/staff': { policy: staffOnly('ok') },
   'GET /api/home/admin': { policy: adminOnly('ok') },

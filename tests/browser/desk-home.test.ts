@@ -1,22 +1,11 @@
 // The overview each role lands on, and a cutter going out of service as staff and a member see it, in a real browser.
 import { DateTime } from 'luxon'
 import { describe, expect, inject } from 'vitest'
+import { client, DEMO_PASSWORD, linkToken, uniqueEmail, waitForMail } from '../api/helpers'
 import { payCheckout, waitForPaymentState } from '../api/payment-helpers'
 import { bookingBench } from '../api/workshop-setup'
-import { BrowserSession, browserTest, checkAccessibility, screenshot, signInThroughForm } from './browser'
+import { browserTest, browserTestWithStaff, checkAccessibility, screenshot, signInThroughForm } from './browser'
 
-/** A second browser for the staff, checked for problems like the member's own. */
-const deskTest = browserTest.extend<{ staff: BrowserSession }>({
-  staff: async ({}, use) => {
-    const staff = await BrowserSession.launch()
-    try {
-      await use(staff)
-      expect(staff.unexpectedProblems(), 'console errors or failed requests in the staff browser').toEqual([])
-    } finally {
-      await staff.close()
-    }
-  },
-})
 
 describe('the overview per role in the browser', () => {
   browserTest('a member sees open jobs with what each waits for; staff and admin see the desk', async ({ browser }) => {
@@ -62,7 +51,7 @@ describe('the overview per role in the browser', () => {
     await screenshot(page, 'home-admin')
   })
 
-  deskTest('staff mark a cutter out of service; the member finds the booking called off and books a new time', { timeout: 90_000 }, async ({ browser: member, staff }) => {
+  browserTestWithStaff('staff mark a cutter out of service; the member finds the booking called off and books a new time', { timeout: 90_000 }, async ({ browser: member, staff }) => {
     const bench = await bookingBench()
     const cutterName = (await bench.staff.get(`/api/catalog/cutters/${bench.cutterId}`)).body.name as string
     const title = `Fence brackets ${Date.now()}`
@@ -107,5 +96,31 @@ describe('the overview per role in the browser', () => {
     await member.page.waitForURL((url) => url.origin === checkoutOrigin)
     const job = (await bench.member.get(`/api/jobs/${jobId}`)).body
     expect(job.state).toBe('booked')
+  })
+
+  browserTest('a member chooses inches on the account page and reads lengths in inches', async ({ browser }) => {
+    const email = uniqueEmail('inches')
+    await client().post('/api/auth/sign-up', { name: 'Hollis Varga', email, password: DEMO_PASSWORD })
+    expect((await client().post('/api/auth/verify', { token: linkToken(await waitForMail(email, /Confirm your e-mail/), '/verify') })).status).toBe(200)
+    const { page } = browser
+    await signInThroughForm(browser, email)
+    await browser.open('/catalog')
+    const birch = page.getByRole('row').filter({ hasText: 'Birch plywood' }).first()
+    await expect.poll(() => birch.textContent()).toContain('3 mm')
+
+    await browser.open('/account')
+    await page.getByLabel('Show lengths and areas in').selectOption({ label: 'Inches (in)' })
+    await page.getByRole('button', { name: 'Save units' }).click()
+    // 3 mm ÷ 25.4 mm per inch (NIST SP 811, B.8) = 0.118 in.
+    await page.getByText('Saved: a 3 mm sheet now reads 0.118 in.').waitFor()
+    await checkAccessibility(page)
+
+    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'What can I cut' }).click()
+    await page.waitForURL('**/catalog')
+    await expect.poll(() => birch.textContent()).toContain('0.118 in')
+    // Opened by its address the page is drawn on the server, in the same unit.
+    await browser.open('/catalog')
+    await expect.poll(() => birch.textContent()).toContain('0.118 in')
+    await screenshot(page, 'catalog-in-inches')
   })
 })
