@@ -96,7 +96,7 @@ export function readSvgDocument(root: XmlNode, params: AnalysisParams, findings:
     } else if (!style.visible) {
       continue
     } else if (SHAPES.has(node.name)) {
-      const pathData = shapeToPathData(node)
+      const pathData = shapeToPathData(node, viewport)
       if (pathData) paintShape(pathData, matrix, style)
     } else if (node.name === 'text') {
       addElementSite(findings.group({ code: 'text-not-outlined', severity: 'warning', facts: { format: 'svg' } }), node, matrix)
