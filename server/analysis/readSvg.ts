@@ -66,6 +66,8 @@ export function readSvgDocument(root: XmlNode, params: AnalysisParams, findings:
     for (let index = node.children.length - 1; index >= 0; index--) stack.push({ node: node.children[index], parentMatrix: matrix, parentStyle: style, useDepth, viewport })
   }
   const rootStyle = computeStyle(root, INITIAL_STYLE, styleSheet)
+  // SVG 1.1 §11.5: display none on an element, the root included, renders neither it nor anything in it.
+  if (rootStyle.displayNone) return { elements }
   pushChildren(root, multiply(rootMatrix(root.attributes, params.dpi), parseTransform(root.attributes.transform)), rootStyle, 0, rootViewportSize(root.attributes, params.dpi))
   let rendered = 0
 
