@@ -3,7 +3,7 @@ import { AnalysisInputError } from '../errors'
 import type { FindingCollector, GroupSpec, SiteList } from '../findings'
 import { applyX, applyY, IDENTITY, type Matrix, multiply, scaling, translation } from '../matrix'
 import type { AnalysisParams } from '../params'
-import type { DrawnElement, ReadDrawing } from '../readSvg'
+import { type DrawnElement, type ReadDrawing, strokeOperation } from '../readSvg'
 import { entityPathData } from './entityPaths'
 import { DxfLayers, effectiveLayer, entityColour } from './layers'
 import { colourHex, DxfOperationMapper } from './operationMapping'
@@ -110,7 +110,8 @@ export function readDxfDocument(dxf: IDxf, params: AnalysisParams, findings: Fin
     const operation = mapper.operationFor(layerName, colour)
     if (operation === undefined) reportUnmapped(layerName, colour, ...at(firstPointOf(entity)))
     const effective = operation ?? params.unmappedStrokeOperation
-    if (effective !== 'ignore') elements.push({ pathData: drawn.pathData, matrix: mirrored ? multiply(matrix, scaling(-1, 1)) : matrix, operation: effective, filled: false, fillRule: 'nonzero' })
+    // DXF lines are strokes: the engrave layer or colour marks them along the line (strokeOperation), closed or open.
+    if (effective !== 'ignore') elements.push({ pathData: drawn.pathData, matrix: mirrored ? multiply(matrix, scaling(-1, 1)) : matrix, operation: strokeOperation(effective), filled: false, fillRule: 'nonzero' })
   }
   return { elements }
 
