@@ -24,7 +24,8 @@ const plate = `<svg xmlns="http://www.w3.org/2000/svg" width="60mm" height="40mm
 <circle cx="30" cy="20" r="2.5" fill="none" stroke="#ff6a00"/>
 <path d="M10 10H20" fill="none" stroke="#7a3cff"/></svg>`
 
-describe('npm run analyze', () => {
+// Each case starts tsx (a second or two, more on a busy machine): a generous timeout, not a speed goal.
+describe('npm run analyze', { timeout: 60_000 }, () => {
   it('reads the README demo colours with the default profile: cut and score, no unknown colour', () => {
     const result = analyseFile('plate.svg', plate)
     expect(codes(result)).not.toContain('unmapped-colour')
