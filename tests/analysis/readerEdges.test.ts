@@ -42,6 +42,14 @@ describe('tilted geometry in DXF', () => {
     expect(groupOf(result, 'dxf-not-planar')).toMatchObject({ count: 1 })
   })
 
+  it('reports a LINE whose ends differ in Z, and cuts one at a constant height', () => {
+    const tilted: Group[] = [[0, 'LINE'], [8, '0'], [10, 0], [20, 0], [30, 0], [11, 10], [21, 0], [31, 10]]
+    const flat: Group[] = [[0, 'LINE'], [8, '0'], [10, 0], [20, 5], [30, 3], [11, 10], [21, 5], [31, 3]]
+    const result = analyseDxf([...tilted, ...flat])
+    expect(result.cut.lengthMm).toBeCloseTo(10, 9)
+    expect(groupOf(result, 'dxf-not-planar')).toMatchObject({ count: 1 })
+  })
+
   it('cuts a 3D POLYLINE lying flat at any one height', () => {
     const result = analyseDxf(polyline3d([[0, 0, 7], [10, 0, 7], [10, 10, 7]]))
     expect(result.cut.lengthMm).toBeCloseTo(20, 9)
