@@ -71,9 +71,10 @@ function readAsSvg(root: XmlNode): void {
         const prefix = name.slice('xmlns:'.length)
         const isSvg = node.attributes[name] === SVG_NAMESPACE
         if (isSvg !== svgPrefixes.has(prefix)) {
-          svgPrefixes = new Set(svgPrefixes)
-          if (isSvg) svgPrefixes.add(prefix)
-          else svgPrefixes.delete(prefix)
+          const changed = new Set(svgPrefixes)
+          if (isSvg) changed.add(prefix)
+          else changed.delete(prefix)
+          svgPrefixes = changed
         }
       }
     }
@@ -88,9 +89,9 @@ const REFERENCE_PATTERN = /&(?:#x([0-9a-fA-F]+)|#([0-9]+)|(lt|gt|amp|quot|apos))
 
 /** Character references and the five predefined entities replaced; anything else (an undeclared entity) is left as written. */
 function withReferencesReplaced(value: string): string {
-  return value.replace(REFERENCE_PATTERN, (reference, hex: string | undefined, decimal: string | undefined, entity: string | undefined) => {
-    if (entity) return PREDEFINED_ENTITIES[entity]
-    const codePoint = hex ? Number.parseInt(hex, 16) : Number.parseInt(decimal!, 10)
+  return value.replace(REFERENCE_PATTERN, (reference: string, hex?: string, decimal?: string, entity?: string): string => {
+    if (entity) return PREDEFINED_ENTITIES[entity] ?? reference
+    const codePoint = hex ? Number.parseInt(hex, 16) : Number.parseInt(decimal ?? '', 10)
     return codePoint > 0 && codePoint <= 0x10ffff ? String.fromCodePoint(codePoint) : reference
   })
 }
