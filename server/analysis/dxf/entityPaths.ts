@@ -83,7 +83,7 @@ function drawVertices(vertices: ReadonlyArray<Point2 & { bulge?: number }>, clos
 }
 
 /**
- * SPLINE groups (DXF reference, SPLINE, from memory): 70 flags (1 closed),
+ * SPLINE groups (DXF reference, SPLINE): 70 flags (1 closed, 2 periodic),
  * 71 degree, 40 knots, 41 weights, 10/20 control points, 11/21 fit points,
  * 12/22 and 13/23 start and end tangents. A spline given only by fit points
  * is the cubic through them (`drawFitPointSpline`).
