@@ -77,8 +77,19 @@ describe('the overview per role in the browser', () => {
     await dialog.getByRole('button', { name: 'Mark out of service and tell the members' }).click()
     const done = page.getByRole('status').filter({ hasText: 'Marked out of service' })
     await expect.poll(() => done.textContent()).toMatch(new RegExp(`Juno Castellane · ${title} · .* · hold released`))
-    await page.getByRole('listitem').filter({ hasText: `${cutterName}: Mirror mount cracked` }).getByText('1 booking called off').waitFor()
+    const outage = page.getByRole('listitem').filter({ hasText: `${cutterName}: Mirror mount cracked` })
+    await outage.getByText('1 booking called off').waitFor()
     await screenshot(page, 'home-staff-outage')
+
+    // The repair goes faster than thought: an earlier return, then back in service before the period began.
+    await outage.getByRole('button', { name: 'Change expected return' }).click()
+    await page.getByLabel('New expected return').fill(local(5, '12:00'))
+    await page.getByRole('dialog').getByRole('button', { name: 'Save the expected return' }).click()
+    await expect.poll(() => page.getByRole('status').filter({ hasText: 'Expected return changed' }).textContent()).toContain('No bookings fell in the period.')
+    await expect.poll(() => outage.textContent()).toMatch(/back about .*, 12:00/)
+    await outage.getByRole('button', { name: 'Back in service' }).click()
+    await page.getByRole('dialog').getByRole('button', { name: 'Back in service' }).click()
+    await outage.waitFor({ state: 'detached' })
 
     await signInThroughForm(member, 'member@example.test')
     await member.open('/')
