@@ -79,15 +79,6 @@ export async function authenticate(db: Knex, email: string, password: string): P
   return toSessionUser(row)
 }
 
-/** Returns a reset token for a known, enabled account, or null; the route answers the same either way. */
-export async function requestPasswordReset(db: Knex, email: string) {
-  return db.transaction(async (trx) => {
-    const row = await trx<UserRow>('users').where({ email }).whereNull('disabled_at').first()
-    if (!row) return null
-    return { user: toSessionUser(row), token: await issueToken(trx, row.id, 'reset-password') }
-  })
-}
-
 export async function resetPassword(db: Knex, token: string, newPassword: string): Promise<SessionUser> {
   const passwordHash = await hashPassword(newPassword)
   return db.transaction(async (trx) => {
