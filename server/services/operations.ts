@@ -200,7 +200,7 @@ export async function collectWithCode(db: Knex, staff: SessionUser, code: string
     if (job.state !== 'ready') throw new Conflict('This code was already used: the parts were collected.')
     const [owed] = await balancesOwed(trx, { jobId: job.id })
     if (owed && !handOverWithBalanceOwed) {
-      throw new Conflict(`The member still owes ${formatMinor(owed.balanceMinor, owed.currency)} for this cut. Ask them to pay it under "My payments", or confirm the hand-over anyway.`, { reason: 'balance-owed', ...owed })
+      throw new Conflict(`The member still owes ${formatMinor(owed.balanceMinor, owed.currency)} for "${job.title}". Ask them to pay it under "My payments", or confirm the hand-over anyway.`, { reason: 'balance-owed', ...owed })
     }
     const record = await transitionJob(trx, job.id, 'markCollected', staff, { comment: `Collected with the pickup code${owed ? `; handed over with ${formatMinor(owed.balanceMinor, owed.currency)} still owed` : ''}` })
     await trx('jobs').where({ id: job.id }).update({ collected_at: nowIso() })
