@@ -110,6 +110,10 @@ describe('holding the estimate and charging the minutes used', () => {
     // The ledger's note reads as money, not as raw minor units.
     const owedEvent = owing.events.find((e: { kind: string }) => e.kind === 'owed')
     expect(owedEvent.note).toContain(`€${(booking.authorisedMinor / 100).toFixed(2)}`)
+    // The member is told by mail, with the amount as money and the way to pay it.
+    const owedMail = await waitForMail('member@example.test', /Balance to pay for your cut/)
+    expect(owedMail.text).toContain(`€${(finished.balanceMinor / 100).toFixed(2)} is still to pay`)
+    expect(owedMail.text).toContain('/payments')
     expect((await bench.member.get(`/api/jobs/${jobId}`)).body.balanceOwed).toMatchObject({ bookingId: booking.id, balanceMinor: finished.balanceMinor, currency: 'EUR' })
     const date = inZone(booking.starts_at, bench.zone).toISODate()
     const entry = (await bench.staff.get(`/api/run-sheet?cutter=${bench.cutterId}&date=${date}`)).body.entries.find((e: { job: { id: number } }) => e.job.id === jobId)
