@@ -281,13 +281,13 @@ export async function settleCut(db: Knex, bookingId: number, actualMinutes: numb
   if (capturedMinor > chargeMinor) {
     // The earlier capture was for more minutes than finally logged: the difference goes back to the card.
     const refund = await stripe.refunds.create({ payment_intent: intent.id, amount: capturedMinor - chargeMinor, metadata: { bookingId: String(booking.id) } }, { idempotencyKey: `recapture-refund-${intent.id}-${chargeMinor}` })
-    if (await record(db, booking, { kind: 'refunded', amountMinor: refund.amount, currency, objectId: refund.id, key: `refund:${refund.id}`, note: `Finished with ${actualMinutes} minutes; the earlier capture was for more` }, detail)) newKinds.push('refunded')
+    if (await record(db, booking, { kind: 'refunded', amountMinor: refund.amount, currency, objectId: refund.id, key: `refund:${refund.id}`, note: `Finished with ${actualMinutes} min of cutting; the earlier capture was for more` }, detail)) newKinds.push('refunded')
   }
   const balanceMinor = Math.max(0, chargeMinor - capturedMinor)
   let balanceUrl: string | null = null
   if (balanceMinor > 0) {
     // The debt is on the ledger before any checkout exists, so it stays payable from "My payments" if Stripe fails now.
-    await record(db, booking, { kind: 'owed', amountMinor: balanceMinor, currency, objectId: booking.payment_intent_id, key: `owed:${booking.id}`, note: `${actualMinutes} minutes cut; the hold covered ${formatMinor(capturedMinor, currency)}` })
+    await record(db, booking, { kind: 'owed', amountMinor: balanceMinor, currency, objectId: booking.payment_intent_id, key: `owed:${booking.id}`, note: `${actualMinutes} min of cutting; the hold covered ${formatMinor(capturedMinor, currency)}` })
     balanceUrl = await openBalanceCheckout(db, booking.id)
       .then((checkout) => checkout.url)
       .catch((error) => {

@@ -102,4 +102,16 @@ describe('money pages in the browser', () => {
     await owed.getByRole('button', { name: 'Hand over anyway' }).click()
     await page.getByText(`Handed over: ${owing.title}.`).waitFor()
   })
+
+  browserTest('an admin reads every payment’s state in words', async ({ browser }) => {
+    const { page } = browser
+    await signInThroughForm(browser, 'admin@example.test')
+    await browser.open('/admin/payments')
+    const row = page.getByRole('row').filter({ hasText: owing.title })
+    await row.getByText('Balance to pay').waitFor()
+    expect(await page.getByRole('table').innerText()).not.toMatch(/\b(?:balance-due|partly-refunded|authorised|captured|awaiting)\b/)
+    await page.getByLabel('State').selectOption({ label: 'Balance to pay' })
+    await page.getByRole('row').filter({ hasText: onMachine.title }).waitFor({ state: 'detached' })
+    await row.waitFor()
+  })
 })
