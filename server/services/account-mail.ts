@@ -1,10 +1,12 @@
 import type { Knex } from 'knex'
 import type { SessionUser } from '#shared/roles'
 import { serverConfig } from '../utils/config'
+import { sendMail } from '../utils/mailer'
 import { queueMail, type ComposeMail, type DeferredMailKind, type MailMessage } from './mail-outbox'
 import { issueToken } from './tokens'
 
-// The account e-mails, queued in the outbox (the routes answer without waiting for the mail server).
+// The account e-mails, queued in the outbox in the transaction of the change they report (accounts.ts); the routes
+// answer without waiting for the mail server.
 function verificationMessage(user: Pick<SessionUser, 'email' | 'name'>, token: string): MailMessage {
   return {
     to: user.email,
@@ -27,8 +29,8 @@ function passwordResetMessage(user: Pick<SessionUser, 'email' | 'name'>, token: 
   }
 }
 
-export function verificationMail(user: SessionUser, token: string, db?: Knex) {
-  return sendMail(verificationMessage(user, token), db)
+export function verificationMail(trx: Knex, user: SessionUser, token: string) {
+  return sendMail(verificationMessage(user, token), trx)
 }
 
 const DEFERRED_SUBJECTS: Record<DeferredMailKind, string> = {
@@ -56,7 +58,7 @@ export const composeAccountMail: ComposeMail = async (trx, message) => {
   return passwordResetMessage(row, await issueToken(trx, row.id, 'reset-password'))
 }
 
-export function signUpAttemptMail(user: SessionUser) {
+export function signUpAttemptMail(trx: Knex, user: SessionUser) {
   return sendMail({
     to: user.email,
     subject: 'Someone tried to sign up with your address',
@@ -66,13 +68,13 @@ export function signUpAttemptMail(user: SessionUser) {
       'If it was you, sign in instead; if you forgot your password, choose a new one from the sign-in page. If it was not you, ignore this message.',
     ],
     action: { label: 'Sign in', url: `${serverConfig().appUrl}/sign-in` },
-  })
+  }, trx)
 }
 
-export function passwordChangedMail(user: SessionUser) {
+export function passwordChangedMail(trx: Knex, user: Pick<SessionUser, 'email' | 'name'>) {
   return sendMail({
     to: user.email,
     subject: 'Your password was changed',
     paragraphs: [`Hello ${user.name},`, 'The password of your account was just changed. If you did not do this, reset it now and tell the workshop staff.'],
-  })
+  }, trx)
 }
