@@ -10,7 +10,7 @@ export interface BalanceOwed {
  * What a member still owes for cuts that cost more than their hold: `owed` ledger entries less the `charged`
  * payments of the second checkout, per booking. Only bookings with something owed are listed.
  */
-export async function balancesOwed(db: Knex, where: { bookingId?: number; bookingIds?: number[]; jobId?: number }): Promise<BalanceOwed[]> {
+export async function balancesOwed(db: Knex, where: { bookingId?: number; bookingIds?: number[]; jobId?: number; memberId?: number }): Promise<BalanceOwed[]> {
   const query = db('payment_ledger')
     .whereIn('kind', ['owed', 'charged'])
     .groupBy('booking_id', 'currency')
@@ -18,6 +18,7 @@ export async function balancesOwed(db: Knex, where: { bookingId?: number; bookin
   if (where.bookingId) query.where('booking_id', where.bookingId)
   if (where.bookingIds) query.whereIn('booking_id', where.bookingIds)
   if (where.jobId) query.where('job_id', where.jobId)
+  if (where.memberId) query.where('member_id', where.memberId)
   const rows = (await query) as { booking_id: number; currency: string; balance: number }[]
   return rows.filter((r) => r.balance > 0).map((r) => ({ bookingId: r.booking_id, balanceMinor: r.balance, currency: r.currency }))
 }
