@@ -87,9 +87,11 @@ export async function seedHistory(knex: Knex, options: HistoryOptions): Promise<
     let userId = await nextId(trx, 'users')
     const members: { id: number; email: string; name: string }[] = []
     const users: Record<string, unknown>[] = []
+    // Numbered on from the invented members already there (the demo's own half year), so a second history adds to it.
+    const earlier = Number((await trx('users').where('email', 'like', '%@history.example.test').count({ n: '*' }).first())?.n ?? 0)
     for (let i = 0; i < memberCount; i++) {
       const name = `${FIRST_NAMES[i % FIRST_NAMES.length]} ${SURNAMES[Math.floor(i / FIRST_NAMES.length) % SURNAMES.length]}`
-      const email = `member-${String(i + 1).padStart(4, '0')}@history.example.test`
+      const email = `member-${String(earlier + i + 1).padStart(4, '0')}@history.example.test`
       const joined = iso(historyStart - between(1, 60) * DAY)
       members.push({ id: userId, email, name })
       users.push({ id: userId++, email, name, password_hash: passwordHash, role: 'member', email_verified_at: joined, created_at: joined, updated_at: joined })
@@ -117,6 +119,12 @@ export async function seedHistory(knex: Knex, options: HistoryOptions): Promise<
         }
       }
     }
+    // Time already booked (a history seeded before) stays as it is: the slots round it are left out.
+    const booked = await trx('bookings').whereNot('status', 'cancelled').where('ends_at', '>', iso(historyStart)).select('cutter_id', 'starts_at', 'ends_at')
+    if (booked.length) {
+      const clashes = (slot: Slot) => booked.some((b) => b.cutter_id === cutters[slot.cutter]!.id && Date.parse(b.starts_at) < slot.end && Date.parse(b.ends_at) > slot.start)
+      candidates.splice(0, candidates.length, ...candidates.filter((slot) => !clashes(slot)))
+    }
     // About three jobs in four are booked; the slots they take are drawn from the tiling, the rest stay free.
     const wanted = Math.min(candidates.length, Math.round(options.jobs * 0.75))
     for (let i = 0; i < wanted; i++) {
@@ -142,7 +150,7 @@ export async function seedHistory(knex: Knex, options: HistoryOptions): Promise<
       rows.mail.push({ recipient: to, subject, message_json: JSON.stringify({ to, subject, paragraphs }), status: failed ? 'dead' : 'sent', attempts: failed ? 10 : 1, next_attempt_at: iso(at), last_error: failed ? '550 mailbox unavailable' : null, sent_at: failed ? null : iso(at + 20_000), created_at: iso(at), updated_at: iso(at) })
     }
     const ledger = (booking: Record<string, unknown>, kind: string, amount: number, at: number, note = '') => {
-      const key = `${kind}:hist_${booking.id}_${rows.ledger.length}`
+      const key = `${kind}:hist_j${booking.job_id}_${rows.ledger.length}`
       rows.ledger.push({ booking, job_id: booking.job_id, member_id: booking.member_id, kind, amount_minor: amount, currency: booking.currency, stripe_object_id: `pi_hist_${booking.id}`, ledger_key: key, note, created_at: iso(at), updated_at: iso(at) })
     }
 
@@ -217,7 +225,7 @@ export async function seedHistory(knex: Knex, options: HistoryOptions): Promise<
       job.state = 'booked'
       const estimateMinor = (Math.ceil(cutS / 60 / c.increment) * c.increment + c.setup) * c.rate + choice.price_minor
       const authorised = Math.floor((estimateMinor * 120 + 50) / 100)
-      const booking: Record<string, unknown> = { id: 0, cutter_id: c.id, job_id: job.id, member_id: member.id, kind: 'job', starts_at: iso(slot.start), ends_at: iso(slot.end), status: 'confirmed', hold_expires_at: null, ical_uid: `hist-${job.id}@kerfbook`, ical_sequence: 0, created_by: member.id, estimate_minor: estimateMinor, authorised_minor: authorised, currency: c.currency, checkout_session_id: `cs_hist_${job.id}`, payment_intent_id: `pi_hist_${job.id}`, reminder_sent_at: slot.start < now ? iso(slot.start - DAY) : null, created_at: iso(bookedAt), updated_at: iso(bookedAt) }
+      const booking: Record<string, unknown> = { id: 0, cutter_id: c.id, job_id: job.id, member_id: member.id, kind: 'job', starts_at: iso(slot.start), ends_at: iso(slot.end), status: 'confirmed', hold_expires_at: null, ical_uid: `hist-j${job.id}@kerfbook`, ical_sequence: 0, created_by: member.id, estimate_minor: estimateMinor, authorised_minor: authorised, currency: c.currency, checkout_session_id: `cs_hist_${job.id}`, payment_intent_id: `pi_hist_${job.id}`, reminder_sent_at: slot.start < now ? iso(slot.start - DAY) : null, created_at: iso(bookedAt), updated_at: iso(bookedAt) }
       bookedJobs.push({ job, booking, bookedAt })
       mail(member.email, 'Booking confirmed', bookedAt, [`${job.title}: your cutter time is booked.`])
       if (slot.end > now - HOUR) continue
