@@ -82,16 +82,14 @@ export async function up(knex: Knex): Promise<void> {
 
 export async function down(knex: Knex): Promise<void> {
   for (const event of ['INSERT', 'UPDATE', 'DELETE'] as const) await knex.raw(`DROP TRIGGER IF EXISTS payment_ledger_state_${event.toLowerCase()}`)
-  await knex.schema.alterTable('bookings', (t) => t.dropIndex(['payment_state', 'starts_at']))
+  await knex.raw('DROP INDEX IF EXISTS bookings_payment_state_starts_at_index')
+  // Dropping a column rebuilds the table without its triggers; the overlap guard is written again below.
   await knex.schema.alterTable('bookings', (t) => t.dropColumn('payment_state'))
   for (const event of ['INSERT', 'UPDATE'] as const) {
+    await knex.raw(`DROP TRIGGER IF EXISTS bookings_span_${event.toLowerCase()}`)
     await knex.raw(`DROP TRIGGER IF EXISTS bookings_no_overlap_${event.toLowerCase()}`)
     await knex.raw(overlapGuard(event, false))
-    await knex.raw(`DROP TRIGGER IF EXISTS bookings_span_${event.toLowerCase()}`)
   }
   await knex.schema.dropTable('booking_spans')
-  await knex.schema.alterTable('job_events', (t) => t.dropIndex(['to_state', 'created_at']))
-  await knex.schema.alterTable('jobs', (t) => t.dropIndex(['cut_finished_at']))
-  await knex.schema.alterTable('bookings', (t) => t.dropIndex([], 'bookings_starts_at_index'))
-  await knex.schema.alterTable('payment_ledger', (t) => t.dropIndex(['created_at']))
+  for (const index of ['job_events_to_state_created_at_index', 'jobs_cut_finished_at_index', 'bookings_starts_at_index', 'payment_ledger_created_at_index']) await knex.raw(`DROP INDEX IF EXISTS ${index}`)
 }
