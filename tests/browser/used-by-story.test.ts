@@ -192,7 +192,8 @@ describe('the used-by story in the browser', () => {
 
     await member.page.waitForURL((url) => url.origin === checkoutOrigin)
     const payHeading = (await member.page.getByRole('heading', { level: 1 }).textContent())!.trim()
-    expect(payHeading).toMatch(/^Pay €\d+\.\d\d$/)
+    // The booking holds the estimate on the card; the heading says it is a hold, not a payment.
+    expect(payHeading).toMatch(/^Hold €\d+\.\d\d on your card$/)
     await checkAccessibility(member.page)
     await screenshot(member.page, 'story-checkout')
     await tabThrough(member.page, 'Card number', 10)
