@@ -1,0 +1,87 @@
+// The desk's early answers: whether a member holds the sign-off booking will ask for (told on the job
+// and the booking plan, to the member and the staff), what a suggested slot would cost to cancel, and
+// which cutter the run sheet opens on.
+import { beforeAll, describe, expect, it } from 'vitest'
+import { client, linkToken, signedIn, uniqueEmail, waitForMail } from './helpers'
+import { payCheckout, waitForPaymentState } from './payment-helpers'
+import { bookingBench, type BookingBench, type Client } from './workshop-setup'
+
+let bench: BookingBench
+
+beforeAll(async () => {
+  bench = await bookingBench()
+})
+
+/** A member who just joined: confirmed e-mail, no sign-off on any cutter. */
+async function newMember(): Promise<{ member: Client; id: number; email: string }> {
+  const email = uniqueEmail('no-sign-off')
+  await client().post('/api/auth/sign-up', { name: 'Perpetua Vashti-Oyelowo', email, password: 'long-enough-pass' })
+  await client().post('/api/auth/verify', { token: linkToken(await waitForMail(email, /Confirm your e-mail/), '/verify') })
+  const member = await signedIn(email, 'long-enough-pass')
+  return { member, id: (await member.get('/api/me')).body.id, email }
+}
+
+describe('sign-offs, said early', () => {
+  it('tells the member on the job and the staff at approval that the cutter’s sign-off is missing, until it is recorded', async () => {
+    const { member, id } = await newMember()
+    const created = await member.post('/api/jobs', { title: 'Unsigned lantern', cutterId: bench.cutterId, materialId: bench.materialId })
+    expect(created.status).toBe(201)
+    const jobId = created.body.id as number
+    expect((await member.get(`/api/jobs/${jobId}`)).body.memberSignedOff).toBe(false)
+    // The new-job form reads the member's own sign-offs: none is valid for this cutter.
+    expect(((await member.get('/api/me/sign-offs')).body as { cutterId: number; valid: boolean }[]).some((s) => s.cutterId === bench.cutterId && s.valid)).toBe(false)
+
+    const approvedId = await bench.approvedJob('Unsigned panels', member)
+    // The staff see it on the job they approved, and the booking plan says it before "Book and pay".
+    expect((await bench.staff.get(`/api/jobs/${approvedId}`)).body.memberSignedOff).toBe(false)
+    expect((await member.get(`/api/bookings/suggestions?jobId=${approvedId}`)).body.memberSignedOff).toBe(false)
+    // What the flag foretells is what booking answers.
+    const refused = await member.post('/api/bookings', { jobId: approvedId, cutterId: bench.cutterId, start: bench.at(3, '10:00') })
+    expect(refused.status).toBe(409)
+    expect(refused.body.data.reason).toBe('no-sign-off')
+
+    expect((await bench.staff.post('/api/sign-offs', { userId: id, cutterId: bench.cutterId, signedOffOn: '2026-01-05' })).status).toBe(201)
+    expect((await member.get(`/api/jobs/${jobId}`)).body.memberSignedOff).toBe(true)
+    expect((await bench.staff.get(`/api/jobs/${approvedId}`)).body.memberSignedOff).toBe(true)
+    expect((await member.get(`/api/bookings/suggestions?jobId=${approvedId}`)).body.memberSignedOff).toBe(true)
+  })
+})
+
+describe('the booking plan', () => {
+  it('marks a slot already inside the late-cancellation window, and its fee is what cancelling then charges', async () => {
+    const jobId = await bench.approvedJob('Late window')
+    const plan = (await bench.member.get(`/api/bookings/suggestions?jobId=${jobId}`)).body
+    expect(plan).toMatchObject({ jobId, cutterId: bench.cutterId, memberSignedOff: true })
+    const settings = (await bench.member.get('/api/settings')).body
+    // The slots are the next free ones: the first starts within the day, so inside any window of a day or more.
+    const slot = plan.slots[0]
+    expect(slot.late).toBe(Date.parse(slot.start) - settings.freeCancellationHours * 3_600_000 < Date.now())
+    expect(plan.cancellation).toMatchObject({ freeHours: settings.freeCancellationHours, feePercent: settings.lateCancellationFeePercent })
+
+    const booking = (await bench.member.post('/api/bookings', { jobId, cutterId: bench.cutterId, start: slot.start })).body
+    expect((await bench.member.get(`/api/bookings/${booking.id}/cancellation-terms`)).body.late).toBe(slot.late)
+    await payCheckout(booking.checkoutUrl)
+    await waitForPaymentState(bench.member, booking.id, 'authorised')
+    const cancelled = await bench.member.post(`/api/bookings/${booking.id}/cancel`, {})
+    expect(cancelled.status).toBe(200)
+    expect(cancelled.body.feeMinor).toBe(slot.late ? plan.cancellation.lateFeeMinor : 0)
+  })
+})
+
+describe('the run sheet’s cutter', () => {
+  it('opens a day on the cutter booked that day, unless the cutter chosen last has bookings too', async () => {
+    const day = 19
+    const jobId = await bench.approvedJob('Run sheet default')
+    expect((await bench.member.post('/api/bookings', { jobId, cutterId: bench.cutterId, start: bench.at(day, '10:00') })).status).toBe(201)
+    const localDate = new Intl.DateTimeFormat('en-CA', { timeZone: bench.zone }).format(new Date(bench.at(day, '10:00')))
+    const opened = (await bench.staff.get(`/api/run-sheet?date=${localDate}`)).body
+    expect(opened.cutterId).toBe(bench.cutterId)
+    expect(opened.entries.map((e: { job: { id: number } }) => e.job.id)).toContain(jobId)
+    expect(opened.cutters.find((c: { id: number }) => c.id === bench.cutterId).bookings).toBeGreaterThanOrEqual(1)
+
+    // A remembered cutter with nothing booked that day gives way to the booked one; asked for by name, it is shown.
+    const idle = opened.cutters.find((c: { id: number; bookings: number }) => c.bookings === 0)
+    expect((await bench.staff.get(`/api/run-sheet?prefer=${idle.id}&date=${localDate}`)).body.cutterId).toBe(bench.cutterId)
+    expect((await bench.staff.get(`/api/run-sheet?cutter=${idle.id}&date=${localDate}`)).body.cutterId).toBe(idle.id)
+  })
+})
