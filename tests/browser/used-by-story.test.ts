@@ -230,12 +230,9 @@ describe('the used-by story in the browser', () => {
     const job = await getJson<JobEstimateView>(staff.page, `/api/jobs/${jobId}`)
     const cutter = await getJson<CutterPrices>(staff.page, `/api/catalog/cutters/${job.cutter.id}`)
     const bookedDay = new Intl.DateTimeFormat('en-CA', { timeZone }).format(new Date(payment.start))
-    await staff.open('/staff/run-sheet')
-    // Each choice reloads the sheet, and a second choice made before the first has loaded cancels its request.
-    const laserSheetLoaded = staff.page.waitForResponse((response) => response.url().includes('/api/run-sheet?') && response.url().includes(`cutter=${job.cutter.id}&`))
-    await staff.page.getByLabel('Cutter').selectOption({ label: LASER })
-    await laserSheetLoaded
-    await staff.page.getByLabel('Day').fill(bookedDay)
+    // The run sheet opens the booked day on the cutter booked that day, without choosing it.
+    await staff.open(`/staff/run-sheet?date=${bookedDay}`)
+    await expect.poll(() => staff.page.getByLabel('Cutter').evaluate((select: HTMLSelectElement) => select.selectedOptions[0]?.textContent?.trim())).toBe(LASER)
     const entry = staff.page.locator('section').filter({ has: staff.page.getByRole('heading', { name: JOB_TITLE }) })
     await entry.getByRole('button', { name: 'Start cutting' }).waitFor()
     await checkAccessibility(staff.page)
