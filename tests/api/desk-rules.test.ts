@@ -3,6 +3,7 @@
 // which cutter the run sheet opens on.
 import { beforeAll, describe, expect, it } from 'vitest'
 import { client, linkToken, signedIn, uniqueEmail, waitForMail } from './helpers'
+import { slitPair } from '../fixtures/svg'
 import { payCheckout, waitForPaymentState } from './payment-helpers'
 import { bookingBench, type BookingBench, type Client } from './workshop-setup'
 
@@ -83,5 +84,58 @@ describe('the run sheet’s cutter', () => {
     const idle = opened.cutters.find((c: { id: number; bookings: number }) => c.bookings === 0)
     expect((await bench.staff.get(`/api/run-sheet?prefer=${idle.id}&date=${localDate}`)).body.cutterId).toBe(bench.cutterId)
     expect((await bench.staff.get(`/api/run-sheet?cutter=${idle.id}&date=${localDate}`)).body.cutterId).toBe(idle.id)
+  })
+})
+
+describe('the run sheet at the machine', () => {
+  it('shows the estimate, where the accepted warnings are, what was charged, and keeps the day’s collected jobs', async () => {
+    const job = await bench.member.post('/api/jobs', { title: 'Slotted tray', cutterId: bench.cutterId, materialId: bench.materialId })
+    const jobId = job.body.id as number
+    const form = new FormData()
+    // Two slits 1 mm apart along y = 15 and y = 16, x from 15 to 55: with the 0.2 mm kerf a bridge under the 3 mm minimum.
+    form.set('file', new Blob([slitPair(1)], { type: 'image/svg+xml' }), 'tray.svg')
+    await bench.member.form(`/api/jobs/${jobId}/files`, form)
+    expect((await bench.member.post(`/api/jobs/${jobId}/submit`, { acknowledgement: 'The thin web is a living hinge.' })).status).toBe(200)
+    expect((await bench.staff.post(`/api/jobs/${jobId}/approve`, {})).status).toBe(200)
+    const start = bench.at(23, '10:00')
+    const booking = (await bench.member.post('/api/bookings', { jobId, cutterId: bench.cutterId, start })).body
+    await payCheckout(booking.checkoutUrl)
+    await waitForPaymentState(bench.member, booking.id, 'authorised')
+    const date = new Intl.DateTimeFormat('en-CA', { timeZone: bench.zone }).format(new Date(start))
+    const sheetUrl = `/api/run-sheet?cutter=${bench.cutterId}&date=${date}`
+    const entryOf = async () => (await bench.staff.get(sheetUrl)).body.entries.find((e: { job: { id: number } }) => e.job.id === jobId)
+
+    const before = await entryOf()
+    const detail = (await bench.staff.get(`/api/jobs/${jobId}`)).body
+    const cutter = (await bench.staff.get(`/api/catalog/cutters/${bench.cutterId}`)).body
+    // The estimate beside the timer is the machine time without the one setup.
+    expect(before.estimateMinutes).toBeCloseTo(detail.estimate.machineS / 60 - cutter.setupMinutes, 1)
+    expect(before.chargedMinor).toBeNull()
+    const [group] = before.warningGroups
+    expect(group.acknowledgement.reason).toBe('The thin web is a living hinge.')
+    expect(group.locations.length).toBeGreaterThan(0)
+    for (const place of group.locations) {
+      // Between the two slits of the drawing (the fixture's own coordinates).
+      expect(place.x).toBeGreaterThanOrEqual(15 - 1e-3)
+      expect(place.x).toBeLessThanOrEqual(55 + 1e-3)
+      expect(place.y).toBeGreaterThanOrEqual(15 - 1e-3)
+      expect(place.y).toBeLessThanOrEqual(16 + 1e-3)
+    }
+
+    expect((await bench.staff.post(`/api/jobs/${jobId}/start`)).status).toBe(200)
+    const quote = (await bench.staff.get(`/api/jobs/${jobId}/finish-quote?actualMinutes=3`)).body
+    const finished = await bench.staff.post(`/api/jobs/${jobId}/finish`, { actualMinutes: 3, confirmedChargeMinor: quote.chargeMinor })
+    expect(finished.status).toBe(200)
+    await waitForPaymentState(bench.member, booking.id, 'captured')
+    const cut = await entryOf()
+    expect(cut.job.state).toBe('cut')
+    expect(cut.chargedMinor).toBe(finished.body.capturedMinor)
+
+    expect((await bench.staff.post(`/api/jobs/${jobId}/ready`, { location: 'Shelf D' })).status).toBe(200)
+    const { code } = (await bench.member.get(`/api/jobs/${jobId}/pickup`)).body
+    expect((await bench.staff.post('/api/pickups/collect', { code })).status).toBe(200)
+    const day = (await bench.staff.get(sheetUrl)).body
+    expect(day.entries.some((e: { job: { id: number } }) => e.job.id === jobId)).toBe(false)
+    expect(day.collected.find((e: { job: { id: number } }) => e.job.id === jobId)).toMatchObject({ job: { state: 'collected' }, chargedMinor: finished.body.capturedMinor })
   })
 })
