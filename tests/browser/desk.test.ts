@@ -222,11 +222,21 @@ describe('pages opened by their address', () => {
 
   browserTest('member and staff pages load straight from the address bar without errors', { timeout: 60_000 }, async ({ browser }) => {
     const jobId = await bench.approvedJob('Opened directly')
+    const submittedId = await draftWithFile(bench.member, 'Waiting for review')
+    expect((await bench.member.post(`/api/jobs/${submittedId}/submit`, {})).status).toBe(200)
     await signInThroughForm(browser, 'member@example.test')
     for (const path of ['/jobs', `/jobs/${jobId}`, '/jobs/new', '/bookings', '/payments', `/calendar?job=${jobId}`]) {
       await browser.open(path)
       await browser.page.getByRole('main').waitFor()
     }
+    // Each state says what happens next and who acts; a submitted job no longer asks for reasons.
+    const nextStep = browser.page.locator('[data-next-step]')
+    await browser.open(`/jobs/${jobId}`)
+    expect(await nextStep.textContent()).toMatch(/^Your move\s*Approved\. Book a slot on the calendar/)
+    await browser.open(`/jobs/${submittedId}`)
+    expect(await nextStep.textContent()).toMatch(/^Waiting for the staff\s*The staff review your files next/)
+    expect(await browser.page.getByRole('main').textContent()).not.toMatch(/Ready once|Ready to submit/)
+    await browser.page.getByRole('button', { name: 'Withdraw this job' }).waitFor()
     await browser.page.getByRole('button', { name: 'Sign out', exact: true }).click()
     await signInThroughForm(browser, 'staff@example.test')
     for (const path of ['/staff/review', '/staff/run-sheet', `/jobs/${jobId}`, '/calendar']) {
