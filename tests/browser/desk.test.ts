@@ -5,7 +5,7 @@
 import type { Page } from 'playwright-core'
 import { beforeAll, describe, expect } from 'vitest'
 import { client, linkToken, signedIn, uniqueEmail, waitForMail } from '../api/helpers'
-import { plainPart } from '../fixtures/svg'
+import { plainPart, svgDocument } from '../fixtures/svg'
 import { bookingBench, type BookingBench, type Client } from '../api/workshop-setup'
 import { formatMoney } from '../../utils/format'
 import { browserTest, signInThroughForm } from './browser'
@@ -244,5 +244,28 @@ describe('pages opened by their address', () => {
       await browser.page.getByRole('main').waitFor()
     }
     expect(await browser.page.getByRole('main').textContent()).not.toContain('another cutter')
+  })
+})
+
+describe('the preview’s “Whole sheet”', () => {
+  browserTest('shows the stock sheet, not the drawing, when the drawing is larger than the sheet', async ({ browser }) => {
+    await signInThroughForm(browser, 'member@example.test')
+    const { page } = browser
+    await browser.open('/check')
+    const materialId = Number(await page.getByLabel('Material').inputValue())
+    const materials = (await (await page.request.get('/api/catalog/materials')).json()) as { id: number; sheets: { widthMm: number; heightMm: number }[] }[]
+    const sheet = materials.find((m) => m.id === materialId)!.sheets[0]!
+    const side = 2 * Math.max(sheet.widthMm, sheet.heightMm)
+    await page.locator('input[type=file]').setInputFiles({ name: 'oversize.svg', mimeType: 'image/svg+xml', buffer: Buffer.from(svgDocument(side, side, `<rect x="5" y="5" width="${side - 10}" height="${side - 10}"/>`)) })
+    await page.locator('[data-preview-state="ready"]').waitFor()
+    const view = async () => ((await page.locator('[data-preview]').getAttribute('data-view')) ?? '').split(' ').map(Number) as [number, number, number, number]
+    const fitted = await view()
+    await page.getByRole('button', { name: 'Whole sheet' }).click()
+    await expect.poll(async () => (await view())[2]).toBeLessThan(fitted[2])
+    const [x, y, width, height] = await view()
+    expect(x + width / 2).toBeCloseTo(sheet.widthMm / 2, 0)
+    expect(y + height / 2).toBeCloseTo(sheet.heightMm / 2, 0)
+    expect(width).toBeGreaterThanOrEqual(sheet.widthMm)
+    expect(height).toBeGreaterThanOrEqual(sheet.heightMm)
   })
 })
