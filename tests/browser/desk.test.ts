@@ -8,7 +8,7 @@ import { client, linkToken, signedIn, uniqueEmail, waitForMail } from '../api/he
 import { plainPart, svgDocument } from '../fixtures/svg'
 import { bookingBench, type BookingBench, type Client } from '../api/workshop-setup'
 import { formatMoney } from '../../utils/format'
-import { browserTest, signInThroughForm } from './browser'
+import { browserTest, checkAccessibility, screenshot, signInThroughForm } from './browser'
 
 let bench: BookingBench
 let cutterName: string
@@ -137,6 +137,8 @@ describe('on a phone (390 × 844)', () => {
     await page.locator('.fc-timeGridDay-view').waitFor()
     const overflow = () => page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)
     expect(await overflow(), 'nothing sticks out sideways').toBeLessThanOrEqual(0)
+    await checkAccessibility(page)
+    await screenshot(page, 'desk-phone-calendar')
     for (const name of ['‹ Previous', 'Today', 'Next ›', 'Day', 'Month']) {
       const box = (await page.getByRole('button', { name, exact: true }).boundingBox())!
       expect(box.x, `${name} starts on screen`).toBeGreaterThanOrEqual(0)
@@ -160,6 +162,8 @@ describe('on a phone (390 × 844)', () => {
     await table.getByText('Replace').waitFor()
     expect(await table.getByText('Cut length').isVisible(), 'each figure says what it is').toBe(true)
     expect(await overflow()).toBeLessThanOrEqual(0)
+    await checkAccessibility(page)
+    await screenshot(page, 'desk-phone-job')
   })
 })
 
