@@ -126,6 +126,25 @@ describe('the run sheet’s cutter', () => {
   })
 })
 
+describe('sign-offs, said when the job is started', () => {
+  browserTest('the new-job form warns about a cutter without the member’s sign-off, and not about one with it', async ({ browser }) => {
+    // The bench signs off the demo member on its cutter; the staff member holds no sign-off for it.
+    await signInThroughForm(browser, 'staff@example.test')
+    const { page } = browser
+    await browser.open('/jobs/new')
+    await page.getByLabel('Cutter').selectOption({ label: cutterName })
+    const warning = page.locator('[data-sign-off-warning]')
+    await warning.waitFor()
+    expect(await warning.textContent()).toContain(`You don't hold a valid induction sign-off for ${cutterName}`)
+    await page.getByRole('button', { name: 'Sign out', exact: true }).click()
+    await signInThroughForm(browser, 'member@example.test')
+    await browser.open('/jobs/new')
+    await page.getByLabel('Cutter').selectOption({ label: cutterName })
+    await page.getByLabel('Material').waitFor()
+    expect(await warning.count()).toBe(0)
+  })
+})
+
 describe('on a phone (390 × 844)', () => {
   browserTest('the calendar shows one day with controls that fit, and the job’s files are cards that keep their actions', { timeout: 60_000 }, async ({ browser }) => {
     const jobId = await bench.approvedJob('Phone booking')
