@@ -8,6 +8,7 @@ import { client, linkToken, signedIn, uniqueEmail, waitForMail } from '../api/he
 import { plainPart, svgDocument } from '../fixtures/svg'
 import { bookingBench, type BookingBench, type Client } from '../api/workshop-setup'
 import { formatMoney } from '../../utils/format'
+import { SAFETY_DEFERRAL } from '../../shared/safety'
 import { browserTest, checkAccessibility, screenshot, signInThroughForm } from './browser'
 
 let bench: BookingBench
@@ -241,6 +242,18 @@ describe('pages opened by their address', () => {
     const main = (await browser.page.getByRole('main').textContent())!
     expect(main).toContain('This page is not on the workshop floor')
     expect(main).not.toContain('Please check the form')
+  })
+
+  browserTest('staff at an admin address read that it is for admins; the stock page ends its warning with the safety sentence', async ({ browser }) => {
+    await signInThroughForm(browser, 'staff@example.test')
+    const { page } = browser
+    browser.expectFailedResponse(403, /\/admin\/users$/)
+    await browser.open('/admin/users', 403)
+    expect(await page.getByRole('main').textContent()).toContain('This page is for admins.')
+    await browser.open('/staff/setup/materials')
+    expect(await page.getByRole('status').filter({ hasText: 'Never in a laser' }).textContent()).toContain(SAFETY_DEFERRAL)
+    // Cutter kinds are said in words, never as their codes.
+    expect(await page.getByRole('main').textContent()).not.toMatch(/co2-laser|fiber-laser/)
   })
 
   browserTest('member and staff pages load straight from the address bar without errors', { timeout: 60_000 }, async ({ browser }) => {
