@@ -33,6 +33,18 @@ interface Plan {
   cancellation: { freeHours: number; feePercent: number; lateFeeMinor: number }
 }
 
+/** Days ahead (within the booking horizon, from the far end) on which no cutter has a booking, as offsets and local dates. */
+async function quietDays(count: number): Promise<{ offset: number; date: string }[]> {
+  const found: { offset: number; date: string }[] = []
+  for (let offset = 27; offset > 2 && found.length < count; offset--) {
+    const date = new Intl.DateTimeFormat('en-CA', { timeZone: bench.zone }).format(new Date(bench.at(offset, '12:00')))
+    const { cutters } = (await bench.staff.get(`/api/run-sheet?date=${date}`)).body as { cutters: { bookings: number }[] }
+    if (cutters.every((c) => c.bookings === 0)) found.push({ offset, date })
+  }
+  expect(found.length, 'quiet days in the booking horizon').toBe(count)
+  return found
+}
+
 async function draftWithFile(owner: Client, title: string): Promise<number> {
   const job = await owner.post('/api/jobs', { title, cutterId: bench.cutterId, materialId: bench.materialId })
   const form = new FormData()
@@ -104,25 +116,22 @@ describe('the booking calendar opened by its address', () => {
 
 describe('the run sheet’s cutter', () => {
   browserTest('a day opens on the cutter with bookings that day; an empty day on the cutter chosen last', async ({ browser }) => {
+    // Two days nothing else is booked on (other test files book their own cutters on days of their own).
+    const [bookedDay, emptyDay] = await quietDays(2)
     const jobId = await bench.approvedJob('Run sheet bracket')
-    const start = bench.at(21, '11:00')
-    expect((await bench.member.post('/api/bookings', { jobId, cutterId: bench.cutterId, start })).status).toBe(201)
-    const bookedDay = new Intl.DateTimeFormat('en-CA', { timeZone: bench.zone }).format(new Date(start))
+    expect((await bench.member.post('/api/bookings', { jobId, cutterId: bench.cutterId, start: bench.at(bookedDay.offset, '11:00') })).status).toBe(201)
     await signInThroughForm(browser, 'staff@example.test')
     const { page } = browser
-    await browser.open(`/staff/run-sheet?date=${bookedDay}`)
+    await browser.open(`/staff/run-sheet?date=${bookedDay.date}`)
     expect(await shownOption(page, 'Cutter')).toBe(cutterName)
     await page.getByText(new RegExp(`^Booked that day: .*${cutterName} \\(1\\)`)).waitFor()
     await page.getByRole('heading', { name: 'Run sheet bracket' }).waitFor()
     expect(await page.locator('[data-estimate-minutes]').first().textContent()).toMatch(/Estimated [\d.]+ min of cutting/)
 
     // A day with nothing booked anywhere opens on the cutter chosen last time.
-    const emptyDay = new Intl.DateTimeFormat('en-CA', { timeZone: bench.zone }).format(new Date(bench.at(27, '11:00')))
-    const cutters = (await bench.staff.get(`/api/run-sheet?date=${emptyDay}`)).body.cutters as { bookings: number }[]
-    expect(cutters.every((c) => c.bookings === 0), 'nothing is booked on the empty day').toBe(true)
-    await browser.open(`/staff/run-sheet?date=${emptyDay}`)
+    await browser.open(`/staff/run-sheet?date=${emptyDay.date}`)
     await page.getByLabel('Cutter').selectOption({ label: cutterName })
-    await browser.open(`/staff/run-sheet?date=${emptyDay}`)
+    await browser.open(`/staff/run-sheet?date=${emptyDay.date}`)
     expect(await shownOption(page, 'Cutter')).toBe(cutterName)
   })
 })
@@ -167,7 +176,8 @@ describe('on a phone (390 × 844)', () => {
     // A day of the month opens that day, where a start can be picked.
     await page.getByRole('button', { name: 'Month', exact: true }).click()
     await page.locator('.fc-dayGridMonth-view').waitFor()
-    await page.locator('td.fc-daygrid-day:not(.fc-day-past):not(.fc-day-other)').last().click()
+    // The day's number, away from any booking drawn in the cell.
+    await page.locator('td.fc-daygrid-day:not(.fc-day-past):not(.fc-day-other) .fc-daygrid-day-top').last().click()
     await page.locator('.fc-timeGridDay-view').waitFor()
 
     await browser.open(`/jobs/${draftId}`)
