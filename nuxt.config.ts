@@ -24,4 +24,6 @@ export default defineNuxtConfig({
     // Native and dialect-probing packages stay outside the bundle; Nitro copies them into .output.
     externals: { external: ['knex', 'better-sqlite3', 'piscina'] },
   },
+  // Development helpers (the dev SMTP sink's messages, reset links among them) are not even built into production.
+  $production: { nitro: { ignore: ['api/dev/**'] } },
 })

@@ -12,6 +12,9 @@ export default defineConfig({
           environment: 'node',
           // One fast-check seed for the whole run, overridable with KERFBOOK_FC_SEED (see the file).
           setupFiles: ['tests/setup/fast-check.ts'],
+          // Engine tests do real work and share the CPUs with the server build and the app tests in CI: a refusal
+          // that takes 1 s on a quiet machine took over 5 s there. A deadline catches a hang, not slowness.
+          testTimeout: 30_000,
         },
       },
       {

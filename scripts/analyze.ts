@@ -2,9 +2,10 @@
 import { readFileSync } from 'node:fs'
 import { parseArgs } from 'node:util'
 import { migrateLatest, openDatabase } from '../db/index'
+import { demoColours, demoDxfLayers } from '../db/seeds/demo-catalog'
 import { analysisParamsFor } from '../server/services/analysis-profile'
 import { describeGroup, describeSite, formatRangeMm } from '../shared/finding-messages'
-import { AnalysisInputError, type AnalysisParams, type AnalysisResult, analyzeCutFile, DEFAULT_ANALYSIS_PARAMS, withDefaults } from '../server/analysis/index'
+import { AnalysisInputError, type AnalysisParams, type AnalysisResult, analyzeCutFile, type ColourRule, DEFAULT_ANALYSIS_PARAMS, type DxfLayerRule, withDefaults } from '../server/analysis/index'
 
 const NUMBER_OPTIONS = {
   speed: 'cutSpeedMmPerMin',
@@ -19,6 +20,18 @@ const NUMBER_OPTIONS = {
   dpi: 'dpi',
 } as const satisfies Record<string, keyof AnalysisParams>
 
+/**
+ * The profile without --cutter/--material: the engine's demo laser, with the demo workshop's colours and layers
+ * (the ones the README's demo day draws with) before the engine's own, so a file made for the demo is read as it
+ * would be on the server. Minimum bridge and hole follow --thickness unless given (withDefaults).
+ */
+const DEMO_COLOUR_MAPPING: ColourRule[] = [
+  ...demoColours.map((colour) => ({ hex: colour.hex, toleranceRgbDistance: colour.tolerance, operation: colour.operation as ColourRule['operation'] })),
+  ...DEFAULT_ANALYSIS_PARAMS.colourMapping,
+]
+const DEMO_LAYER_MAPPING: DxfLayerRule[] = demoDxfLayers.map((layer) => ({ layer: layer.layer, operation: layer.operation as DxfLayerRule['operation'] }))
+const defaultProfile = (overrides: Partial<AnalysisParams>) => withDefaults({ colourMapping: DEMO_COLOUR_MAPPING, dxfLayerMapping: DEMO_LAYER_MAPPING, ...overrides })
+
 const HELP = `Usage: npm run analyze -- FILE.svg|FILE.dxf [--json] [options]
 
 Measures an SVG or ASCII DXF cut pattern (the content, not the name, tells which) and estimates machine time and sheet fit (prices are the server's).
@@ -31,7 +44,9 @@ Options (each overrides the default profile shown in brackets):
   --rapid MM_PER_MIN    rapid travel speed [${DEFAULT_ANALYSIS_PARAMS.rapidSpeedMmPerMin}]
   --pierce-s S          time per pierce [${DEFAULT_ANALYSIS_PARAMS.pierceTimeS}]
   --kerf MM             kerf width [${DEFAULT_ANALYSIS_PARAMS.kerfMm}]
-  --thickness MM        material thickness [${DEFAULT_ANALYSIS_PARAMS.thicknessMm}]
+  --thickness MM        material thickness [${DEFAULT_ANALYSIS_PARAMS.thicknessMm}]; moves the minimum bridge
+                        and hole below to half the thickness and the thickness unless they are given
+                        (with --cutter/--material they are the process setting's and stay)
   --min-bridge MM       minimum bridge [${DEFAULT_ANALYSIS_PARAMS.minBridgeMm}]
   --min-hole MM         minimum hole [${DEFAULT_ANALYSIS_PARAMS.minHoleMm}]
   --sheet WxH           stock sheet in mm [${DEFAULT_ANALYSIS_PARAMS.sheetWidthMm}x${DEFAULT_ANALYSIS_PARAMS.sheetHeightMm}]
@@ -39,8 +54,9 @@ Options (each overrides the default profile shown in brackets):
   --dpi N               pixels per inch for px sizes [${DEFAULT_ANALYSIS_PARAMS.dpi}]
   --cutter ID --material ID   take the profile from the workshop's catalog (needs the database)
 
-Default profile (an invented demo laser, not a recommendation):
-${JSON.stringify(DEFAULT_ANALYSIS_PARAMS, null, 2)}
+Default profile (an invented demo laser, not a recommendation; colours and DXF layers are the demo workshop's,
+then the engine's own):
+${JSON.stringify(defaultProfile({}), null, 2)}
 `
 
 async function main(argv: string[]): Promise<number> {
@@ -64,10 +80,10 @@ async function main(argv: string[]): Promise<number> {
     process.stderr.write('Give both --cutter ID and --material ID (ids as listed on the catalog pages).\n')
     return 2
   }
-  const base = values.cutter !== undefined ? await catalogProfile(Number(values.cutter), Number(values.material)) : withDefaults()
-  const params = { ...base, ...overridesFrom(values as Record<string, string | undefined>) }
+  const overrides = overridesFrom(values as Record<string, string | undefined>)
+  const params = values.cutter !== undefined ? { ...(await catalogProfile(Number(values.cutter), Number(values.material))), ...overrides } : defaultProfile(overrides)
   try {
-    const result = analyzeCutFile(readFileSync(positionals[0], 'utf8'), params)
+    const result = analyzeCutFile(readFileSync(positionals[0]!, 'utf8'), params)
     process.stdout.write(values.json ? `${JSON.stringify(result, (_key, value: unknown) => (ArrayBuffer.isView(value) ? Array.from(value as Float32Array) : value))}\n` : readableReport(result))
     return 0
   } catch (error) {

@@ -1,4 +1,5 @@
 import { DateTime } from 'luxon'
+import { formatLength, type LengthUnit } from '#shared/units'
 
 // Display formatting shared by every page. Money arrives as integer minor units (ISO 4217).
 export function formatMoney(amountMinor: number, currency: string): string {
@@ -13,8 +14,18 @@ export function toMinorUnits(amountMajor: number, currency: string): number {
   return Math.round(amountMajor * 10 ** digits)
 }
 
+/** The signed-in person's unit for lengths (account setting); millimetres outside a page or for visitors. */
+export function currentLengthUnit(): LengthUnit {
+  try {
+    return useSessionStore().user?.lengthUnit ?? 'mm'
+  } catch {
+    return 'mm'
+  }
+}
+
+/** A stored length (mm) in the reader's unit; read inside a render, so the page follows a change of unit. */
 export function formatMm(value: number | null | undefined): string {
-  return value === null || value === undefined ? '—' : `${Number(value.toFixed(2))} mm`
+  return value === null || value === undefined ? '—' : formatLength(value, currentLengthUnit())
 }
 
 export function formatDate(iso: string | null | undefined): string {

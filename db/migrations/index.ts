@@ -11,6 +11,7 @@ import * as dxfLayers from './0009_dxf_layers'
 import * as revisionSummaries from './0010_revision_summaries'
 import * as moneyMail from './0011_money_mail'
 import * as userSessions from './0012_user_sessions'
+import * as cutterOutages from './0014_cutter_outages'
 
 // Append-only: a schema change is a new file added at the end of this list, never an edit of a landed one.
 // Migrations are imported statically so the bundled server and the CLI run the same list.
@@ -27,6 +28,7 @@ const migrations: Record<string, Knex.Migration> = {
   '0010_revision_summaries': revisionSummaries,
   '0011_money_mail': moneyMail,
   '0012_user_sessions': userSessions,
+  '0014_cutter_outages': cutterOutages,
 }
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -27,6 +27,8 @@ export interface BuiltApp {
   stripeWebhookSecret: string
   pid: number
   stop(): Promise<void>
+  /** Kills the server at once (SIGKILL, as a crash would) and starts it again on the same database, mail sink and Stripe fake. */
+  restartAfterCrash(): Promise<void>
 }
 
 export interface BuiltAppOptions {
@@ -65,7 +67,8 @@ export async function startBuiltApp(options: BuiltAppOptions): Promise<BuiltApp>
   const stripeWebhookSecret = `whsec_${options.name}_${randomBytes(8).toString('hex')}`
   const stripeFake = await startStripeFake({ webhook: { url: `${baseUrl}/api/webhooks/stripe`, secret: stripeWebhookSecret } })
   const outboxUrl = `http://127.0.0.1:${sink.httpPort}`
-  const server = spawn('node', [join(options.outputDir ?? '.output', 'server/index.mjs')], {
+  const sessionPassword = randomBytes(32).toString('hex')
+  const spawnServer = () => spawn('node', [join(options.outputDir ?? '.output', 'server/index.mjs')], {
     stdio: ['ignore', options.showOutput ? 'inherit' : 'ignore', 'inherit'],
     env: {
       ...process.env,
@@ -81,10 +84,11 @@ export async function startBuiltApp(options: BuiltAppOptions): Promise<BuiltApp>
       STRIPE_WEBHOOK_SECRET: stripeWebhookSecret,
       KERFBOOK_REMINDERS: 'off',
       ...SERVER_MALLOC_ENV,
-      NUXT_SESSION_PASSWORD: randomBytes(32).toString('hex'),
+      NUXT_SESSION_PASSWORD: sessionPassword,
       ...options.env,
     },
   })
+  let server = spawnServer()
   const stop = async () => {
     server.kill('SIGTERM')
     await sink.close()
@@ -97,5 +101,12 @@ export async function startBuiltApp(options: BuiltAppOptions): Promise<BuiltApp>
     await stop()
     throw error
   }
-  return { baseUrl, outboxUrl, databasePath, workDir, stripeFakeUrl: stripeFake.url, stripeWebhookSecret, pid: server.pid!, stop }
+  const restartAfterCrash = async () => {
+    const exited = new Promise((resolve) => server.once('exit', resolve))
+    server.kill('SIGKILL')
+    await exited
+    server = spawnServer()
+    await waitForServer(`${baseUrl}/api/me`, server)
+  }
+  return { baseUrl, outboxUrl, databasePath, workDir, stripeFakeUrl: stripeFake.url, stripeWebhookSecret, pid: server.pid!, stop, restartAfterCrash }
 }

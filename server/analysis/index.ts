@@ -103,7 +103,7 @@ function analyzeDrawing(drawing: ReadDrawing, params: AnalysisParams, findings: 
   lap('flatten')
   const contours = chainPolylines(pieces, params.chainToleranceMm)
   lap('chain')
-  if (contours.count === 0) throw emptyDrawingError(findings.siteCount > 0)
+  if (contours.count === 0) throw emptyDrawingError(findings)
   const bounds = contours.bounds()
   const measurement = measureContours(contours, bounds, drawing.elements)
   lap('measure')
@@ -133,7 +133,17 @@ function analyzeDrawing(drawing: ReadDrawing, params: AnalysisParams, findings: 
   return { result, geometry: { contours, bounds, runOrder: machine.runOrder } }
 }
 
-function emptyDrawingError(hasFindings: boolean): AnalysisInputError {
-  const hint = hasFindings ? ' It contains only text or images; convert them to paths.' : ''
+// What an empty drawing holds instead of lines, each kind with what to do about it, in the order they are told.
+const NOT_DRAWN_HINTS: ReadonlyArray<readonly [codes: readonly string[], hint: string]> = [
+  [['text-not-outlined', 'raster-image'], 'text or images (convert them to paths)'],
+  [['dxf-not-planar'], 'lines tilted out of the drawing plane (flatten the drawing onto the XY plane in your CAD program)'],
+  [['dxf-dimension', 'dxf-hatch'], 'dimensions or hatches, which are not cut'],
+  [['dxf-entity-not-read'], 'elements Kerfbook does not read (explode them into lines, arcs or polylines)'],
+]
+
+/** The refusal of a drawing with nothing to cut, score or engrave, naming what it holds instead when the reader saw something. */
+function emptyDrawingError(findings: FindingCollector): AnalysisInputError {
+  const held = NOT_DRAWN_HINTS.filter(([codes]) => codes.some((code) => findings.countOf(code) > 0)).map(([, hint]) => hint)
+  const hint = held.length > 0 ? ` It contains only ${held.join('; ')}.` : ''
   return new AnalysisInputError('empty', `The drawing has no visible lines or shapes to cut, score or engrave.${hint}`)
 }

@@ -1,12 +1,16 @@
 import { AnalysisInputError } from './errors'
-import { parseXmlTree, type XmlNode } from './xmlTree'
+import { parseXmlElements, svgRoots, type XmlNode } from './xmlTree'
 
 const DOCTYPE_PATTERN = /<!DOCTYPE/i
 // An internal subset may declare entities; the parser leaves entity references
 // unexpanded, but refusing them up front keeps entity-expansion and
 // external-entity tricks out whatever the parser does in a later version.
 const ENTITY_DECLARATION_PATTERN = /<!ENTITY/i
-const SVG_ROOT_PATTERN = /<svg[\s>/]/
+// The root may carry a namespace prefix (<svg:svg xmlns:svg="http://www.w3.org/2000/svg">).
+const SVG_ROOT_PATTERN = /<(?:[A-Za-z_][\w.-]*:)?svg[\s>/]/
+const SVG_NAMESPACE = 'http://www.w3.org/2000/svg'
+// A binary DXF starts with this sentinel (DXF reference, "Binary DXF Files"); its groups are not text.
+const BINARY_DXF_PATTERN = /^\uFEFF?AutoCAD Binary DXF/
 const COMMENT_PATTERN = /<!--[\s\S]*?-->/g
 // Far more attributes in one tag than any drawing program writes: a parser stress test, not a drawing.
 const MAX_ATTRIBUTES_PER_TAG = 2000
@@ -18,6 +22,10 @@ const MIN_CHARACTERS_OF_CROWDED_TAG = MAX_ATTRIBUTES_PER_TAG * 4
  * is iterative, so deep nesting costs time in proportion to the file, not stack.
  */
 export function parseSvgXml(svgText: string): XmlNode {
+  if (typeof svgText === 'string' && BINARY_DXF_PATTERN.test(svgText)) {
+    // No well-known npm package reads binary DXF; every CAD program that writes it also writes ASCII DXF.
+    throw new AnalysisInputError('notSvg', 'This is a binary DXF file, which Kerfbook does not read. Save it again as ASCII DXF (or SVG) in your CAD program and upload that.')
+  }
   if (typeof svgText !== 'string' || !SVG_ROOT_PATTERN.test(svgText)) {
     throw new AnalysisInputError('notSvg', 'This file is not an SVG drawing. Export the pattern as SVG and upload it again.')
   }
@@ -30,7 +38,9 @@ export function parseSvgXml(svgText: string): XmlNode {
   assertReasonableTags(text)
   let root: XmlNode | XmlNode[]
   try {
-    root = parseXmlTree(text)
+    const nodes = parseXmlElements(text)
+    for (const node of nodes) readAsSvg(node)
+    root = svgRoots(nodes)
   } catch {
     throw new AnalysisInputError('malformedXml', 'This SVG file is damaged or incomplete (its XML could not be read). Save it again from your drawing program.')
   }
@@ -38,6 +48,52 @@ export function parseSvgXml(svgText: string): XmlNode {
     throw new AnalysisInputError('notSvg', 'This file is not a single SVG drawing. Upload one SVG file with one <svg> root.')
   }
   return root
+}
+
+/**
+ * What an XML processor does that the svgson-compatible tree leaves undone,
+ * in one walk: elements in the SVG namespace under a prefix lose the prefix
+ * (Namespaces in XML 1.0: the prefix is bound by an xmlns:prefix attribute on
+ * the element or an ancestor), and character and predefined entity
+ * references in attribute values are replaced (XML 1.0 §4.1, §4.6:
+ * d="M10 10&#10;L90 10" holds a line feed).
+ */
+function readAsSvg(root: XmlNode): void {
+  const stack: Array<{ node: XmlNode; svgPrefixes: ReadonlySet<string> }> = [{ node: root, svgPrefixes: new Set() }]
+  while (stack.length > 0) {
+    const { node, svgPrefixes: inherited } = stack.pop()!
+    if (node.type !== 'element') continue
+    let svgPrefixes = inherited
+    for (const name in node.attributes) {
+      const value = node.attributes[name]
+      if (value.includes('&')) node.attributes[name] = withReferencesReplaced(value)
+      if (name.startsWith('xmlns:')) {
+        const prefix = name.slice('xmlns:'.length)
+        const isSvg = node.attributes[name] === SVG_NAMESPACE
+        if (isSvg !== svgPrefixes.has(prefix)) {
+          const changed = new Set(svgPrefixes)
+          if (isSvg) changed.add(prefix)
+          else changed.delete(prefix)
+          svgPrefixes = changed
+        }
+      }
+    }
+    const colon = node.name.indexOf(':')
+    if (colon > 0 && svgPrefixes.has(node.name.slice(0, colon))) node.name = node.name.slice(colon + 1)
+    for (const child of node.children) stack.push({ node: child, svgPrefixes })
+  }
+}
+
+const PREDEFINED_ENTITIES: Readonly<Record<string, string>> = { lt: '<', gt: '>', amp: '&', quot: '"', apos: "'" }
+const REFERENCE_PATTERN = /&(?:#x([0-9a-fA-F]+)|#([0-9]+)|(lt|gt|amp|quot|apos));/g
+
+/** Character references and the five predefined entities replaced; anything else (an undeclared entity) is left as written. */
+function withReferencesReplaced(value: string): string {
+  return value.replace(REFERENCE_PATTERN, (reference: string, hex?: string, decimal?: string, entity?: string): string => {
+    if (entity) return PREDEFINED_ENTITIES[entity] ?? reference
+    const codePoint = hex ? Number.parseInt(hex, 16) : Number.parseInt(decimal ?? '', 10)
+    return codePoint > 0 && codePoint <= 0x10ffff ? String.fromCodePoint(codePoint) : reference
+  })
 }
 
 /** A plain DOCTYPE without an internal subset carries nothing we use. */

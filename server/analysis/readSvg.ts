@@ -66,6 +66,8 @@ export function readSvgDocument(root: XmlNode, params: AnalysisParams, findings:
     for (let index = node.children.length - 1; index >= 0; index--) stack.push({ node: node.children[index], parentMatrix: matrix, parentStyle: style, useDepth, viewport })
   }
   const rootStyle = computeStyle(root, INITIAL_STYLE, styleSheet)
+  // SVG 1.1 §11.5: display none on an element, the root included, renders neither it nor anything in it.
+  if (rootStyle.displayNone) return { elements }
   pushChildren(root, multiply(rootMatrix(root.attributes, params.dpi), parseTransform(root.attributes.transform)), rootStyle, 0, rootViewportSize(root.attributes, params.dpi))
   let rendered = 0
 
@@ -96,7 +98,7 @@ export function readSvgDocument(root: XmlNode, params: AnalysisParams, findings:
     } else if (!style.visible) {
       continue
     } else if (SHAPES.has(node.name)) {
-      const pathData = shapeToPathData(node)
+      const pathData = shapeToPathData(node, viewport)
       if (pathData) paintShape(pathData, matrix, style)
     } else if (node.name === 'text') {
       addElementSite(findings.group({ code: 'text-not-outlined', severity: 'warning', facts: { format: 'svg' } }), node, matrix)
@@ -120,15 +122,17 @@ export function readSvgDocument(root: XmlNode, params: AnalysisParams, findings:
   function paintShape(pathData: string, matrix: Matrix, style: ComputedStyle): void {
     const stroke = resolvePaint(style.stroke, style)
     const strokeVisible = stroke.kind !== 'none' && stroke.alpha * style.strokeOpacity * style.opacity > 0 && Number.parseFloat(style.strokeWidth) !== 0
+    const fill = resolvePaint(style.fill, style)
+    const fillVisible = fill.kind !== 'none' && fill.alpha * style.fillOpacity * style.opacity > 0
     if (strokeVisible) {
       const operation = stroke.kind === 'colour' ? mapper.operationFor(stroke.colour, stroke.hex) : undefined
       if (operation === undefined) reportUnmappedColour(stroke.label, pathData, matrix)
       const effective = operation ?? params.unmappedStrokeOperation
-      if (effective !== 'ignore') elements.push({ pathData, matrix, operation: effective, filled: false, fillRule: style.fillRule })
+      if (effective === 'engrave' && fillVisible) elements.push({ pathData, matrix, operation: 'engrave', filled: true, fillRule: style.fillRule })
+      else if (effective !== 'ignore') elements.push({ pathData, matrix, operation: strokeOperation(effective), filled: false, fillRule: style.fillRule })
       return
     }
-    const fill = resolvePaint(style.fill, style)
-    if (fill.kind === 'none' || fill.alpha * style.fillOpacity * style.opacity === 0) return
+    if (!fillVisible) return
     if (fill.kind === 'colour' && mapper.operationFor(fill.colour, fill.hex) === 'ignore') return
     elements.push({ pathData, matrix, operation: 'engrave', filled: true, fillRule: style.fillRule })
   }
@@ -143,6 +147,15 @@ export function readSvgDocument(root: XmlNode, params: AnalysisParams, findings:
     }
     sites.addToFact('lines', 1)
   }
+}
+
+/**
+ * What a stroke (a line, not an area) of this operation becomes. Engraving an area needs an area: a fill, or a
+ * stroke in the engrave colour on a filled shape. A stroke in the engrave colour alone, closed or open, is marked
+ * along its line like a score line (its length at the score speed), never billed as the area it happens to enclose.
+ */
+export function strokeOperation(operation: DrawnOperation): DrawnOperation {
+  return operation === 'engrave' ? 'score' : operation
 }
 
 type Paint = { kind: 'none' } | { kind: 'colour'; colour: NonNullable<ReturnType<typeof parseColour>>; hex: string; label: string; alpha: number } | { kind: 'other'; label: string; alpha: number }

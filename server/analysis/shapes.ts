@@ -1,5 +1,7 @@
 import { AnalysisInputError } from './errors'
-import { parseNumberAttribute, parseNumberList } from './numbers'
+import { parseNumberList } from './numbers'
+import { parseUserLength } from './units'
+import type { ViewportSize } from './viewport'
 import type { XmlNode } from './xmlTree'
 
 /**
@@ -7,13 +9,19 @@ import type { XmlNode } from './xmlTree'
  * with rx/ry, circle, ellipse, line, polyline, polygon); undefined when the
  * shape draws nothing (zero size, as the specification says).
  */
-export function shapeToPathData(node: XmlNode): string | undefined {
-  const attribute = (name: string, fallback = 0) => parseNumberAttribute(node.attributes[name], name, fallback)
+export function shapeToPathData(node: XmlNode, viewport: ViewportSize): string | undefined {
+  // Lengths may carry units or be percentages of the viewport (SVG 1.1 §7.10): x-like of its width, y-like of its
+  // height, anything else (r) of its normalised diagonal √((w² + h²)/2).
+  const diagonal = viewport.width === undefined || viewport.height === undefined ? undefined : Math.sqrt((viewport.width ** 2 + viewport.height ** 2) / 2)
+  const percentOf = (name: string) => (HORIZONTAL.has(name) ? viewport.width : VERTICAL.has(name) ? viewport.height : diagonal)
+  const attribute = (name: string, fallback = 0) => parseUserLength(node.attributes[name], name, percentOf(name), fallback)
+  // SVG 2's rx/ry="auto" is the same as absent.
+  const givenLength = (name: string) => (node.attributes[name] === undefined || node.attributes[name].trim() === 'auto' ? undefined : attribute(name))
   switch (node.name) {
     case 'path':
       return node.attributes.d
     case 'rect':
-      return rectPath(attribute('x'), attribute('y'), nonNegative(attribute('width'), 'width'), nonNegative(attribute('height'), 'height'), node.attributes.rx, node.attributes.ry)
+      return rectPath(attribute('x'), attribute('y'), nonNegative(attribute('width'), 'width'), nonNegative(attribute('height'), 'height'), givenLength('rx'), givenLength('ry'))
     case 'circle': {
       const r = nonNegative(attribute('r'), 'r')
       return r > 0 ? ellipsePath(attribute('cx'), attribute('cy'), r, r) : undefined
@@ -33,16 +41,19 @@ export function shapeToPathData(node: XmlNode): string | undefined {
   }
 }
 
+const HORIZONTAL = new Set(['x', 'cx', 'x1', 'x2', 'width', 'rx'])
+const VERTICAL = new Set(['y', 'cy', 'y1', 'y2', 'height', 'ry'])
+
 function nonNegative(value: number, attributeName: string): number {
   if (value < 0) throw new AnalysisInputError('badSize', `A shape in the drawing has a negative ${attributeName} (${value}); fix it in your drawing program.`)
   return value
 }
 
-function rectPath(x: number, y: number, width: number, height: number, rxAttribute: string | undefined, ryAttribute: string | undefined): string | undefined {
+function rectPath(x: number, y: number, width: number, height: number, rxAttribute: number | undefined, ryAttribute: number | undefined): string | undefined {
   if (width === 0 || height === 0) return undefined
   // SVG 1.1 §9.2: a missing rx/ry takes the other's value; both are clamped to half the side.
-  const rxGiven = rxAttribute === undefined ? undefined : nonNegative(parseNumberAttribute(rxAttribute, 'rx', 0), 'rx')
-  const ryGiven = ryAttribute === undefined ? undefined : nonNegative(parseNumberAttribute(ryAttribute, 'ry', 0), 'ry')
+  const rxGiven = rxAttribute === undefined ? undefined : nonNegative(rxAttribute, 'rx')
+  const ryGiven = ryAttribute === undefined ? undefined : nonNegative(ryAttribute, 'ry')
   const rx = Math.min(rxGiven ?? ryGiven ?? 0, width / 2)
   const ry = Math.min(ryGiven ?? rxGiven ?? 0, height / 2)
   if (rx === 0 || ry === 0) return `M${x} ${y}H${x + width}V${y + height}H${x}Z`

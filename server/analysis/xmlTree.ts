@@ -62,9 +62,18 @@ function elementNode(name: string, parent: XmlNode | null): XmlNode {
  * are several, or an XmlTreeError where svgson throws.
  */
 export function parseXmlTree(input: string): XmlNode | XmlNode[] {
-  const root = readTree(`<root>${input}</root>`)
-  if (!(root.children.length > 0 && root.children.every((node) => node.name === 'svg'))) throw new XmlTreeError('nothing to parse')
-  return root.children.length === 1 ? root.children[0] : root.children
+  return svgRoots(parseXmlElements(input))
+}
+
+/** The top-level nodes of the text, as svgson reads them before it looks for <svg>. */
+export function parseXmlElements(input: string): XmlNode[] {
+  return readTree(`<root>${input}</root>`).children
+}
+
+/** svgson's last step: the one <svg> element, an array when there are several, or an XmlTreeError. */
+export function svgRoots(nodes: XmlNode[]): XmlNode | XmlNode[] {
+  if (!(nodes.length > 0 && nodes.every((node) => node.name === 'svg'))) throw new XmlTreeError('nothing to parse')
+  return nodes.length === 1 ? nodes[0] : nodes
 }
 
 /** xml-lexer and xml-reader over the whole text; the reader's root once it closes. */

@@ -1,3 +1,4 @@
+import { composeAccountMail } from '../services/account-mail'
 import { deliverDueMail, outboxPolicy } from '../services/mail-outbox'
 
 // The outbox's background sender: every MAIL_OUTBOX_INTERVAL_MS (default 250 ms) it delivers the mail that is due,
@@ -11,7 +12,7 @@ export default defineNitroPlugin((nitro) => {
       if (running) return
       running = true
       databaseReady()
-        .then(() => deliverDueMail(useDb(), deliverBySmtp, policy))
+        .then(() => deliverDueMail(useDb(), deliverBySmtp, policy, undefined, composeAccountMail))
         .catch((error) => console.error('[mail] sender failed:', error))
         .finally(() => (running = false))
     },

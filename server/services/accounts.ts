@@ -1,6 +1,7 @@
 import type { Knex } from 'knex'
 import type { Role, SessionUser } from '#shared/roles'
 import { Conflict, Forbidden, InvalidInput, NotFound, Unauthorized } from '../utils/errors'
+import { passwordChangedMail, signUpAttemptMail, verificationMail } from './account-mail'
 import { endAllSessions } from './sessions'
 import { consumeToken, issueToken, revokeTokens } from './tokens'
 
@@ -38,21 +39,22 @@ export async function findActiveUser(db: Knex, id: number): Promise<SessionUser 
   return row ? toSessionUser(row) : undefined
 }
 
-export type SignUpResult = { created: true; user: SessionUser; token: string } | { created: false; existing: SessionUser }
-
 /**
- * Creates a member with a confirmation token, or, when the address already has an account, changes
- * nothing and names that account: the route answers the same either way, so sign-up can't be used
- * to learn who has an account. The password is hashed either way, so both take the same time.
+ * Creates a member and mails a confirmation link, or, when the address already has an account, changes nothing and
+ * mails its owner that someone tried: the route answers the same either way, so sign-up can't be used to learn who
+ * has an account. The password is hashed either way, so both take the same time. The mail commits with the change.
  */
-export async function signUp(db: Knex, input: { name: string; email: string; password: string }): Promise<SignUpResult> {
+export async function signUp(db: Knex, input: { name: string; email: string; password: string }): Promise<{ created: boolean }> {
   const passwordHash = await hashPassword(input.password)
   return db.transaction(async (trx) => {
     const existing = await trx<UserRow>('users').where({ email: input.email }).first()
-    if (existing) return { created: false, existing: toSessionUser(existing) }
+    if (existing) {
+      await signUpAttemptMail(trx, toSessionUser(existing))
+      return { created: false }
+    }
     const [id] = await trx('users').insert({ name: input.name, email: input.email, password_hash: passwordHash, role: 'member' })
-    const token = await issueToken(trx, id!, 'verify-email')
-    return { created: true, user: { id: id!, email: input.email, name: input.name, role: 'member' as Role }, token }
+    await verificationMail(trx, { id: id!, email: input.email, name: input.name, role: 'member' as Role }, await issueToken(trx, id!, 'verify-email'))
+    return { created: true }
   })
 }
 
@@ -79,15 +81,6 @@ export async function authenticate(db: Knex, email: string, password: string): P
   return toSessionUser(row)
 }
 
-/** Returns a reset token for a known, enabled account, or null; the route answers the same either way. */
-export async function requestPasswordReset(db: Knex, email: string) {
-  return db.transaction(async (trx) => {
-    const row = await trx<UserRow>('users').where({ email }).whereNull('disabled_at').first()
-    if (!row) return null
-    return { user: toSessionUser(row), token: await issueToken(trx, row.id, 'reset-password') }
-  })
-}
-
 export async function resetPassword(db: Knex, token: string, newPassword: string): Promise<SessionUser> {
   const passwordHash = await hashPassword(newPassword)
   return db.transaction(async (trx) => {
@@ -99,7 +92,9 @@ export async function resetPassword(db: Knex, token: string, newPassword: string
     // Whoever knew the old password (or holds an old session or link) is out.
     await revokeTokens(trx, userId, 'reset-password')
     await endAllSessions(trx, userId)
-    return toSessionUser((await trx<UserRow>('users').where({ id: userId }).first())!)
+    const user = toSessionUser((await trx<UserRow>('users').where({ id: userId }).first())!)
+    await passwordChangedMail(trx, user)
+    return user
   })
 }
 
@@ -115,6 +110,7 @@ export async function changePassword(db: Knex, userId: number, currentPassword: 
     await trx('users').where({ id: userId }).update({ password_hash: passwordHash, updated_at: new Date().toISOString() })
     await revokeTokens(trx, userId, 'reset-password')
     await endAllSessions(trx, userId, keepSessionId)
+    await passwordChangedMail(trx, row)
   })
 }
 

@@ -7,6 +7,7 @@ import { nowIso } from '../utils/rows'
 import { getCutter, type Cutter } from './catalog/cutters'
 import { listClosures, listOpeningHours } from './catalog/opening-hours'
 import { hasValidSignOff } from './catalog/sign-offs'
+import { outageLabel, outagesOverlapping } from './cutter-outage-periods'
 import { sendBookingMail } from './booking-mail'
 import { transitionJob } from './job-states'
 import { currentFiles, jobEstimate, type JobRow } from './jobs'
@@ -20,6 +21,7 @@ export type BookingRefusal =
   | 'cutter-inactive'
   | 'outside-hours'
   | 'closed'
+  | 'out-of-service'
   | 'no-sign-off'
   | 'job-not-approved'
   | 'already-booked'
@@ -102,6 +104,8 @@ async function assertSlotAllowed(trx: Knex, check: SlotCheck): Promise<void> {
   }
   const closure = (await listClosures(trx, { fromIso: startIso })).find((c) => (c.cutterId === null || c.cutterId === cutter.id) && c.startsAt < endIso && c.endsAt > startIso)
   if (closure) throw new BookingRefused('closed', `The ${closure.cutterId ? 'cutter' : 'workshop'} is closed then: ${closure.reason}.`)
+  const [outage] = await outagesOverlapping(trx, { cutterId: cutter.id, fromIso: startIso, toIso: endIso })
+  if (outage) throw new BookingRefused('out-of-service', `${cutter.name} is ${outageLabel(outage)} until about ${describeLocal(outage.end, zone)}. Pick a time after that.`)
   if (!check.block && check.memberId !== null) {
     if (!(await hasValidSignOff(trx, check.memberId, cutter.id, inZone(startIso, zone).toISODate()!))) {
       throw new BookingRefused('no-sign-off', `A valid induction sign-off for ${cutter.name} is needed to book it. Ask the staff about the next induction.`)
@@ -126,7 +130,7 @@ async function assertSlotAllowed(trx: Knex, check: SlotCheck): Promise<void> {
  * write lock before any rule is read — the effect of BEGIN IMMEDIATE, which Knex can't issue — and the
  * database trigger refuses an overlapping row even if two servers share the file.
  */
-async function inBookingTransaction<T>(db: Knex, cutterId: number, work: (trx: Knex.Transaction) => Promise<T>): Promise<T> {
+export async function inBookingTransaction<T>(db: Knex, cutterId: number, work: (trx: Knex.Transaction) => Promise<T>): Promise<T> {
   try {
     return await db.transaction(async (trx) => {
       await trx('cutters').where({ id: cutterId }).update({ updated_at: trx.ref('updated_at') })
@@ -354,12 +358,17 @@ export async function listBookings(db: Knex, viewer: SessionUser, filter: { cutt
   })
 }
 
-/** For the calendar's shading: opening periods and closures of a cutter in a range, in UTC. */
+/** For the calendar's shading: opening periods and closures (out-of-service periods among them) of a cutter in a range, in UTC. */
 export async function cutterAvailability(db: Knex, cutterId: number, from: string, to: string) {
   const settings = await workshopSettings(db)
   const periods = await listOpeningHours(db, cutterId)
   const closures = (await listClosures(db, { fromIso: from })).filter((c) => (c.cutterId === null || c.cutterId === cutterId) && c.startsAt < to)
-  return { timeZone: settings.timeZone, open: openingIntervals(periods, settings.timeZone, from, to), closures: closures.map((c) => ({ start: c.startsAt, end: c.endsAt, reason: c.reason })) }
+  const outages = await outagesOverlapping(db, { cutterId, fromIso: from, toIso: to })
+  return {
+    timeZone: settings.timeZone,
+    open: openingIntervals(periods, settings.timeZone, from, to),
+    closures: [...closures.map((c) => ({ start: c.startsAt, end: c.endsAt, reason: c.reason })), ...outages.map((o) => ({ start: o.start, end: o.end, reason: outageLabel(o) }))],
+  }
 }
 
 /** The first free starts on the grid that fit `minutes`, inside opening hours and outside closures and bookings. */

@@ -9,7 +9,17 @@ export interface MailMessage {
   paragraphs: string[]
   action?: { label: string; url: string }
   attachments?: { filename: string; content: string; contentType: string; encoding?: 'base64' }[]
+  /**
+   * A mail whose content the sender decides when it takes the row (`ComposeMail`), e.g. a reset link for an address
+   * that may have no account: the request writes the same row either way and the sender drops it if there is none.
+   */
+  deferred?: DeferredMailKind
 }
+
+export type DeferredMailKind = 'password-reset' | 'verification'
+
+/** Turns a deferred mail into the mail to send, in the transaction that records it; null: nothing to send. */
+export type ComposeMail = (trx: Knex, message: MailMessage & { deferred: DeferredMailKind }) => Promise<MailMessage | null>
 
 export interface OutboxPolicy {
   /** Attempts before a mail is dead-lettered. */
@@ -48,24 +58,41 @@ export function retryDelayMs(failedAttempts: number, policy: Pick<OutboxPolicy, 
  * Sends the mails that are due, each claimed first (so two senders never send one mail twice), and records
  * the outcome: sent; or tried again later with back-off; or dead after the last attempt.
  */
-export async function deliverDueMail(db: Knex, send: (message: MailMessage) => Promise<void>, policy: OutboxPolicy, now = () => new Date()): Promise<{ sent: number; failed: number; dead: number }> {
+export async function deliverDueMail(db: Knex, send: (message: MailMessage) => Promise<void>, policy: OutboxPolicy, now = () => new Date(), compose?: ComposeMail): Promise<{ sent: number; failed: number; dead: number }> {
   const stale = new Date(now().getTime() - policy.staleClaimMs).toISOString()
   await db('mail_outbox').where({ status: 'sending' }).where('claimed_at', '<', stale).update({ status: 'pending', claimed_at: null })
   const outcome = { sent: 0, failed: 0, dead: 0 }
   // Batch after batch until nothing is due; a failed mail is due again only after its back-off, so this ends.
   for (;;) {
     const due = await db('mail_outbox').where({ status: 'pending' }).where('next_attempt_at', '<=', now().toISOString()).orderBy('id').limit(policy.batch).select('id', 'message_json', 'attempts')
-    await deliverBatch(db, due, send, policy, now, outcome)
+    await deliverBatch(db, due, send, policy, now, outcome, compose)
     if (due.length < policy.batch) return outcome
   }
 }
 
-async function deliverBatch(db: Knex, due: { id: number; message_json: string; attempts: number }[], send: (message: MailMessage) => Promise<void>, policy: OutboxPolicy, now: () => Date, outcome: { sent: number; failed: number; dead: number }): Promise<void> {
+/**
+ * A claimed deferred mail becomes the mail it stands for, written over the row with whatever composing it wrote (a
+ * token), so a retry sends the same mail; or, with nothing to send, the row is dropped. Other mails pass as they are.
+ */
+async function composed(db: Knex, id: number, message: MailMessage, compose: ComposeMail | undefined): Promise<MailMessage | null> {
+  const kind = message.deferred
+  if (!kind) return message
+  return db.transaction(async (trx) => {
+    const mail = compose ? await compose(trx, { ...message, deferred: kind }) : null
+    if (mail) await trx('mail_outbox').where({ id }).update({ recipient: mail.to, subject: mail.subject, message_json: JSON.stringify(mail), updated_at: nowIso() })
+    else await trx('mail_outbox').where({ id }).update({ status: 'dropped', claimed_at: null, updated_at: nowIso() })
+    return mail
+  })
+}
+
+async function deliverBatch(db: Knex, due: { id: number; message_json: string; attempts: number }[], send: (message: MailMessage) => Promise<void>, policy: OutboxPolicy, now: () => Date, outcome: { sent: number; failed: number; dead: number }, compose?: ComposeMail): Promise<void> {
   for (const row of due) {
     const claimed = await db('mail_outbox').where({ id: row.id, status: 'pending' }).update({ status: 'sending', claimed_at: now().toISOString() })
     if (claimed !== 1) continue
     try {
-      await send(JSON.parse(row.message_json) as MailMessage)
+      const message = await composed(db, row.id, JSON.parse(row.message_json) as MailMessage, compose)
+      if (!message) continue
+      await send(message)
       await db('mail_outbox').where({ id: row.id }).update({ status: 'sent', sent_at: now().toISOString(), attempts: row.attempts + 1, last_error: null, updated_at: nowIso() })
       outcome.sent++
     } catch (error) {
@@ -100,7 +127,7 @@ export interface UndeliveredMail {
 
 /** Mail not delivered yet: waiting for a retry after a failure, being sent, or dead-lettered. Newest first. */
 export async function undeliveredMail(db: Knex): Promise<UndeliveredMail[]> {
-  const rows = await db('mail_outbox').whereNot('status', 'sent').where((q) => q.where('attempts', '>', 0).orWhere('status', 'dead')).orderBy('id', 'desc').limit(200)
+  const rows = await db('mail_outbox').whereIn('status', ['pending', 'sending', 'dead']).where((q) => q.where('attempts', '>', 0).orWhere('status', 'dead')).orderBy('id', 'desc').limit(200)
   return rows.map((r) => ({ id: r.id, recipient: r.recipient, subject: r.subject, status: r.status, attempts: r.attempts, lastError: r.last_error, nextAttemptAt: r.next_attempt_at, createdAt: r.created_at }))
 }
 

@@ -9,7 +9,6 @@ import { balancesOwed } from './balance'
 import { transitionJob, type TransitionRecord } from './job-states'
 import { currentFiles, jobEstimate, jobForViewer, type JobRow } from './jobs'
 import { formatMinor } from './money'
-import { sendPaymentReceipts } from './payment-mail'
 import { sendPickupMail } from './pickup-mail'
 import { quoteCut, settleCut, type CutQuote, type Settlement } from './payments'
 
@@ -163,7 +162,6 @@ export async function reconcileUnfinishedCuts(db: Knex, olderThanMs = FINISH_STA
     const staff = await db('users').where({ id: job.finishing_by }).first('id', 'email', 'name', 'role')
     const settlement = await settleCut(db, booking.id, job.finishing_minutes)
     await commitFinish(db, job, staff as SessionUser, job.finishing_minutes, `${job.finishing_comment} (completed by the payment check)`)
-    await sendPaymentReceipts(db, { bookingId: settlement.bookingId, memberId: settlement.memberId, kinds: settlement.newKinds, detail: `${settlement.actualMinutes} machine minutes used (estimated ${settlement.estimateMinutes}).` })
     finished.push(settlement)
   }
   return { finished, reopened }
@@ -200,7 +198,7 @@ export async function collectWithCode(db: Knex, staff: SessionUser, code: string
     if (job.state !== 'ready') throw new Conflict('This code was already used: the parts were collected.')
     const [owed] = await balancesOwed(trx, { jobId: job.id })
     if (owed && !handOverWithBalanceOwed) {
-      throw new Conflict(`The member still owes ${formatMinor(owed.balanceMinor, owed.currency)} for this cut. Ask them to pay it under "My payments", or confirm the hand-over anyway.`, { reason: 'balance-owed', ...owed })
+      throw new Conflict(`The member still owes ${formatMinor(owed.balanceMinor, owed.currency)} for "${job.title}". Ask them to pay it under "My payments", or confirm the hand-over anyway.`, { reason: 'balance-owed', ...owed })
     }
     const record = await transitionJob(trx, job.id, 'markCollected', staff, { comment: `Collected with the pickup code${owed ? `; handed over with ${formatMinor(owed.balanceMinor, owed.currency)} still owed` : ''}` })
     await trx('jobs').where({ id: job.id }).update({ collected_at: nowIso() })

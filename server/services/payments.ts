@@ -10,6 +10,7 @@ import { getCutter } from './catalog/cutters'
 import { transitionJob } from './job-states'
 import { currentFiles, jobEstimate, type JobRow } from './jobs'
 import { balancesOwed } from './balance'
+import { queueReceipt } from './payment-mail'
 import { formatMinor, percentOf, priceCut, withBuffer } from './money'
 import { workshopSettings } from './settings'
 
@@ -48,14 +49,21 @@ class PaymentServiceError extends DomainError {
   }
 }
 
-/** Records one money event once: a second report of the same event (same key) changes nothing. */
-async function record(db: Knex, booking: PaidBooking, entry: { kind: LedgerKind; amountMinor: number; currency: string; objectId: string; key: string; note?: string }): Promise<boolean> {
-  return insertedNow(
-    db('payment_ledger')
-      .insert({ booking_id: booking.id, job_id: booking.job_id, member_id: booking.member_id, kind: entry.kind, amount_minor: entry.amountMinor, currency: entry.currency, stripe_object_id: entry.objectId, ledger_key: entry.key, note: entry.note ?? '' })
-      .onConflict('ledger_key')
-      .ignore(),
-  )
+/**
+ * Records one money event once: a second report of the same event (same key) changes nothing. The member's receipt
+ * for a new entry is written in the same transaction (`detail`: a line to add to it), so it goes out exactly once.
+ */
+async function record(db: Knex, booking: PaidBooking, entry: { kind: LedgerKind; amountMinor: number; currency: string; objectId: string; key: string; note?: string }, detail?: string): Promise<boolean> {
+  return db.transaction(async (trx) => {
+    const inserted = await insertedNow(
+      trx('payment_ledger')
+        .insert({ booking_id: booking.id, job_id: booking.job_id, member_id: booking.member_id, kind: entry.kind, amount_minor: entry.amountMinor, currency: entry.currency, stripe_object_id: entry.objectId, ledger_key: entry.key, note: entry.note ?? '' })
+        .onConflict('ledger_key')
+        .ignore(),
+    )
+    if (inserted) await queueReceipt(trx, booking.member_id, entry, detail)
+    return inserted
+  })
 }
 
 /**
@@ -159,7 +167,7 @@ export async function releaseExpiredHolds(db: Knex): Promise<number> {
  * Brings the ledger in line with a PaymentIntent as Stripe reports it now. Every webhook ends here with
  * a freshly retrieved PaymentIntent, so duplicates and out-of-order events can't double-count.
  */
-export async function syncPaymentIntent(db: Knex, intent: Stripe.PaymentIntent): Promise<{ booking: PaidBooking; newKinds: LedgerKind[] } | null> {
+export async function syncPaymentIntent(db: Knex, intent: Stripe.PaymentIntent, receiptDetail?: string): Promise<{ booking: PaidBooking; newKinds: LedgerKind[] } | null> {
   const bookingId = Number(intent.metadata?.bookingId)
   const booking = Number.isInteger(bookingId) ? await db<PaidBooking>('bookings').where({ id: bookingId }).first() : undefined
   if (!booking) return null
@@ -167,7 +175,7 @@ export async function syncPaymentIntent(db: Knex, intent: Stripe.PaymentIntent):
   const purpose = intent.metadata?.purpose ?? 'booking'
   const newKinds: LedgerKind[] = []
   const note = async (kind: LedgerKind, amountMinor: number, key: string, text = '') => {
-    if (amountMinor > 0 && (await record(db, booking, { kind, amountMinor, currency, objectId: intent.id, key, note: text }))) newKinds.push(kind)
+    if (amountMinor > 0 && (await record(db, booking, { kind, amountMinor, currency, objectId: intent.id, key, note: text }, receiptDetail))) newKinds.push(kind)
   }
   if (purpose === 'balance') {
     if (intent.status === 'succeeded') await note('charged', intent.amount_received, `charge:${intent.id}`, 'Balance over the held amount')
@@ -266,19 +274,20 @@ export async function settleCut(db: Knex, bookingId: number, actualMinutes: numb
   const current = await stripe.paymentIntents.retrieve(booking.payment_intent_id)
   const alreadyCaptured = current.status === 'succeeded'
   const intent = alreadyCaptured ? current : await stripe.paymentIntents.capture(booking.payment_intent_id, { amount_to_capture: quote.captureMinor }, { idempotencyKey: `capture-${booking.payment_intent_id}` })
-  const synced = await syncPaymentIntent(db, intent)
+  const detail = `${actualMinutes} machine minutes used (estimated ${quote.estimateMinutes}).`
+  const synced = await syncPaymentIntent(db, intent, detail)
   const capturedMinor = intent.amount_received
   const newKinds = [...(synced?.newKinds ?? [])]
   if (capturedMinor > chargeMinor) {
     // The earlier capture was for more minutes than finally logged: the difference goes back to the card.
     const refund = await stripe.refunds.create({ payment_intent: intent.id, amount: capturedMinor - chargeMinor, metadata: { bookingId: String(booking.id) } }, { idempotencyKey: `recapture-refund-${intent.id}-${chargeMinor}` })
-    if (await record(db, booking, { kind: 'refunded', amountMinor: refund.amount, currency, objectId: refund.id, key: `refund:${refund.id}`, note: `Finished with ${actualMinutes} minutes; the earlier capture was for more` })) newKinds.push('refunded')
+    if (await record(db, booking, { kind: 'refunded', amountMinor: refund.amount, currency, objectId: refund.id, key: `refund:${refund.id}`, note: `Finished with ${actualMinutes} min of cutting; the earlier capture was for more` }, detail)) newKinds.push('refunded')
   }
   const balanceMinor = Math.max(0, chargeMinor - capturedMinor)
   let balanceUrl: string | null = null
   if (balanceMinor > 0) {
     // The debt is on the ledger before any checkout exists, so it stays payable from "My payments" if Stripe fails now.
-    await record(db, booking, { kind: 'owed', amountMinor: balanceMinor, currency, objectId: booking.payment_intent_id, key: `owed:${booking.id}`, note: `${actualMinutes} minutes cut; the hold covered ${formatMinor(capturedMinor, currency)}` })
+    await record(db, booking, { kind: 'owed', amountMinor: balanceMinor, currency, objectId: booking.payment_intent_id, key: `owed:${booking.id}`, note: `${actualMinutes} min of cutting; the hold covered ${formatMinor(capturedMinor, currency)}` })
     balanceUrl = await openBalanceCheckout(db, booking.id)
       .then((checkout) => checkout.url)
       .catch((error) => {
@@ -356,9 +365,9 @@ export async function refundBooking(db: Knex, staff: SessionUser, bookingId: num
   return (await db<LedgerRow>('payment_ledger').where({ ledger_key: `refund:${refund.id}` }).first())!
 }
 
-/** A webhook event, verified by the route. Returns what changed, for receipts. */
-export async function handleStripeEvent(db: Knex, event: Stripe.Event): Promise<{ booking: PaidBooking; newKinds: LedgerKind[] } | null> {
-  const firstTime = await insertedNow(db('stripe_events').insert({ id: event.id, type: event.type }).onConflict('id').ignore())
+/** A webhook event, verified by the route; the ledger (and its receipts) follow the PaymentIntent's state now. */
+export async function handleStripeEvent(db: Knex, event: Stripe.Event): Promise<void> {
+  await db('stripe_events').insert({ id: event.id, type: event.type }).onConflict('id').ignore()
   const object = event.data.object as { object: string; id: string; payment_intent?: string | Stripe.PaymentIntent | null }
   let intentId: string | null = null
   if (object.object === 'payment_intent') intentId = object.id
@@ -369,10 +378,9 @@ export async function handleStripeEvent(db: Knex, event: Stripe.Event): Promise<
       const booking = await db('bookings').where({ checkout_session_id: object.id }).first('id')
       if (booking) await releaseUnpaidBooking(db, booking.id, 'Not paid in time')
     }
-    return null
+    return
   }
-  const result = await syncPaymentIntent(db, await useStripe().paymentIntents.retrieve(intentId))
-  return result && (firstTime || result.newKinds.length > 0) ? result : null
+  await syncPaymentIntent(db, await useStripe().paymentIntents.retrieve(intentId))
 }
 
 export interface PaymentView {

@@ -3,7 +3,8 @@ import { TooManyRequests } from './errors'
 const WINDOW_MS = 60_000
 const MESSAGE = 'Too many attempts. Please wait a minute and try again.'
 // However many addresses and accounts are tried, the limiter holds at most MAX_KEYS keys and MAX_HITS
-// times in all (some 20 MB at worst); when full, the keys hit least recently go first. A key keeps its
+// times in all (some 20 MB at worst); when full, the keys hit least recently go first. Every hit also sweeps out
+// the keys whose last hit is a minute old, so the store shrinks back once an attack stops. A key keeps its
 // newest MAX_HITS_PER_KEY times, so a higher limit is enforced as that many.
 export const MAX_KEYS = 50_000
 export const MAX_HITS = 500_000
@@ -49,7 +50,19 @@ export function assertUnderRateLimit(keys: string[], requestedLimit: number, now
   if (retryAfterMs > 0) throw new TooManyRequests(MESSAGE, Math.ceil(retryAfterMs / 1000))
 }
 
+/**
+ * Forgets every key whose newest hit is a minute old. The map is in order of last hit, so the sweep walks from the
+ * front and stops at the first key still counting: after a burst of many keys the memory goes back with the next hit.
+ */
+export function sweepRateLimits(now = Date.now()): void {
+  for (const [key, times] of hits) {
+    if (now - times[times.length - 1]! < WINDOW_MS) return
+    forget(key)
+  }
+}
+
 export function recordRateLimitHit(keys: string[], now = Date.now()): void {
+  sweepRateLimits(now)
   for (const key of keys) {
     const times = recent(key, now)
     hits.delete(key)

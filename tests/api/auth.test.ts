@@ -121,9 +121,14 @@ describe('credentials and rate limits', () => {
   })
 
   it('never refuses people signing in successfully behind one shared address', async () => {
+    // More successes than the address may fail (30): a success that counted would be refused here.
     const school = '192.0.2.44'
     const statuses: number[] = []
-    for (let i = 0; i < 15; i++) statuses.push((await client(school).post('/api/auth/sign-in', { email: 'member@example.test', password: DEMO_PASSWORD })).status)
+    for (let batch = 0; batch < 4; batch++) {
+      const signIns = Array.from({ length: 8 }, () => client(school).post('/api/auth/sign-in', { email: 'member@example.test', password: DEMO_PASSWORD }))
+      statuses.push(...(await Promise.all(signIns)).map((r) => r.status))
+    }
+    expect(statuses).toHaveLength(32)
     expect(statuses.every((s) => s === 200)).toBe(true)
   })
 

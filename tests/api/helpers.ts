@@ -13,8 +13,7 @@ export interface ApiResponse<T = unknown> {
 let addressCounter = 0
 
 /** A client that keeps its own session cookie and appears to come from its own IP address. */
-export function client(ip = `10.0.${Math.floor(Math.random() * 250)}.${++addressCounter % 250}`) {
-  const baseUrl = inject('baseUrl')
+export function client(ip = `10.0.${Math.floor(Math.random() * 250)}.${++addressCounter % 250}`, baseUrl = inject('baseUrl')) {
   let cookie = ''
   async function request<T = any>(method: string, path: string, body?: unknown, raw?: string | FormData): Promise<ApiResponse<T>> {
     const headers: Record<string, string> = { 'x-forwarded-for': ip, accept: 'application/json' }
@@ -53,8 +52,8 @@ export function client(ip = `10.0.${Math.floor(Math.random() * 250)}.${++address
   }
 }
 
-export async function signedIn(email: string, password = DEMO_PASSWORD) {
-  const c = client()
+export async function signedIn(email: string, password = DEMO_PASSWORD, baseUrl = inject('baseUrl')) {
+  const c = client(undefined, baseUrl)
   const response = await c.post('/api/auth/sign-in', { email, password })
   if (response.status !== 200) throw new Error(`sign-in as ${email} failed: ${response.status} ${JSON.stringify(response.body)}`)
   return c

@@ -10,6 +10,10 @@ import { freePort } from '../../scripts/lib/free-port'
 import { startSmtpSink, type SmtpSink } from '../../scripts/lib/smtp-sink'
 import { DEMO_PASSWORD } from './helpers'
 
+// The sender's deadline for each SMTP stage. A request that waited for the silent mail server could not answer
+// before it; every request here must.
+const SMTP_DEADLINE_MS = 5000
+
 let app: BuiltApp
 let smtpPort: number
 let silent: { server: Server; sockets: Set<Socket> } | null = null
@@ -44,7 +48,7 @@ async function call(path: string, body?: unknown, cookie = '') {
   return { status: response.status, body: text ? JSON.parse(text) : null, ms: Date.now() - started, cookie: response.headers.getSetCookie()[0]?.split(';')[0] ?? '' }
 }
 
-async function until<T>(what: string, probe: () => T | undefined | Promise<T | undefined>, timeoutMs = 15_000): Promise<T> {
+async function until<T>(what: string, probe: () => T | undefined | Promise<T | undefined>, timeoutMs = 20_000): Promise<T> {
   const deadline = Date.now() + timeoutMs
   while (Date.now() < deadline) {
     const found = await probe()
@@ -59,7 +63,7 @@ beforeAll(async () => {
   silent = await startSilentServer(smtpPort)
   app = await startBuiltApp({
     name: 'kerfbook-mail-outbox',
-    env: { SMTP_URL: `smtp://127.0.0.1:${smtpPort}`, TRUST_PROXY: '1', MAIL_TIMEOUT_MS: '500', MAIL_RETRY_BASE_MS: '200', MAIL_RETRY_MAX_MS: '500', MAIL_MAX_ATTEMPTS: '1000', MAIL_OUTBOX_INTERVAL_MS: '100' },
+    env: { SMTP_URL: `smtp://127.0.0.1:${smtpPort}`, TRUST_PROXY: '1', MAIL_TIMEOUT_MS: String(SMTP_DEADLINE_MS), MAIL_RETRY_BASE_MS: '200', MAIL_RETRY_MAX_MS: '500', MAIL_MAX_ATTEMPTS: '1000', MAIL_OUTBOX_INTERVAL_MS: '100' },
   })
 })
 
@@ -75,12 +79,18 @@ describe('the mail outbox', () => {
     // Requests that mail answer without waiting for the mail server (before the outbox: 60 s, or never).
     const signUp = await call('/api/auth/sign-up', { name: 'Perpetua Quill', email, password: 'long-enough-pass' })
     expect(signUp.status).toBe(201)
-    expect(signUp.ms).toBeLessThan(3000)
+    expect(signUp.ms).toBeLessThan(SMTP_DEADLINE_MS)
+    const nobody = `nobody-${Date.now()}@example.test`
     const known = await call('/api/auth/forgot-password', { email: 'member@example.test' })
-    const unknown = await call('/api/auth/forgot-password', { email: `nobody-${Date.now()}@example.test` })
+    const unknown = await call('/api/auth/forgot-password', { email: nobody })
     expect([known.status, unknown.status]).toEqual([200, 200])
-    expect(known.body.message.replace('member@example.test', '')).toBe(unknown.body.message.replace(/nobody-\d+@example\.test/, ''))
-    expect(Math.max(known.ms, unknown.ms)).toBeLessThan(3000)
+    expect(known.body.message.replace('member@example.test', '')).toBe(unknown.body.message.replace(nobody, ''))
+    expect(Math.max(known.ms, unknown.ms)).toBeLessThan(SMTP_DEADLINE_MS)
+    // The same work for both: one outbox row each, written by the request; the sender decides what becomes of it.
+    const outbox = new Database(app.databasePath, { readonly: true })
+    const rows = outbox.prepare("select recipient, subject from mail_outbox where recipient in ('member@example.test', ?) and subject = 'Reset your password'").all(nobody)
+    outbox.close()
+    expect(rows).toHaveLength(2)
 
     // Staff see the mails the silent server holds up, with the reason.
     const staff = await call('/api/auth/sign-in', { email: 'staff@example.test', password: DEMO_PASSWORD })
@@ -98,7 +108,7 @@ describe('the mail outbox', () => {
     await stopSilentServer()
     const again = await call('/api/auth/verification-mail', { email })
     expect(again.status).toBe(200)
-    expect(again.ms).toBeLessThan(3000)
+    expect(again.ms).toBeLessThan(SMTP_DEADLINE_MS)
     await until('a refused attempt', async () => {
       const list = (await call('/api/staff/mail-outbox', undefined, staff.cookie)).body as { recipient: string; lastError: string }[]
       return list.find((m) => m.recipient === email && /ECONNREFUSED/.test(m.lastError))

@@ -185,6 +185,13 @@ const freshDxfLayer = async () => {
   const staff = await signedIn(CALLER_EMAILS.staff)
   return { id: created(await staff.post('/api/catalog/dxf-layers', { layer: `matrix-${randomBytes(4).toString('hex')}`, operation: 'ignore' }), 'a DXF layer mapping') }
 }
+/** An out-of-service period on a cutter of its own, so it calls off nobody's booking. */
+const freshOutage = async (w: World) => {
+  const staff = await signedIn(CALLER_EMAILS.staff)
+  const outage = await staff.post('/api/outages', { cutterId: await w.freshCutter(), reason: 'Matrix outage', start: w.bench.at(300, '09:00'), expectedBackAt: w.bench.at(300, '12:00') })
+  if (outage.status !== 201) throw new Error(`could not create an outage: ${outage.status} ${JSON.stringify(outage.body)}`)
+  return { id: outage.body.outage.id as number }
+}
 const jobFile = (w: World) => ({ id: w.jobId, fileId: w.fileId })
 const freshJob = async (w: World) => ({ id: await w.freshJob() })
 const booking = (w: World) => ({ id: w.bookingId })
@@ -310,6 +317,15 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   // The code exists only while the parts wait, and only the owner ever reads it; staff ask the member.
   'GET /api/jobs/:id/pickup': { policy: { anonymous: 401, member: 404, otherMember: 404, staff: 404, admin: 404 }, params: job },
   'POST /api/pickups/collect': { policy: staffOnly() },
+  'GET /api/me/units': { policy: signedInOnly() },
+  'PATCH /api/me/units': { policy: signedInOnly('passes') },
+  'GET /api/home/member': { policy: signedInOnly() },
+  'GET /api/home/staff': { policy: staffOnly('ok') },
+  'GET /api/home/admin': { policy: adminOnly('ok') },
+  'GET /api/outages': { policy: staffOnly('ok') },
+  'POST /api/outages': { policy: staffOnly() },
+  'PATCH /api/outages/:id': { policy: staffOnly('ok'), params: freshOutage },
+  'POST /api/outages/:id/end': { policy: staffOnly('ok'), params: freshOutage },
   'GET /api/run-sheet': { policy: staffOnly('ok'), query: (w) => `cutter=${w.bench.cutterId}&date=2027-01-04` },
   // Reports.
   'GET /api/reports/utilisation': { policy: staffOnly('ok') },

@@ -1,5 +1,6 @@
 // The session cookie's flags, refusal of cross-site changes, and the security headers of pages and API.
 import { createHash } from 'node:crypto'
+import { readdirSync, readFileSync } from 'node:fs'
 import { describe, expect, inject, it } from 'vitest'
 import { DEMO_PASSWORD, signedIn } from './helpers'
 
@@ -132,5 +133,10 @@ describe('development helpers', () => {
     expect((await admin.get('/api/dev/outbox')).status).toBe(404)
     expect((await staff.get('/api/dev/outbox')).status).toBe(404)
     expect((await fetch(`${baseUrl()}/api/dev/outbox`)).status).toBe(404)
+    // Not a route that refuses: no route at all. The built server's route table does not name it.
+    const chunks = readdirSync('.output/server/chunks', { recursive: true, encoding: 'utf8' }).filter((file) => file.endsWith('.mjs'))
+    const routeTable = chunks.map((file) => readFileSync(`.output/server/chunks/${file}`, 'utf8')).find((text) => /route:\s*["']\/api\/me["']/.test(text))
+    expect(routeTable).toBeDefined()
+    expect(routeTable).not.toMatch(/route:\s*["']\/api\/dev\//)
   })
 })

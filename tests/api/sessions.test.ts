@@ -59,6 +59,8 @@ describe('sessions that end', () => {
     const reset = await client().post('/api/auth/reset-password', { token, password: 'intruders-password' })
     expect(reset.status).toBe(400)
     expect((await client().post('/api/auth/sign-in', { email, password: 'second-password-2' })).status).toBe(200)
+    // The owner hears of it, in case it was not them.
+    expect((await waitForMail(email, /Your password was changed/)).text).toContain('reset it now')
   })
 
   it('ends every session on a password reset', async () => {
@@ -68,6 +70,7 @@ describe('sessions that end', () => {
     const token = linkToken(await waitForMail(email, /Reset your password/), '/reset-password')
     expect((await client().post('/api/auth/reset-password', { token, password: 'a-brand-new-secret' })).status).toBe(200)
     expect((await withCookie(intruder, '/api/me')).status).toBe(401)
+    await waitForMail(email, /Your password was changed/)
   })
 
   it('signs out everywhere from the account page’s action', async () => {

@@ -20,10 +20,11 @@ export interface BookingBench {
 
 let counter = 0
 
-export async function bookingBench(): Promise<BookingBench> {
-  const admin = await signedIn('admin@example.test')
-  const staff = await signedIn('staff@example.test')
-  const member = await signedIn('member@example.test')
+/** Against the tests' server, or the one at `baseUrl` (a test that starts a server of its own). */
+export async function bookingBench(baseUrl?: string): Promise<BookingBench> {
+  const admin = await signedIn('admin@example.test', undefined, baseUrl)
+  const staff = await signedIn('staff@example.test', undefined, baseUrl)
+  const member = await signedIn('member@example.test', undefined, baseUrl)
   const name = `Bench laser ${Date.now()}-${++counter}`
   const cutter = await admin.post('/api/catalog/cutters', {
     name, kind: 'co2-laser', bedWidthMm: 1000, bedHeightMm: 600, maxThicknessMm: 8, pricePerMinuteMinor: 100, currency: 'EUR',

@@ -157,6 +157,19 @@ export const browserTest = test.extend<{ browser: BrowserSession }>({
   },
 })
 
+/** browserTest with a second browser, `staff`, for the people at the desk; it is checked for problems like the first. */
+export const browserTestWithStaff = browserTest.extend<{ staff: BrowserSession }>({
+  staff: async ({}, use) => {
+    const staff = await BrowserSession.launch()
+    try {
+      await use(staff)
+      expect(staff.unexpectedProblems(), 'console errors or failed requests in the staff browser').toEqual([])
+    } finally {
+      await staff.close()
+    }
+  },
+})
+
 /** Saves a full-page screenshot as tests/artifacts/screenshots/<name>.png once the page is quiet. */
 export async function screenshot(page: Page, name: string): Promise<void> {
   mkdirSync(SCREENSHOT_DIR, { recursive: true })

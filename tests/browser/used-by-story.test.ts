@@ -9,7 +9,7 @@ import { linkToken, uniqueEmail, waitForMail } from '../api/helpers'
 import { CARD_PAYS } from '../api/payment-helpers'
 import { foldPanel, NARROW_PINCH_MM, SOUND_PINCH_MM } from '../fixtures/fold-panel'
 import { formatMoney } from '../../utils/format'
-import { BrowserSession, browserTest, checkAccessibility, expectVisibleFocus, screenshot, signInThroughForm, tabThrough } from './browser'
+import { browserTestWithStaff, checkAccessibility, expectVisibleFocus, screenshot, signInThroughForm, tabThrough } from './browser'
 
 const LASER = 'Heron — CO₂ laser'
 const MATERIAL = 'Birch plywood 3 mm'
@@ -18,18 +18,8 @@ const JOB_TITLE = 'Pleated lamp shade'
 const PATTERN_FILE = 'lamp-panel.svg'
 const SHELF = 'Shelf B, bin 7'
 
-/** A second browser for the staff at the desk, checked for problems like the member's own. */
-const storyTest = browserTest.extend<{ staff: BrowserSession }>({
-  staff: async ({}, use) => {
-    const staff = await BrowserSession.launch()
-    try {
-      await use(staff)
-      expect(staff.unexpectedProblems(), 'console errors or failed requests in the staff browser').toEqual([])
-    } finally {
-      await staff.close()
-    }
-  },
-})
+/** The member's browser and the staff's at the desk. */
+const storyTest = browserTestWithStaff
 
 function svgFile(name: string, svg: string) {
   return { name, mimeType: 'image/svg+xml', buffer: Buffer.from(svg) }

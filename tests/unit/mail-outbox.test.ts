@@ -2,7 +2,9 @@
 import knex, { type Knex } from 'knex'
 import { afterEach, beforeEach, describe, expect, it } from 'vitest'
 import { migrationSource } from '../../db/migrations/index'
+import { composeAccountMail, requestAccountMail } from '../../server/services/account-mail'
 import { deliverDueMail, queueMail, retryDelayMs, retryMailNow, undeliveredMail, type MailMessage, type OutboxPolicy } from '../../server/services/mail-outbox'
+import { consumeToken } from '../../server/services/tokens'
 
 const POLICY: OutboxPolicy = { maxAttempts: 3, baseDelayMs: 1000, maxDelayMs: 3000, staleClaimMs: 60_000, batch: 10 }
 const message: MailMessage = { to: 'juno@example.test', subject: 'Cut: Shelf brackets', paragraphs: ['"Shelf brackets" has been cut.'] }
@@ -64,5 +66,67 @@ describe('mail outbox', () => {
     const id = await queueMail(db, message)
     await db('mail_outbox').where({ id }).update({ status: 'sending', claimed_at: new Date(clock - 2 * POLICY.staleClaimMs).toISOString() })
     expect(await deliverDueMail(db, async () => undefined, POLICY, now)).toMatchObject({ sent: 1 })
+  })
+})
+
+describe('a link asked for by address (forgot password, a new confirmation link)', () => {
+  /** The statements a request for `email` runs, with the address itself and the clock taken out. */
+  async function workOf(kind: 'password-reset' | 'verification', email: string) {
+    const statements: string[] = []
+    const log = (query: { sql: string; bindings?: unknown[] }) => statements.push(`${query.sql} [${query.bindings?.length ?? 0} values]`)
+    db.on('query', log)
+    await requestAccountMail(db, kind, email)
+    db.off('query', log)
+    return statements
+  }
+
+  async function account(email: string, verified: boolean): Promise<number> {
+    const [id] = await db('users').insert({ name: 'Juno Castellane', email, password_hash: 'not-used-here', role: 'member', email_verified_at: verified ? new Date().toISOString() : null })
+    return id!
+  }
+
+  it('does the same work for an address with an account and one without; the sender mails the account only', async () => {
+    const userId = await account('juno@example.test', true)
+    const known = await workOf('password-reset', 'juno@example.test')
+    const unknown = await workOf('password-reset', 'nobody@example.test')
+    expect(known.length).toBeGreaterThan(0)
+    expect(unknown).toEqual(known)
+
+    const sent: MailMessage[] = []
+    expect(await deliverDueMail(db, async (m) => void sent.push(m), POLICY, now, composeAccountMail)).toEqual({ sent: 1, failed: 0, dead: 0 })
+    expect(sent.map((m) => [m.to, m.subject])).toEqual([['juno@example.test', 'Reset your password']])
+    const token = sent[0]!.action!.url.match(/\/reset-password\?token=([A-Za-z0-9_-]+)$/)![1]!
+    expect(await consumeToken(db, 'reset-password', token)).toBe(userId)
+    // The request for the address without an account is dropped by the sender: never sent, never shown as undelivered.
+    expect(await db('mail_outbox').where({ recipient: 'nobody@example.test' }).first('status')).toEqual({ status: 'dropped' })
+    expect(await undeliveredMail(db)).toEqual([])
+  })
+
+  it('mails a new confirmation link only to an account still to confirm, the same work either way', async () => {
+    await account('confirmed@example.test', true)
+    await account('waiting@example.test', false)
+    const works: string[][] = []
+    for (const email of ['confirmed@example.test', 'waiting@example.test', 'nobody@example.test']) works.push(await workOf('verification', email))
+    expect(works[1]).toEqual(works[0])
+    expect(works[2]).toEqual(works[0])
+    const sent: MailMessage[] = []
+    await deliverDueMail(db, async (m) => void sent.push(m), POLICY, now, composeAccountMail)
+    expect(sent.map((m) => [m.to, m.subject])).toEqual([['waiting@example.test', 'Confirm your e-mail']])
+  })
+
+  it('sends the same link again when the first attempt fails, instead of a new one', async () => {
+    await account('juno@example.test', true)
+    await requestAccountMail(db, 'password-reset', 'juno@example.test')
+    const attempts: MailMessage[] = []
+    const refuseOnce = async (m: MailMessage) => {
+      attempts.push(m)
+      if (attempts.length === 1) throw new Error('connect ECONNREFUSED 127.0.0.1:25')
+    }
+    expect(await deliverDueMail(db, refuseOnce, POLICY, now, composeAccountMail)).toMatchObject({ failed: 1 })
+    // Staff see it under its real subject and recipient while it waits.
+    expect(await undeliveredMail(db)).toMatchObject([{ recipient: 'juno@example.test', subject: 'Reset your password', attempts: 1 }])
+    clock += retryDelayMs(1, POLICY)
+    expect(await deliverDueMail(db, refuseOnce, POLICY, now, composeAccountMail)).toMatchObject({ sent: 1 })
+    expect(attempts[1]).toEqual(attempts[0])
   })
 })

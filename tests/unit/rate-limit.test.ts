@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { forwardedClient } from '../../server/utils/client-ip'
-import { assertUnderRateLimit, MAX_HITS, MAX_HITS_PER_KEY, MAX_KEYS, rateLimitCount, rateLimitSize, recordRateLimitHit } from '../../server/utils/rate-limit'
+import { assertUnderRateLimit, MAX_HITS, MAX_HITS_PER_KEY, MAX_KEYS, rateLimitCount, rateLimitSize, recordRateLimitHit, sweepRateLimits } from '../../server/utils/rate-limit'
 import { TooManyRequests } from '../../server/utils/errors'
 import { signInSlowDownMs } from '../../server/utils/sign-in-throttle'
 
@@ -34,11 +34,26 @@ describe('the rate limiter', () => {
 
   it('keeps its count of stored times right as times age out and keys are cleared', () => {
     const now = 9_000_000
+    sweepRateLimits(now)
     const before = rateLimitSize().hits
     recordRateLimitHit(['unit:aging', 'unit:aging-2'], now)
     expect(rateLimitSize().hits).toBe(before + 2)
     expect(rateLimitCount('unit:aging', now + 60_001)).toBe(0)
     expect(rateLimitSize().hits).toBe(before + 1)
+  })
+})
+
+describe('the rate limiter after an attack', () => {
+  it('gives the memory of a burst of keys back a minute after their last hit, with the next hit', () => {
+    const now = 20_000_000
+    for (let i = 0; i < 20_000; i++) recordRateLimitHit([`unit:burst-${i}`, `unit:burst-pair-${i}`], now + i / 1000)
+    expect(rateLimitSize().keys).toBeGreaterThanOrEqual(40_000)
+    // Still inside the minute of the newest ones: only the keys whose last hit is a minute old are gone.
+    recordRateLimitHit(['unit:meanwhile'], now + 60_000 + 10)
+    expect(rateLimitSize().keys).toBe(2 * (20_000 - 10_001) + 1)
+    expect(rateLimitCount('unit:burst-19999', now + 60_000 + 10)).toBe(1)
+    recordRateLimitHit(['unit:next-minute'], now + 2 * 60_000 + 20)
+    expect(rateLimitSize()).toEqual({ keys: 1, hits: 1 })
   })
 })
 

@@ -20,8 +20,14 @@ export function checkSmallHoles(geometry: CheckGeometry, params: AnalysisParams,
   }
 }
 
-// Rounding slack, relative to the radius, when telling whether points lie on one circle.
-const ROUNDING_RELATIVE = 1e-9
+// How far, relative to the radius, points may lie off the fitted circle and still be one: a circular arc drawn as
+// cubic Béziers of up to a quarter turn (as svgpath's arc conversion draws it) strays up to 2.7e-4·r from the circle
+// (the standard quarter-circle cubic, control distance 4/3·tan(θ/4)·r, has its largest radial error 2.7e-4·r), and
+// coordinates written with 6 decimals move each point up to 7e-7 mm (1.4e-6·r for a 1 mm hole). A polygon whose
+// corners lie on a circle still fails the chord test below. Common practice, no source: 1e-3·r, with 1e-6 mm so
+// that holes a few micrometres across are not held to float precision.
+const ON_CIRCLE_RELATIVE = 1e-3
+const ON_CIRCLE_ABSOLUTE_MM = 1e-6
 
 /**
  * The diameter when the contour is a flattened circle, otherwise the smaller
@@ -34,17 +40,22 @@ function holeSizeMm(geometry: CheckGeometry, contour: number, chordToleranceMm: 
   const boxSideMm = Math.min(bounds[4 * contour + 2] - bounds[4 * contour], bounds[4 * contour + 3] - bounds[4 * contour + 1])
   const circle = fittedCircle(contours, contour)
   if (circle === null) return boxSideMm
-  const slackMm = ROUNDING_RELATIVE * circle.radiusMm
+  const slackMm = ON_CIRCLE_RELATIVE * circle.radiusMm + ON_CIRCLE_ABSOLUTE_MM
   const { xy } = contours
+  // Flattened curves keep their ends on the circle and bulge out between them (a cubic's arc lies outside the
+  // circle): the nearest point is the drawn radius, which the least-squares radius overshoots by up to ~1e-4·r.
+  let nearestMm = Infinity
   for (let point = contours.start[contour]; point < contours.start[contour + 1] - 1; point++) {
     const x = xy[2 * point]
     const y = xy[2 * point + 1]
     const nextX = xy[2 * point + 2]
     const nextY = xy[2 * point + 3]
-    if (Math.abs(Math.hypot(x - circle.x, y - circle.y) - circle.radiusMm) > slackMm) return boxSideMm
+    const distanceMm = Math.hypot(x - circle.x, y - circle.y)
+    if (Math.abs(distanceMm - circle.radiusMm) > slackMm) return boxSideMm
+    if (distanceMm < nearestMm) nearestMm = distanceMm
     if (Math.hypot((x + nextX) / 2 - circle.x, (y + nextY) / 2 - circle.y) < circle.radiusMm - chordToleranceMm - slackMm) return boxSideMm
   }
-  return 2 * circle.radiusMm
+  return 2 * nearestMm
 }
 
 /**

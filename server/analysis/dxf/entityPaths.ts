@@ -1,15 +1,15 @@
 import type { IArcEntity, ICircleEntity, IEllipseEntity, IEntity, ILineEntity, ILwpolylineEntity, IPolylineEntity } from 'dxf-parser'
 import { PathDataWriter, type Point2 } from './pathData'
 import type { RawGroupEntity } from './rawGroupEntities'
-import { drawSpline, type SplineDefinition, splineProblem } from './spline'
+import { drawFitPointSpline, drawSpline, type FitPointSpline, type SplineDefinition, splineProblem } from './spline'
 
 const FULL_TURN_RAD = 2 * Math.PI
 
 /** Why an entity of a type the reader draws has no path: a LINE without both ends, a 3D mesh, a SPLINE whose numbers describe no curve (`detail` says which). */
 export type EntityProblem = { problem: 'line-without-ends' | '3d-mesh' | 'bad-spline'; detail?: string }
 
-/** What one drawing entity becomes: path data in its own coordinates (`fitPointsOnly`: a SPLINE drawn straight through its fit points, which the member should hear), or why it has none. */
-export type EntityPath = { pathData: string; fitPointsOnly?: boolean } | EntityProblem | undefined
+/** What one drawing entity becomes: path data in its own coordinates, or why it has none. */
+export type EntityPath = { pathData: string } | EntityProblem | undefined
 
 /**
  * Path data for the entity types that draw lines, in the entity's
@@ -83,26 +83,32 @@ function drawVertices(vertices: ReadonlyArray<Point2 & { bulge?: number }>, clos
 }
 
 /**
- * SPLINE groups (DXF reference, SPLINE, from memory): 71 degree, 40 knots,
- * 41 weights, 10/20 control points, 11/21 fit points. A spline given only
- * by fit points is drawn through them straight, which the reader reports.
+ * SPLINE groups (DXF reference, SPLINE): 70 flags (1 closed, 2 periodic),
+ * 71 degree, 40 knots, 41 weights, 10/20 control points, 11/21 fit points,
+ * 12/22 and 13/23 start and end tangents. A spline given only by fit points
+ * is the cubic through them (`drawFitPointSpline`).
  */
 function splinePath(entity: RawGroupEntity, toleranceUnits: number, path: PathDataWriter): EntityPath {
   const spline: SplineDefinition = { degree: 3, knots: [], controlPoints: [], weights: [] }
-  const fitPoints: Point2[] = []
+  const fit: FitPointSpline = { fitPoints: [], closed: false }
   for (const [code, value] of entity.groups) {
     const number = value as number
-    if (code === 71) spline.degree = number
+    if (code === 70) fit.closed = (number & 1) === 1
+    else if (code === 71) spline.degree = number
     else if (code === 40) spline.knots.push(number)
     else if (code === 41) spline.weights.push(number)
     else if (code === 10) spline.controlPoints.push({ x: number, y: 0 })
     else if (code === 20 && spline.controlPoints.length > 0) spline.controlPoints[spline.controlPoints.length - 1].y = number
-    else if (code === 11) fitPoints.push({ x: number, y: 0 })
-    else if (code === 21 && fitPoints.length > 0) fitPoints[fitPoints.length - 1].y = number
+    else if (code === 11) fit.fitPoints.push({ x: number, y: 0 })
+    else if (code === 21 && fit.fitPoints.length > 0) fit.fitPoints[fit.fitPoints.length - 1].y = number
+    else if (code === 12) fit.startTangent = { x: number, y: 0 }
+    else if (code === 22 && fit.startTangent) fit.startTangent.y = number
+    else if (code === 13) fit.endTangent = { x: number, y: 0 }
+    else if (code === 23 && fit.endTangent) fit.endTangent.y = number
   }
-  if (spline.controlPoints.length === 0 && fitPoints.length >= 2) {
-    drawVertices(fitPoints, false, path)
-    return { pathData: path.toString(), fitPointsOnly: true }
+  if (spline.controlPoints.length === 0 && fit.fitPoints.length >= 2) {
+    drawFitPointSpline(fit, path)
+    return { pathData: path.toString() }
   }
   const problem = splineProblem(spline)
   if (problem) return { problem: 'bad-spline', detail: problem }

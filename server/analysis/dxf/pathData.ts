@@ -39,6 +39,13 @@ export class PathDataWriter {
     this.y = y
   }
 
+  /** A cubic Bézier from the current point through the two control points to `to`. */
+  cubicTo(control1: Point2, control2: Point2, to: Point2): void {
+    this.parts.push(`C${this.written(control1.x)} ${control1.y} ${this.written(control2.x)} ${control2.y} ${this.written(to.x)} ${to.y}`)
+    this.x = to.x
+    this.y = to.y
+  }
+
   close(): void {
     this.parts.push('Z')
   }

@@ -3,7 +3,7 @@ import { AnalysisInputError } from '../errors'
 import type { FindingCollector, GroupSpec, SiteList } from '../findings'
 import { applyX, applyY, IDENTITY, type Matrix, multiply, scaling, translation } from '../matrix'
 import type { AnalysisParams } from '../params'
-import type { DrawnElement, ReadDrawing } from '../readSvg'
+import { type DrawnElement, type ReadDrawing, strokeOperation } from '../readSvg'
 import { entityPathData } from './entityPaths'
 import { DxfLayers, effectiveLayer, entityColour } from './layers'
 import { colourHex, DxfOperationMapper } from './operationMapping'
@@ -76,7 +76,7 @@ export function readDxfDocument(dxf: IDxf, params: AnalysisParams, findings: Fin
     const layerName = effectiveLayer(entity, insertLayer)
     const layer = layers.state(layerName)
     const colour = entityColour(entity, layer.colour, byBlockColour)
-    const matrix = withObjectCoordinates(parentMatrix, entity)
+    const matrix = isTiltedInWorld(entity, params.chordToleranceMm / linearScale(parentMatrix)) ? undefined : withObjectCoordinates(parentMatrix, entity)
     // An ELLIPSE's points stay in world coordinates, whatever matrix draws it.
     const findingMatrix = matrix && entity.type !== 'ELLIPSE' ? matrix : parentMatrix
     const at = (point: IPoint | undefined): [number, number] => [applyX(findingMatrix, point?.x ?? 0, point?.y ?? 0), applyY(findingMatrix, point?.x ?? 0, point?.y ?? 0)]
@@ -107,11 +107,11 @@ export function readDxfDocument(dxf: IDxf, params: AnalysisParams, findings: Fin
       reportNotCut({ code: 'dxf-entity-not-read', cause: drawn.problem, facts: drawn.detail === undefined ? undefined : { detail: drawn.detail } }, ...at(firstPointOf(entity)))
       continue
     }
-    if (drawn.fitPointsOnly) reportNotCut({ code: 'dxf-spline-fit-points' }, ...at(firstPointOf(entity)))
     const operation = mapper.operationFor(layerName, colour)
     if (operation === undefined) reportUnmapped(layerName, colour, ...at(firstPointOf(entity)))
     const effective = operation ?? params.unmappedStrokeOperation
-    if (effective !== 'ignore') elements.push({ pathData: drawn.pathData, matrix: mirrored ? multiply(matrix, scaling(-1, 1)) : matrix, operation: effective, filled: false, fillRule: 'nonzero' })
+    // DXF lines are strokes: the engrave layer or colour marks them along the line (strokeOperation), closed or open.
+    if (effective !== 'ignore') elements.push({ pathData: drawn.pathData, matrix: mirrored ? multiply(matrix, scaling(-1, 1)) : matrix, operation: strokeOperation(effective), filled: false, fillRule: 'nonzero' })
   }
   return { elements }
 
@@ -195,6 +195,24 @@ function withObjectCoordinates(matrix: Matrix, entity: IEntity): Matrix | undefi
   if (extrusion.x === 0 && extrusion.y === 0 && extrusion.z > 0) return matrix
   const objectToWorld = objectAxes(extrusion)
   return objectToWorld && multiply(matrix, objectToWorld)
+}
+
+/**
+ * A LINE or 3D POLYLINE (world coordinates) whose points differ in Z by more
+ * than the tolerance leaves the drawing plane: projecting it would shorten
+ * it, so it is reported like an entity in a tilted plane.
+ */
+function isTiltedInWorld(entity: IEntity, toleranceUnits: number): boolean {
+  if (entity.type !== 'LINE' && !(entity.type === 'POLYLINE' && (entity as IPolylineEntity).is3dPolyline)) return false
+  const vertices = (entity as IPolylineEntity).vertices ?? []
+  let low = Infinity
+  let high = -Infinity
+  for (const vertex of vertices) {
+    const z = vertex.z ?? 0
+    if (z < low) low = z
+    if (z > high) high = z
+  }
+  return high - low > toleranceUnits
 }
 
 /** The extrusion direction as dxf-parser (or the raw group reader) gives it, +Z when absent. */

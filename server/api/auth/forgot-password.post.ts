@@ -1,12 +1,11 @@
 import { forgotPasswordSchema } from '#shared/schemas/auth'
-import { requestPasswordReset } from '../../services/accounts'
-import { passwordResetMail } from '../../services/account-mail'
+import { requestAccountMail } from '../../services/account-mail'
 
 export default defineApiHandler(async (event) => {
   const { email } = await readBodyAs(event, forgotPasswordSchema)
   hitRateLimit([`reset:${email}`, `reset-ip:${clientIp(event)}`], serverConfig().signInLimitPerMinute)
-  const issued = await requestPasswordReset(useDb(), email)
-  if (issued) await passwordResetMail(issued.user, issued.token)
-  // The same answer whether or not the address has an account, so it can't be used to probe.
+  // One outbox row whether or not the address has an account (the sender looks it up), so the answer, its work
+  // and its time are the same either way and can't be used to probe.
+  await requestAccountMail(useDb(), 'password-reset', email)
   return { ok: true, message: `If ${email} has an account, a reset link is on its way.` }
 })

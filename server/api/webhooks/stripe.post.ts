@@ -1,5 +1,4 @@
 import { handleStripeEvent } from '../../services/payments'
-import { sendPaymentReceipts } from '../../services/payment-mail'
 import { InvalidInput } from '../../utils/errors'
 
 // Stripe's events, accepted only with a valid Stripe-Signature (HMAC-SHA256, at most five minutes old).
@@ -13,7 +12,7 @@ export default defineApiHandler(async (event) => {
   } catch (error) {
     throw new InvalidInput(`Webhook refused: ${(error as Error).message}`)
   }
-  const result = await handleStripeEvent(useDb(), stripeEvent)
-  if (result?.newKinds.length) await sendPaymentReceipts(useDb(), { bookingId: result.booking.id, memberId: result.booking.member_id, kinds: result.newKinds })
+  // What changed is on the ledger, each new entry with its receipt in the same transaction.
+  await handleStripeEvent(useDb(), stripeEvent)
   return { received: true }
 })

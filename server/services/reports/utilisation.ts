@@ -7,7 +7,7 @@ import { overlapMinutes, reportOf, weekOf, type ReportRange } from './range'
 import { rounded } from './statistics'
 
 /** What is left of an interval once the closures are cut out of it. */
-function withoutClosures(interval: UtcInterval, closures: UtcInterval[]): UtcInterval[] {
+export function withoutClosures(interval: UtcInterval, closures: UtcInterval[]): UtcInterval[] {
   let pieces = [interval]
   for (const closure of closures) {
     pieces = pieces.flatMap((p) => {

@@ -1,7 +1,6 @@
 import { idParamSchema } from '#shared/schemas/auth'
 import { bookingCancelSchema } from '#shared/schemas/bookings'
 import { claimCancellation, commitCancellation, dropCancellationClaim, planCancellation } from '../../../services/bookings'
-import { sendPaymentReceipts } from '../../../services/payment-mail'
 import { settleCancellation } from '../../../services/payments'
 
 // The booking is claimed first (starting the cut is refused from then on), the payment settled next (release, or
@@ -13,11 +12,10 @@ export default defineApiHandler(async (event) => {
   const { reason } = await readBodyAs(event, bookingCancelSchema)
   const plan = await planCancellation(useDb(), user, id, reason)
   await claimCancellation(useDb(), plan)
-  const { feeMinor, newKinds } = await settleCancellation(useDb(), id, plan.terms.feePercent).catch(async (error) => {
+  const { feeMinor } = await settleCancellation(useDb(), id, plan.terms.feePercent).catch(async (error) => {
     await dropCancellationClaim(useDb(), id)
     throw error
   })
   const booking = await commitCancellation(useDb(), plan)
-  await sendPaymentReceipts(useDb(), { bookingId: id, memberId: booking.member_id, kinds: newKinds })
   return { booking, terms: plan.terms, cancelledByStaff: plan.cancelledByStaff, feeMinor }
 })

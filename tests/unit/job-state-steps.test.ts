@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { nextStep } from '../../shared/job-next-step'
+import { nextStep } from '../../shared/job-state-steps'
 import { JOB_STATES } from '../../shared/job-states'
 import { availableActions } from '../../server/services/job-states'
 
