@@ -155,6 +155,30 @@ describe('sign-offs, said when the job is started', () => {
   })
 })
 
+describe('sign-offs, said on the job and at approval', () => {
+  browserTest('a member without the cutter’s sign-off reads it on the job page; the staff read it beside Approve', async ({ browser }) => {
+    const email = uniqueEmail('unsigned')
+    const name = `Wilhelmina Osei-Drummond ${Date.now()}`
+    await client().post('/api/auth/sign-up', { name, email, password: 'long-enough-pass' })
+    await client().post('/api/auth/verify', { token: linkToken(await waitForMail(email, /Confirm your e-mail/), '/verify') })
+    const member = await signedIn(email, 'long-enough-pass')
+    const jobId = await draftWithFile(member, 'Unsigned coasters')
+    expect((await member.post(`/api/jobs/${jobId}/submit`, {})).status).toBe(200)
+
+    const { page } = browser
+    await signInThroughForm(browser, email, 'long-enough-pass')
+    await browser.open(`/jobs/${jobId}`)
+    const warning = page.locator('[data-sign-off-warning]')
+    expect(await warning.textContent()).toContain(`You don't hold a valid induction sign-off for ${cutterName}`)
+    await page.getByRole('button', { name: 'Sign out', exact: true }).click()
+
+    await signInThroughForm(browser, 'staff@example.test')
+    await browser.open(`/jobs/${jobId}`)
+    await page.getByRole('button', { name: 'Approve' }).waitFor()
+    expect(await warning.textContent()).toContain(`${name} holds no valid induction sign-off for ${cutterName}`)
+  })
+})
+
 describe('on a phone (390 × 844)', () => {
   browserTest('the calendar shows one day with controls that fit, and the job’s files are cards that keep their actions', { timeout: 60_000 }, async ({ browser }) => {
     const jobId = await bench.approvedJob('Phone booking')
