@@ -150,8 +150,17 @@ const WORDING: Record<string, Wording> = {
         advice: `The material between them is cut away and the piece comes loose. Keep the cuts at least ${facts.length(facts.number('kerfMm') + facts.number('minBridgeMm'))} apart (kerf plus the minimum bridge).`,
       }
     }
+    // A width below zero is no bridge at all: the two cuts' kerfs overlap by that much.
+    const min = group.stats?.min ?? 0
+    const max = group.stats?.max ?? 0
+    const width =
+      max < 0
+        ? `${count === 1 ? 'is' : 'are'} not there: the cuts overlap by ${formatRangeMm(-max, -min, facts.unit)} after the kerf`
+        : min < 0
+          ? `${count === 1 ? 'is' : 'range'} from cuts overlapping by ${formatRangeMm(-min, -min, facts.unit)} to ${formatRangeMm(max, max, facts.unit)} wide after the kerf`
+          : `${isOrAre(count)} ${range(group, facts)} wide after the kerf`
     return {
-      headline: `${what} ${isOrAre(count)} ${range(group, facts)} wide after the kerf (limit ${facts.mm('limitMm')})`,
+      headline: `${what} ${width} (limit ${facts.mm('limitMm')})`,
       advice: `The minimum bridge for ${facts.mm('thicknessMm')} material on this cutter is ${facts.mm('limitMm')}; narrower ones may tear or burn through. Move the cuts apart, or choose the thinner material the pattern may be drawn for.`,
     }
   },

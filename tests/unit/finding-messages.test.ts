@@ -36,6 +36,15 @@ describe('describeGroup', () => {
     expect(describeGroup(neck).headline).toBe('1 neck within one cut is 0.80 mm wide after the kerf (limit 1.00 mm)')
   })
 
+  it('says the cuts overlap, never a width below zero, when the kerfs run into each other', () => {
+    const facts = { limitMm: 3, kerfMm: 0.2, thicknessMm: 6, minBridgeMm: 3 }
+    const overlapping = group({ code: 'narrow-bridge', cause: 'between-cuts', count: 1, facts, stats: stats(-0.7, -0.7) })
+    expect(describeGroup(overlapping).headline).toBe('1 bridge between cuts is not there: the cuts overlap by 0.70 mm after the kerf (limit 3.00 mm)')
+    const mixed = group({ code: 'narrow-bridge', cause: 'between-cuts', count: 3, facts, stats: stats(-0.7, 1.2) })
+    expect(describeGroup(mixed).headline).toBe('3 bridges between cuts range from cuts overlapping by 0.70 mm to 1.20 mm wide after the kerf (limit 3.00 mm)')
+    expect(describeGroup(mixed).headline).not.toMatch(/-\d/)
+  })
+
   it('gives burnt-away bridges as the distance between the cuts against the kerf', () => {
     const burnt = group({ code: 'narrow-bridge', severity: 'error', cause: 'between-cuts', count: 2, facts: { limitMm: 0, kerfMm: 0.2, thicknessMm: 3, minBridgeMm: 1.5 }, stats: stats(-0.1, -0.05) })
     const { headline, advice } = describeGroup(burnt)
