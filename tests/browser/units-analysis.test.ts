@@ -64,4 +64,31 @@ describe('the check page in inches', () => {
     await screenshot(page, 'check-in-inches')
     await checkAccessibility(page)
   })
+
+  browserTest('the job page names the material, the sheet, the cut length and the warning group in inches', { timeout: 120_000 }, async ({ browser }) => {
+    const email = await memberReadingInches()
+    const member = await signedIn(email)
+    const overview = (await member.get('/api/catalog/overview')).body as { name: string; cutterId: number; materials: { name: string; materialId: number }[] }[]
+    const heron = overview.find((c) => c.name.startsWith('Heron'))!
+    const created = await member.post('/api/jobs', { title: 'Inch panel', cutterId: heron.cutterId, materialId: heron.materials.find((m) => m.name === 'Birch plywood')!.materialId })
+    expect(created.status).toBe(201)
+    const form = new FormData()
+    form.set('file', new Blob([inchPanel()], { type: 'image/svg+xml' }), 'inch-panel.svg')
+    expect((await member.form(`/api/jobs/${created.body.id}/files`, form)).status).toBe(201)
+    const job = (await member.get(`/api/jobs/${created.body.id}`)).body as { sheet: { widthMm: number; heightMm: number } }
+
+    const { page } = browser
+    await signInThroughForm(browser, email)
+    await browser.open(`/jobs/${created.body.id}`)
+    const heading = page.locator('h1 + p')
+    // 3 mm = 0.118 in; the sheet's sides at 25.4 mm to the inch, to the hundredth.
+    const inches = (mm: number) => Number((mm / 25.4).toFixed(2))
+    await expect.poll(() => heading.textContent()).toContain(`Birch plywood 0.118 in · sheet ${inches(job.sheet.widthMm)} × ${inches(job.sheet.heightMm)} in`)
+    const figure = page.locator('dl > div').filter({ has: page.locator('dt', { hasText: /^Cut length$/ }) }).locator('dd')
+    expect(await figure.textContent()).toBe('15.0 in')
+    expect(await page.getByRole('cell', { name: '15.0 in' }).count()).toBeGreaterThan(0)
+    // The warning group waiting for a reason, in inches too.
+    await expect.poll(() => page.locator('main').textContent()).toContain('1 bridge between cuts is 0.060 in wide after the kerf (limit 0.118 in)')
+    expect(await page.locator('main').textContent()).not.toMatch(/\d mm\b/)
+  })
 })
