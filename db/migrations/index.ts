@@ -30,8 +30,7 @@ const migrations: Record<string, Knex.Migration> = {
   '0011_money_mail': moneyMail,
   '0012_user_sessions': userSessions,
   '0014_cutter_outages': cutterOutages,
-  // 0013 runs after 0014 on a new database: 0014 rebuilds the bookings table (Knex's way of adding a foreign key in
-  // SQLite), which drops the table's triggers; 0013 writes the overlap triggers again, with their lower bound.
+  // 0013 landed after 0014; on a new database it runs after it too, and writes the overlap triggers again with their lower bound.
   '0013_history_indexes': historyIndexes,
 }
 

@@ -1,16 +1,17 @@
 import type { Knex } from 'knex'
 import { cautionsFor, type Caution } from '#shared/safety'
 import { gunzipSync } from 'node:zlib'
-import { CLOSED_BIT, decodeGeometry, PREVIEW_OPERATIONS } from '#shared/packed-analysis'
+import { CLOSED_BIT, decodeGeometry, decodeSites, PREVIEW_OPERATIONS } from '#shared/packed-analysis'
 import { NotFound } from '../utils/errors'
 import { balancesOwed } from './balance'
 import { liveBookings } from './bookings'
 import { listColours } from './catalog/colours'
-import { getCutter } from './catalog/cutters'
+import { getCutter, listCutters } from './catalog/cutters'
 import { acknowledgedGroups, type WarningGroupView } from './finding-acknowledgements'
-import { currentFindingGroups, filesOfJobs } from './job-revisions'
+import { currentFindingGroups, filesOfJobs, type FileFindingGroups } from './job-revisions'
 import { currentFiles, estimateLookups, jobEstimate, type JobRow } from './jobs'
 import { timerMinutes, type TimerKind } from './operations'
+import { paymentStateOf, type LedgerRow } from './payments'
 import { workshopSettings } from './settings'
 import { inZone, toUtcIso } from './workshop-time'
 
@@ -27,69 +28,136 @@ export interface RunSheetEntry {
   sheets: { count: number; widthMm: number; heightMm: number }
   files: { name: string; quantity: number; revision: number }[]
   /** The groups of warnings the member accepted, with their reasons and where they are. */
-  warningGroups: WarningGroupView[]
+  warningGroups: (WarningGroupView & { locations: SiteLocation[] })[]
   cautions: Caution[]
   timer: { minutes: number; running: boolean }
+  /** The estimate's cutting minutes (machine time without the setup), to read beside the timer. */
+  estimateMinutes: number
   actualMinutes: number | null
+  /** What the card paid so far for this booking (captures and balances, less refunds), once anything was charged. */
+  chargedMinor: number | null
+  currency: string
   pickupLocation: string | null
   problems: { kind: string; note: string; at: string }[]
 }
 
-/** The day's booked jobs on one cutter, in order, with everything the operator needs at the machine. */
-export async function runSheet(db: Knex, cutterId: number, localDate: string): Promise<{ cutterName: string; date: string; timeZone: string; entries: RunSheetEntry[] }> {
+/** Where a finding is, in mm from the drawing's top-left corner. */
+export interface SiteLocation {
+  x: number
+  y: number
+}
+
+// Enough places to find them at the machine; the job's preview has every one.
+const LOCATIONS_PER_GROUP = 5
+
+/** The first places of each acknowledged group, read from the revision's packed sites (one decode per revision). */
+async function withLocations(db: Knex, fileGroups: FileFindingGroups[], groups: WarningGroupView[]): Promise<RunSheetEntry['warningGroups']> {
+  const revisionOf = (g: WarningGroupView) => fileGroups.find((f) => f.fileId === g.fileId && f.revision === g.revision)!.revisionId
+  // Every revision's sites in one query, however many jobs and files the groups come from.
+  const payloads = groups.length ? await db('revision_payloads').whereIn('file_revision_id', [...new Set(groups.map(revisionOf))]).select('file_revision_id', 'sites_gz') : []
+  const sitesByRevision = new Map<number, ReturnType<typeof decodeSites>>(payloads.map((p: { file_revision_id: number; sites_gz: Buffer }) => [p.file_revision_id, decodeSites(gunzipSync(p.sites_gz))]))
+  const result: RunSheetEntry['warningGroups'] = []
+  for (const g of groups) {
+    const sites = sitesByRevision.get(revisionOf(g))
+    const locations: SiteLocation[] = []
+    for (let row = g.group.firstSite; sites && row < Math.min(g.group.firstSite + g.group.count, g.group.firstSite + LOCATIONS_PER_GROUP, sites.count); row++) {
+      locations.push({ x: sites.xy[2 * row]!, y: sites.xy[2 * row + 1]! })
+    }
+    result.push({ ...g, locations })
+  }
+  return result
+}
+
+export interface RunSheetDay {
+  cutterId: number
+  cutterName: string
+  date: string
+  timeZone: string
+  /** Every cutter in service with the number of jobs booked on it that day, for the choice of cutter. */
+  cutters: { id: number; name: string; bookings: number }[]
+  /** Every job of the day not yet handed over, in order of its booking. */
+  entries: RunSheetEntry[]
+  /** The day's jobs already handed over to their members. */
+  collected: RunSheetEntry[]
+}
+
+/**
+ * The day's booked jobs on one cutter, in order, with everything the operator needs at the machine.
+ * Without a cutter: the preferred one if it has bookings that day, else the one with the most, else the preferred one.
+ */
+export async function runSheet(db: Knex, choice: { cutterId?: number; preferredCutterId?: number }, localDate: string): Promise<RunSheetDay> {
   const settings = await workshopSettings(db)
-  const cutter = await getCutter(db, cutterId)
   const day = inZone(`${localDate}T12:00:00Z`, settings.timeZone).startOf('day')
   if (!day.isValid) throw new NotFound('No such day.')
   const from = toUtcIso(day)
   const to = toUtcIso(day.plus({ days: 1 }))
+  const dayBookings = () => liveBookings(db('bookings').where({ kind: 'job' }).where('starts_at', '>=', from).where('starts_at', '<', to))
+  const counts = new Map<number, number>(((await dayBookings().groupBy('cutter_id').select('cutter_id', db.raw('count(*) as n'))) as { cutter_id: number; n: number }[]).map((r) => [r.cutter_id, Number(r.n)]))
+  const cutters = (await listCutters(db)).map((c) => ({ id: c.id, name: c.name, bookings: counts.get(c.id) ?? 0 }))
+  const busiest = [...cutters].sort((a, b) => b.bookings - a.bookings)[0]
+  const preferred = cutters.find((c) => c.id === choice.preferredCutterId)
+  const cutterId = choice.cutterId ?? (preferred?.bookings ? preferred.id : busiest?.bookings ? busiest.id : (preferred?.id ?? busiest?.id))
+  if (!cutterId) throw new NotFound('No cutter is set up yet.')
+  const cutter = await getCutter(db, cutterId)
   // A fixed number of queries however many jobs the day holds: each kind of record is read for all of them at once.
-  const bookings: (JobRow & Record<string, any>)[] = await liveBookings(db('bookings as b').where({ 'b.cutter_id': cutterId, 'b.kind': 'job' }).where('b.starts_at', '>=', from).where('b.starts_at', '<', to))
-    .join('jobs as j', 'j.id', 'b.job_id')
+  const bookings: (JobRow & Record<string, any>)[] = await dayBookings()
+    .where({ 'bookings.cutter_id': cutterId })
+    .join('jobs as j', 'j.id', 'bookings.job_id')
     .join('users as u', 'u.id', 'j.member_id')
-    // Handed over: nothing left to do at the machine or the shelf.
-    .whereNot('j.state', 'collected')
-    .orderBy('b.starts_at')
-    .select('b.id as booking_id', 'b.starts_at', 'b.ends_at', 'b.status', 'u.name as member_name', 'u.email as member_email', 'j.*')
-  const jobIds = bookings.map((b) => b.id as number)
+    .orderBy('bookings.starts_at')
+    .select('bookings.id as booking_id', 'bookings.starts_at', 'bookings.ends_at', 'bookings.status', 'u.name as member_name', 'u.email as member_email', 'j.*')
+  const jobIds = bookings.map((b) => b.id)
+  const bookingIds = bookings.map((b) => b.booking_id as number)
   const lookups = estimateLookups(db)
-  const [filesByJob, timerEvents, problems, balances] = await Promise.all([
+  const [filesByJob, timerEvents, problems, ledger, balances] = await Promise.all([
     filesOfJobs(db, jobIds),
     db('cut_timer_events').whereIn('job_id', jobIds).orderBy('id').select('job_id', 'kind', 'at') as Promise<{ job_id: number; kind: TimerKind; at: string }[]>,
     db('cut_problems').whereIn('job_id', jobIds).orderBy('id').select('job_id', 'kind', 'note', 'created_at as at') as Promise<{ job_id: number; kind: string; note: string; at: string }[]>,
-    balancesOwed(db, { bookingIds: bookings.map((b) => b.booking_id as number) }),
+    db<LedgerRow>('payment_ledger').whereIn('booking_id', bookingIds).orderBy('id'),
+    balancesOwed(db, { bookingIds }),
   ])
   const withWarnings = [...filesByJob.values()].flat().filter((f) => f.current.counts.warningGroups > 0)
-  const accepted = withWarnings.length ? (await acknowledgedGroups(db, await currentFindingGroups(db, withWarnings))).filter((g) => g.acknowledgement) : []
+  const fileGroups = withWarnings.length ? await currentFindingGroups(db, withWarnings) : []
+  const located = await withLocations(db, fileGroups, fileGroups.length ? (await acknowledgedGroups(db, fileGroups)).filter((g) => g.acknowledgement) : [])
   const entries: RunSheetEntry[] = []
-  for (const row of bookings) {
-    const job = row
+  for (const job of bookings) {
     const files = filesByJob.get(job.id)!
     const material = await lookups.material(job.material_id)
     const estimate = await jobEstimate(db, job, files, lookups)
     const fileIds = new Set(files.map((f) => f.id))
     const sheet = material.sheets.find((s) => s.id === job.sheet_id) ?? material.sheets[0]!
-    const balance = balances.find((b) => b.bookingId === row.booking_id)
+    const payment = paymentStateOf(ledger.filter((r) => r.booking_id === job.booking_id))
     entries.push({
-      bookingId: row.booking_id,
-      start: row.starts_at,
-      end: row.ends_at,
-      paid: row.status === 'confirmed',
-      balanceOwed: balance ?? null,
+      bookingId: job.booking_id,
+      start: job.starts_at,
+      end: job.ends_at,
+      paid: job.status === 'confirmed',
+      balanceOwed: balances.find((b) => b.bookingId === job.booking_id) ?? null,
       job: { id: job.id, title: job.title, state: job.state, notes: job.notes, overrideReason: job.override_reason },
-      member: { name: row.member_name, email: row.member_email },
+      member: { name: job.member_name, email: job.member_email },
       material: { name: material.name, thicknessMm: material.thicknessMm, hazardNote: material.hazardNote },
       sheets: { count: estimate.sheetCount, widthMm: sheet.widthMm, heightMm: sheet.heightMm },
       files: files.map((f) => ({ name: f.name, quantity: f.quantity, revision: f.current.revision })),
-      warningGroups: accepted.filter((g) => fileIds.has(g.fileId)),
+      warningGroups: located.filter((g) => fileIds.has(g.fileId)),
       cautions: cautionsFor(cutter.kind, material),
       timer: timerMinutes(timerEvents.filter((e) => e.job_id === job.id)),
+      estimateMinutes: Math.round((estimate.machineS - estimate.components.setupS) / 6) / 10,
       actualMinutes: job.actual_minutes ?? null,
+      chargedMinor: payment.capturedMinor > 0 ? payment.capturedMinor - payment.refundedMinor : null,
+      currency: estimate.currency,
       pickupLocation: job.pickup_location ?? null,
       problems: problems.filter((p) => p.job_id === job.id).map(({ kind, note, at }) => ({ kind, note, at })),
     })
   }
-  return { cutterName: cutter.name, date: localDate, timeZone: settings.timeZone, entries }
+  return {
+    cutterId: cutter.id,
+    cutterName: cutter.name,
+    date: localDate,
+    timeZone: settings.timeZone,
+    cutters,
+    entries: entries.filter((e) => e.job.state !== 'collected'),
+    collected: entries.filter((e) => e.job.state === 'collected'),
+  }
 }
 
 /**
