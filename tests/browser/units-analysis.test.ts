@@ -90,5 +90,9 @@ describe('the check page in inches', () => {
     // The warning group waiting for a reason, in inches too.
     await expect.poll(() => page.locator('main').textContent()).toContain('1 bridge between cuts is 0.060 in wide after the kerf (limit 0.118 in)')
     expect(await page.locator('main').textContent()).not.toMatch(/\d mm\b/)
+
+    // The member's job list names the material's thickness in inches too.
+    await browser.open('/jobs')
+    await page.getByRole('cell', { name: 'Birch plywood 0.118 in' }).first().waitFor()
   })
 })
