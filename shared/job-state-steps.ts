@@ -1,5 +1,8 @@
 import type { JobState } from './job-states'
 
+// What happens next to a job, and who acts: the long form for the job page (`nextStep`, per state and viewer), and
+// the short line with a link for the member's overview (`jobNextStep`, which also reads the booking's payment).
+
 /** Who moves a job on from its state: the person looking at it, the member, the staff, or nobody (closed). */
 export type NextActor = 'you' | 'member' | 'staff' | 'nobody'
 
@@ -68,4 +71,47 @@ const ACTOR_WORDS: Record<NextActor, string> = { you: 'Your move', member: 'Wait
 export function nextStep(state: JobState, viewer: Viewer): NextStep & { heading: string } {
   const step = STEPS[state][viewer]
   return { ...step, heading: ACTOR_WORDS[step.actor] }
+}
+
+/** Who moves a job on next, and what they do: the member's overview shows it beside each open job. */
+export interface JobNextStep {
+  who: 'you' | 'staff'
+  text: string
+  /** Where the member acts, when it is theirs to act. */
+  action?: { label: string; to: string; external?: boolean }
+}
+
+export interface NextStepJob {
+  id: number
+  state: JobState
+  cutterName: string
+  booking: { status: 'held' | 'confirmed'; payUrl: string | null; startText: string } | null
+  pickupLocation: string | null
+}
+
+export function jobNextStep(job: NextStepJob): JobNextStep | null {
+  const open = { label: 'Open the job', to: `/jobs/${job.id}` }
+  switch (job.state) {
+    case 'draft':
+      return { who: 'you', text: 'Add your files and submit the job for review.', action: open }
+    case 'changes_requested':
+      return { who: 'you', text: 'Change the files as the staff asked, then submit again.', action: open }
+    case 'submitted':
+      return { who: 'staff', text: 'The staff review your files.' }
+    case 'approved':
+      return { who: 'you', text: `Book a time on ${job.cutterName}.`, action: { label: 'Book a time', to: `/calendar?job=${job.id}` } }
+    case 'booked':
+      if (job.booking?.status === 'held') {
+        return { who: 'you', text: `Pay to keep your time (${job.booking.startText}).`, action: job.booking.payUrl ? { label: 'Pay now', to: job.booking.payUrl, external: true } : { label: 'Your bookings', to: '/bookings' } }
+      }
+      return { who: 'staff', text: `Cut with you at ${job.booking?.startText ?? 'your booked time'} on ${job.cutterName}.` }
+    case 'cutting':
+      return { who: 'staff', text: `On ${job.cutterName} now.` }
+    case 'cut':
+      return { who: 'staff', text: 'The staff put your parts on the pickup shelf.' }
+    case 'ready':
+      return { who: 'you', text: `Collect your parts${job.pickupLocation ? ` from ${job.pickupLocation}` : ''} with your pickup code.`, action: { label: 'Show the pickup code', to: `/jobs/${job.id}` } }
+    default:
+      return null
+  }
 }
