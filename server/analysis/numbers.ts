@@ -15,6 +15,7 @@ export function parseNumberAttribute(value: string | undefined, attributeName: s
 }
 
 // One number of that grammar, then the separators after it (sticky: matched where the scan is, never searched for).
+// Each scan takes its own copies (a sticky pattern carries its position), so no state outlives a call.
 const LIST_ITEM_PATTERN = new RegExp(`(${NUMBER_GRAMMAR})(?:[\\s,]+|$)`, 'y')
 const SEPARATORS_PATTERN = /[\s,]*/y
 
@@ -25,16 +26,17 @@ const SEPARATORS_PATTERN = /[\s,]*/y
  */
 export function parseNumberList(value: string, attributeName: string): number[] {
   const numbers: number[] = []
-  SEPARATORS_PATTERN.lastIndex = 0
-  SEPARATORS_PATTERN.test(value)
-  let index = SEPARATORS_PATTERN.lastIndex
+  const separators = new RegExp(SEPARATORS_PATTERN)
+  const item = new RegExp(LIST_ITEM_PATTERN)
+  separators.test(value)
+  let index = separators.lastIndex
   while (index < value.length) {
-    LIST_ITEM_PATTERN.lastIndex = index
-    const match = LIST_ITEM_PATTERN.exec(value)
+    item.lastIndex = index
+    const match = item.exec(value)
     const number = match === null ? Number.NaN : Number(match[1])
     if (match === null || !Number.isFinite(number)) throw invalidNumber(attributeName, badItemAt(value, index))
     numbers.push(number)
-    index = LIST_ITEM_PATTERN.lastIndex
+    index = item.lastIndex
   }
   return numbers
 }

@@ -141,9 +141,10 @@ export class CutSegments {
     }
     const boxes = this.chunkBox
     const grid = BoxGrid.of(boxes, this.chunkCount, CHUNK_SIDE_MM)
+    const nearBox = new Float64Array(4)
     for (let chunk = 0; chunk < this.chunkCount; chunk++) {
       from[chunk] = filled
-      const near = grownBox(boxes, chunk, reachMm)
+      const near = grownBox(boxes, chunk, reachMm, nearBox)
       if (grid === null) this.index()!.search(near[0], near[1], near[2], near[3], keep)
       else grid.forEachMeeting(near[0], near[1], near[2], near[3], keep)
       sortInPlace(chunks, from[chunk], filled)
@@ -320,15 +321,13 @@ function setBox(boxes: Float64Array, index: number, minX: number, minY: number, 
   boxes[4 * index + 3] = maxY
 }
 
-const grownBoxScratch = new Float64Array(4)
-
-/** Box `index` of a flat box array grown by `marginMm` on every side (one scratch array, read it before the next call). */
-export function grownBox(boxes: Float64Array, index: number, marginMm: number): Float64Array {
-  grownBoxScratch[0] = boxes[4 * index] - marginMm
-  grownBoxScratch[1] = boxes[4 * index + 1] - marginMm
-  grownBoxScratch[2] = boxes[4 * index + 2] + marginMm
-  grownBoxScratch[3] = boxes[4 * index + 3] + marginMm
-  return grownBoxScratch
+/** Box `index` of a flat box array grown by `marginMm` on every side, written into `out` (the caller's, reused across a loop). */
+export function grownBox(boxes: Float64Array, index: number, marginMm: number, out: Float64Array): Float64Array {
+  out[0] = boxes[4 * index] - marginMm
+  out[1] = boxes[4 * index + 1] - marginMm
+  out[2] = boxes[4 * index + 2] + marginMm
+  out[3] = boxes[4 * index + 3] + marginMm
+  return out
 }
 
 // An offset within this angle (in radians, as a sine) of the cut's own direction counts as along it, not away from it.

@@ -4,7 +4,7 @@ import type { CheckGeometry } from './index'
 import { oncePerGeometry } from '../memo'
 import { contourPairKey, type NearCutList, pairScanOf, pairScanSignature } from './pairScan'
 import { repeatedCutsOf } from './repeatedCuts'
-import { crossingOnFirstAt } from './segmentGeometry'
+import { crossingOnFirstAt, emptyClosestPoints } from './segmentGeometry'
 
 /** Near cuts of the pair scan less those between contours that repeat each other (the duplicate-cut check reports those). */
 function findNearCuts(geometry: CheckGeometry, params: AnalysisParams): NearCutList {
@@ -29,13 +29,12 @@ export function isScreened(segments: CutSegments, neighbours: ChunkNeighbours, n
   const second = nearCuts.second[slot]
   const endMargin = touchMm / nearCuts.distanceMm[slot]
   const { xy } = segments.contours
-  line[0] = px
-  line[1] = py
-  line[2] = qx
-  line[3] = qy
+  // The line between the web's closest points, and the crossing the test writes to (this call's own, so the engine keeps no state between calls).
+  const line = Float64Array.of(px, py, qx, qy)
+  const crossing = emptyClosestPoints()
   const crossesInside = (other: number) => {
     if (other === first || other === second) return false
-    const along = crossingOnFirstAt(line, xy, 2 * segments.firstPoint[other])
+    const along = crossingOnFirstAt(line, xy, 2 * segments.firstPoint[other], crossing)
     return along > endMargin && along < 1 - endMargin
   }
   const minX = Math.min(px, qx)
@@ -43,7 +42,7 @@ export function isScreened(segments: CutSegments, neighbours: ChunkNeighbours, n
   const maxX = Math.max(px, qx)
   const maxY = Math.max(py, qy)
   const chunk = segments.chunkOf[first]
-  const near = grownBox(segments.chunkBox, chunk, neighbours.reachMm)
+  const near = grownBox(segments.chunkBox, chunk, neighbours.reachMm, new Float64Array(4))
   if (minX < near[0] || minY < near[1] || maxX > near[2] || maxY > near[3]) {
     let screened = false
     segments.forEachNear(minX, minY, maxX, maxY, (other) => {
@@ -61,9 +60,6 @@ export function isScreened(segments: CutSegments, neighbours: ChunkNeighbours, n
   }
   return false
 }
-
-// The line between a web's closest points, for the crossing test.
-const line = new Float64Array(4)
 
 /** The near pairs of a geometry, found once for the checks that need them. */
 export const nearCutsOf = oncePerGeometry(pairScanSignature, findNearCuts)

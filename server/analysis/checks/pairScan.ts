@@ -193,9 +193,10 @@ function scanPairs(geometry: CheckGeometry, params: AnalysisParams): PairScan {
 
   // Every later segment whose box comes within the reach of this one's, in segment order (the same boxes a search of each segment's box grown by the reach would match).
   const { from, chunks } = neighbours
+  const nearBox = new Float64Array(4)
   for (let chunk = 0; chunk < segments.chunkCount; chunk++) {
     for (let first = chunkStart[chunk]; first < chunkStart[chunk + 1]; first++) {
-      const near = grownBox(box, first, scanMm)
+      const near = grownBox(box, first, scanMm, nearBox)
       const minX = near[0]
       const minY = near[1]
       const maxX = near[2]

@@ -22,7 +22,7 @@ export function emptyClosestPoints(): ClosestPoints {
  * the four end-to-segment distances is exact.
  */
 export function closestPointsOfSegments(ax: number, ay: number, bx: number, by: number, cx: number, cy: number, dx: number, dy: number, out: ClosestPoints): ClosestPoints {
-  return closestPointsAt(segmentScratch(ax, ay, bx, by, cx, cy, dx, dy), 0, 4, out)
+  return closestPointsAt(Float64Array.of(ax, ay, bx, by, cx, cy, dx, dy), 0, 4, out)
 }
 
 /**
@@ -31,11 +31,11 @@ export function closestPointsOfSegments(ax: number, ay: number, bx: number, by: 
  * Only indexes cross the calls, so the hot loop boxes no coordinates.
  */
 export function closestPointsAt(xy: Float64Array, first: number, second: number, out: ClosestPoints): ClosestPoints {
-  if (crossesAt(xy, first, xy, second)) {
-    const u = crossing[0]
+  if (crossesAt(xy, first, xy, second, out)) {
+    const { u, v } = out
     const x = xy[first] + u * (xy[first + 2] - xy[first])
     const y = xy[first + 1] + u * (xy[first + 3] - xy[first + 1])
-    return setClosest(out, 0, x, y, u, x, y, crossing[1])
+    return setClosest(out, 0, x, y, u, x, y, v)
   }
   out.distanceMm = Infinity
   considerEnd(xy, first, second, false, 0, out)
@@ -75,35 +75,22 @@ function considerEnd(xy: Float64Array, end: number, segment: number, endIsOnSeco
   else setClosest(out, distance, x, y, endParameter, footX, footY, t)
 }
 
-const scratchEnds = new Float64Array(8)
-
-/** AB at [0, 4) and CD at [4, 8) of one scratch array, for the coordinate forms of the indexed functions. */
-function segmentScratch(ax: number, ay: number, bx: number, by: number, cx: number, cy: number, dx: number, dy: number): Float64Array {
-  scratchEnds[0] = ax
-  scratchEnds[1] = ay
-  scratchEnds[2] = bx
-  scratchEnds[3] = by
-  scratchEnds[4] = cx
-  scratchEnds[5] = cy
-  scratchEnds[6] = dx
-  scratchEnds[7] = dy
-  return scratchEnds
-}
-
 /**
  * Parameters [u on AB, v on CD] where the two segments cross or touch, null
  * when they do not or when they are parallel (parallel segments that overlap
  * are then found as distance 0 through their ends).
  */
 export function crossingParameters(ax: number, ay: number, bx: number, by: number, cx: number, cy: number, dx: number, dy: number): [number, number] | null {
-  return crossesAt(segmentScratch(ax, ay, bx, by, cx, cy, dx, dy), 0, scratchEnds, 4) ? [crossing[0], crossing[1]] : null
+  const ends = Float64Array.of(ax, ay, bx, by, cx, cy, dx, dy)
+  const found = emptyClosestPoints()
+  return crossesAt(ends, 0, ends, 4, found) ? [found.u, found.v] : null
 }
 
-/** [u, v] of the last crossing `crossesAt` found: one scratch pair, so the hot loops allocate nothing. */
-const crossing = new Float64Array(2)
-
-/** Whether the segments at first[a … a + 3] and second[c … c + 3] cross or touch (see `crossingParameters`); if so, writes the parameters into `crossing`. */
-function crossesAt(first: Float64Array, a: number, second: Float64Array, c: number): boolean {
+/**
+ * Whether the segments at first[a … a + 3] and second[c … c + 3] cross or touch (see `crossingParameters`); if so,
+ * writes the parameters into `out.u` and `out.v` (the caller's object, so the hot loops allocate nothing).
+ */
+function crossesAt(first: Float64Array, a: number, second: Float64Array, c: number, out: ClosestPoints): boolean {
   const ax = first[a]
   const ay = first[a + 1]
   const cx = second[c]
@@ -119,14 +106,14 @@ function crossesAt(first: Float64Array, a: number, second: Float64Array, c: numb
   const u = (acx * sy - acy * sx) / denominator
   const v = (acx * ry - acy * rx) / denominator
   if (u < 0 || u > 1 || v < 0 || v > 1) return false
-  crossing[0] = u
-  crossing[1] = v
+  out.u = u
+  out.v = v
   return true
 }
 
 /** The parameter on the first segment (at line[0 … 3]) where it crosses or touches the one at xy[c … c + 3], −1 when they do not. */
-export function crossingOnFirstAt(line: Float64Array, xy: Float64Array, c: number): number {
-  return crossesAt(line, 0, xy, c) ? crossing[0] : -1
+export function crossingOnFirstAt(line: Float64Array, xy: Float64Array, c: number, scratch: ClosestPoints): number {
+  return crossesAt(line, 0, xy, c, scratch) ? scratch.u : -1
 }
 
 /**
