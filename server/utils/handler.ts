@@ -17,7 +17,7 @@ function toHttpError(event: H3Event, error: unknown): unknown {
     console.error('[stripe]', error.type, error.message)
     error = new DomainError(`The payment service refused or did not answer (${error.message}). Nothing was changed; please try again.`, 502)
   }
-  if (error instanceof TooManyRequests) setResponseHeader(event, 'Retry-After', String(error.retryAfterS))
+  if (error instanceof TooManyRequests) setResponseHeader(event, 'Retry-After', error.retryAfterS)
   if (error instanceof DomainError) {
     return createError({ statusCode: error.status, statusMessage: error.name, message: error.message, data: error.details })
   }
