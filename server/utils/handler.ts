@@ -24,9 +24,12 @@ function toHttpError(event: H3Event, error: unknown): unknown {
   return error
 }
 
-/** defineEventHandler plus the mapping of typed service errors to HTTP status and message. */
-export function defineApiHandler<T>(handler: (event: H3Event<EventHandlerRequest>) => T | Promise<T>): EventHandler {
-  return defineEventHandler(async (event) => {
+/**
+ * defineEventHandler plus the mapping of typed service errors to HTTP status and message. The handler's return type
+ * is kept, so Nitro types the route and `useFetch('/api/…')` / `$fetch` know the response's shape.
+ */
+export function defineApiHandler<T>(handler: (event: H3Event<EventHandlerRequest>) => T | Promise<T>): EventHandler<EventHandlerRequest, Promise<T>> {
+  return defineEventHandler(async (event): Promise<T> => {
     try {
       return await handler(event)
     } catch (error) {
