@@ -1,4 +1,3 @@
-import { hypot } from './distance'
 import { OPERATION_CODES, PolylineSet } from './polylines'
 
 /**
@@ -106,23 +105,16 @@ function closeIfEndsMeet(contours: PolylineSet, toleranceMm: number): boolean {
   if (last - first < 2) return false
   const dx = contours.xy[2 * last] - contours.xy[2 * first]
   const dy = contours.xy[2 * last + 1] - contours.xy[2 * first + 1]
-  if (hypot(dx, dy) > toleranceMm) return false
+  if (Math.hypot(dx, dy) > toleranceMm) return false
   contours.xy[2 * last] = contours.xy[2 * first]
   contours.xy[2 * last + 1] = contours.xy[2 * first + 1]
   return true
 }
 
-// The occupancy bitmap has about this many bits per listed endpoint (few false hits), up to 2048 × 2048 bits (512 KB, measured best on large drawings).
-const OCCUPANCY_BITS_PER_ENDPOINT = 32
-const MAX_OCCUPANCY_SIDE = 2048
-
 /**
  * Endpoint ids bucketed by cell (cells one tolerance wide, kept in an
  * open-addressing table of typed arrays), in the order they were listed; a
- * query looks at the 3 × 3 cells around a point. Most of those cells are
- * empty, and a bitmap over the cells folded onto a square torus says so
- * without touching the table (a set bit may belong to another cell; the table
- * decides).
+ * query looks at the 3 × 3 cells around a point.
  */
 class EndpointGrid {
   private readonly cellColumn: Float64Array
@@ -132,9 +124,6 @@ class EndpointGrid {
   private readonly slotMask: number
   /** 32 − log2(slots): the shift that keeps a hash's top bits. */
   private readonly slotShift: number
-  /** Bit (row mod side)·side + (column mod side) is set when some cell folds onto it; side = 2^occupancyShift. */
-  private readonly occupied: Uint8Array
-  private readonly occupancyShift: number
   /** Endpoints of cell c are byCell[cellStart[c] … cellStart[c + 1]). */
   private readonly cellStart: Uint32Array
   private readonly byCell: Uint32Array
@@ -155,10 +144,6 @@ class EndpointGrid {
     this.cellColumn = new Float64Array(endpoints.length)
     this.cellRow = new Float64Array(endpoints.length)
     this.cellOfEndpoint = new Int32Array(endpointX.length)
-    let side = 64
-    while (side < MAX_OCCUPANCY_SIDE && side * side < OCCUPANCY_BITS_PER_ENDPOINT * endpoints.length) side *= 2
-    this.occupancyShift = Math.log2(side)
-    this.occupied = new Uint8Array((side * side) / 8)
     let cellCount = 0
     for (const endpoint of endpoints) {
       const column = Math.floor(endpointX[endpoint] / cellSizeMm)
@@ -169,8 +154,6 @@ class EndpointGrid {
         this.cellColumn[cell] = column
         this.cellRow[cell] = row
         this.cellInSlot[this.freeSlotFor(column, row)] = cell + 1
-        const bit = this.occupancyBit(column, row)
-        this.occupied[bit >> 3] |= 1 << (bit & 7)
       }
       this.cellOfEndpoint[endpoint] = cell
     }
@@ -202,7 +185,7 @@ class EndpointGrid {
         for (let listed = this.cellStart[cell]; listed < this.cellStart[cell + 1]; listed++) {
           const candidate = this.byCell[listed]
           if (used[candidate >> 1] !== 0 || operation[candidate >> 1] !== wantedOperation) continue
-          const distance = hypot(this.endpointX[candidate] - x, this.endpointY[candidate] - y)
+          const distance = Math.hypot(this.endpointX[candidate] - x, this.endpointY[candidate] - y)
           if (distance <= bestDistance) {
             best = candidate
             bestDistance = distance
@@ -214,18 +197,11 @@ class EndpointGrid {
   }
 
   private cellAt(column: number, row: number): number {
-    const bit = this.occupancyBit(column, row)
-    if ((this.occupied[bit >> 3] & (1 << (bit & 7))) === 0) return -1
     for (let slot = this.hash(column, row); ; slot = (slot + 1) & this.slotMask) {
       const cell = this.cellInSlot[slot] - 1
       if (cell < 0) return -1
       if (this.cellColumn[cell] === column && this.cellRow[cell] === row) return cell
     }
-  }
-
-  private occupancyBit(column: number, row: number): number {
-    const mask = (1 << this.occupancyShift) - 1
-    return ((row & mask) << this.occupancyShift) | (column & mask)
   }
 
   private freeSlotFor(column: number, row: number): number {

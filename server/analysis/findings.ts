@@ -1,4 +1,5 @@
 import type { FindingGroup, FindingSites, FindingStats, Severity } from '../../shared/finding-groups'
+import { grownArray } from './growArray'
 
 /** Which sites of a group come first: the smallest value (a bridge, a hole), the largest (a length cut twice), or the order found. */
 export type WorstFirst = 'smallest' | 'largest' | 'as-found'
@@ -54,15 +55,10 @@ export class SiteList {
 
   private grow(): void {
     const capacity = 2 * this.value.length
-    const grown = <T extends Float64Array | Int32Array>(array: T, length: number): T => {
-      const copy = new (array.constructor as new (length: number) => T)(length)
-      copy.set(array)
-      return copy
-    }
-    this.xy = grown(this.xy, 2 * capacity)
-    this.value = grown(this.value, capacity)
-    this.contourA = grown(this.contourA, capacity)
-    this.contourB = grown(this.contourB, capacity)
+    this.xy = grownArray(this.xy, 2 * capacity)
+    this.value = grownArray(this.value, capacity)
+    this.contourA = grownArray(this.contourA, capacity)
+    this.contourB = grownArray(this.contourB, capacity)
   }
 }
 

@@ -1,11 +1,10 @@
 import svgpath from 'svgpath'
 import arcToCubics from 'svgpath/lib/a2c.js'
-import type { CurveLengthMemory } from './curveLength'
+import { curveLengthMm } from './curveLength'
 import { AnalysisInputError } from './errors'
 import type { Matrix } from './matrix'
 import type { PolylineSet } from './polylines'
 import { CURVE_ARC, CURVE_CUBIC, CURVE_STRIDE, curveNumberCount, PathSteps, STEP_CLOSE, STEP_CURVE, STEP_MOVE } from './pathSteps'
-import { hypot } from './distance'
 
 // Beyond a kilometre a coordinate is a drawing mistake (or 1e300), and sums of squares would overflow.
 const MAX_COORDINATE_MM = 1e6
@@ -18,27 +17,35 @@ interface SvgPathWithState {
 }
 
 /**
- * Flattens one element's path data, transformed into mm, into `target`:
- * one polyline per subpath, with chords no farther than `chordToleranceMm`
- * from the curve and the exact length of the transformed curves (svgpath
- * transforms arcs exactly, including skew; svg-path-properties measures them).
- * Path data that PathSteps reads skips svgpath: straight steps go through
- * the matrix as svgpath's Matrix.calc would take them, and curves are used
- * as read when the matrix is the identity (svgpath leaves them alone then),
- * or go through the matrix as svgpath's matrix() takes them when every
- * number of the path is absolute (`transformedCurve`).
+ * Flattens path data, transformed into mm, into `target`: one polyline per
+ * subpath, with chords no farther than `chordToleranceMm` from the curve and
+ * the exact length of the transformed curves (`curveLength.ts`; svgpath
+ * transforms arcs exactly, including skew). Path data that PathSteps reads
+ * skips svgpath: straight steps go through the matrix as svgpath's
+ * Matrix.calc would take them, and curves are used as read when the matrix is
+ * the identity (svgpath leaves them alone then), or go through the matrix as
+ * svgpath's matrix() takes them when every number of the path is absolute
+ * (`transformedCurve`). One flattener serves one analysis.
  */
-export function flattenPath(pathData: string, matrix: Matrix, chordToleranceMm: number, target: PolylineSet, operationCode: number, elementIndex: number, forceClosed: boolean, curveLengths: CurveLengthMemory): void {
-  const subpaths = new SubpathWriter(target, operationCode, elementIndex, forceClosed, curveLengths)
-  const [a, b, c, d, e, f] = matrix
-  // svgpath's own identity test: under it no arithmetic may touch the numbers.
-  const identity = a === 1 && b === 0 && c === 0 && d === 1 && e === 0 && f === 0
-  if (pathSteps.read(pathData) && (identity || pathSteps.curveCount === 0 || !pathSteps.hasRelative)) flattenSteps(pathSteps, matrix, identity, chordToleranceMm, subpaths)
-  else flattenWithSvgpath(pathData, matrix, chordToleranceMm, subpaths)
-  subpaths.finish(false)
-}
+export class PathFlattener {
+  private readonly steps = new PathSteps()
 
-const pathSteps = new PathSteps()
+  constructor(
+    private readonly target: PolylineSet,
+    private readonly chordToleranceMm: number,
+  ) {}
+
+  flatten(pathData: string, matrix: Matrix, operationCode: number, elementIndex: number, forceClosed: boolean): void {
+    const subpaths = new SubpathWriter(this.target, operationCode, elementIndex, forceClosed)
+    const [a, b, c, d, e, f] = matrix
+    // svgpath's own identity test: under it no arithmetic may touch the numbers.
+    const identity = a === 1 && b === 0 && c === 0 && d === 1 && e === 0 && f === 0
+    const { steps } = this
+    if (steps.read(pathData) && (identity || steps.curveCount === 0 || !steps.hasRelative)) flattenSteps(steps, matrix, identity, this.chordToleranceMm, subpaths)
+    else flattenWithSvgpath(pathData, matrix, this.chordToleranceMm, subpaths)
+    subpaths.finish(false)
+  }
+}
 
 function flattenSteps(steps: PathSteps, matrix: Matrix, identity: boolean, chordToleranceMm: number, subpaths: SubpathWriter): void {
   const [a, b, c, d, e, f] = matrix
@@ -82,6 +89,7 @@ function flattenSteps(steps: PathSteps, matrix: Matrix, identity: boolean, chord
  */
 function transformedCurve(command: number, numbers: Float64Array, offset: number, matrix: Matrix, fromUserX: number, fromUserY: number, chordToleranceMm: number, subpaths: SubpathWriter): void {
   const [a, b, c, d, e, f] = matrix
+  const transformed = new Float64Array(CURVE_STRIDE)
   if (command !== CURVE_ARC) {
     for (let position = 0; position < curveNumberCount(command); position += 2) {
       const x = numbers[offset + position]
@@ -111,9 +119,6 @@ function transformedCurve(command: number, numbers: Float64Array, offset: number
   transformed[6] = toY
   flattenCurve(CURVE_ARC, transformed, 0, chordToleranceMm, subpaths)
 }
-
-// One transformed segment's numbers, in the layout of PathSteps' curves.
-const transformed = new Float64Array(CURVE_STRIDE)
 
 // svgpath 2.6's ellipse.js: its tolerance, and degrees to radians as it computes them.
 const ELLIPSE_EPSILON = 0.0000000001
@@ -150,6 +155,7 @@ function flattenWithSvgpath(pathData: string, matrix: Matrix, chordToleranceMm: 
   if (path.err) {
     throw new AnalysisInputError('badNumber', `A shape's path data cannot be read (${path.err.replace(/^SvgPath: /, '')}). Save the file again from your drawing program.`)
   }
+  const curve = new Float64Array(CURVE_STRIDE)
   for (const segment of path.segments) {
     const command = segment[0]
     switch (command) {
@@ -168,15 +174,12 @@ function flattenWithSvgpath(pathData: string, matrix: Matrix, chordToleranceMm: 
       case 'Q':
       case 'A':
         // svgpath writes the flags of an arc it has mirrored as the strings "0"/"1": Number() reads both forms.
-        for (let position = 1; position < segment.length; position++) svgpathCurve[position - 1] = Number(segment[position])
-        flattenCurve(command.charCodeAt(0), svgpathCurve, 0, chordToleranceMm, subpaths)
+        for (let position = 1; position < segment.length; position++) curve[position - 1] = Number(segment[position])
+        flattenCurve(command.charCodeAt(0), curve, 0, chordToleranceMm, subpaths)
         break
     }
   }
 }
-
-// One svgpath segment's numbers, in the layout of PathSteps' curves.
-const svgpathCurve = new Float64Array(CURVE_STRIDE)
 
 /** One absolute C, Q or A segment (its numbers at numbers[offset …]) from the current point: its chords, and its exact length. */
 function flattenCurve(command: number, numbers: Float64Array, offset: number, chordToleranceMm: number, subpaths: SubpathWriter): void {
@@ -185,11 +188,10 @@ function flattenCurve(command: number, numbers: Float64Array, offset: number, ch
   const { x, y } = subpaths
   if (command !== CURVE_ARC) {
     const isCubic = command === CURVE_CUBIC
-    const chordsMm = isCubic
-      ? addCubic(target, x, y, numbers[offset], numbers[offset + 1], numbers[offset + 2], numbers[offset + 3], numbers[offset + 4], numbers[offset + 5], chordToleranceMm)
-      : addQuadratic(target, x, y, numbers[offset], numbers[offset + 1], numbers[offset + 2], numbers[offset + 3], chordToleranceMm)
+    if (isCubic) addCubic(target, x, y, numbers[offset], numbers[offset + 1], numbers[offset + 2], numbers[offset + 3], numbers[offset + 4], numbers[offset + 5], chordToleranceMm)
+    else addQuadratic(target, x, y, numbers[offset], numbers[offset + 1], numbers[offset + 2], numbers[offset + 3], chordToleranceMm)
     const end = offset + (isCubic ? 4 : 2)
-    subpaths.curveTo(numbers[end], numbers[end + 1], curveLength(subpaths.curveLengths, x, y, command, numbers, offset, chordsMm))
+    subpaths.curveTo(numbers[end], numbers[end + 1], curveLengthMm(x, y, command, numbers, offset))
     return
   }
   const rx = numbers[offset]
@@ -211,8 +213,7 @@ function flattenCurve(command: number, numbers: Float64Array, offset: number, ch
   // The cubics end on the arc's endpoint up to rounding; land exactly on it.
   target.xy[2 * target.pointCount - 2] = toX
   target.xy[2 * target.pointCount - 1] = toY
-  // The cubics approximating an arc bulge slightly outside it, so their chords are no lower bound here.
-  subpaths.curveTo(toX, toY, curveLength(subpaths.curveLengths, x, y, command, numbers, offset, 0))
+  subpaths.curveTo(toX, toY, curveLengthMm(x, y, command, numbers, offset))
 }
 
 /**
@@ -233,7 +234,6 @@ class SubpathWriter {
     private readonly operationCode: number,
     private readonly elementIndex: number,
     private readonly forceClosed: boolean,
-    readonly curveLengths: CurveLengthMemory,
   ) {}
 
   moveTo(x: number, y: number): void {
@@ -244,7 +244,7 @@ class SubpathWriter {
 
   lineTo(toX: number, toY: number): void {
     this.ensureOpen()
-    this.lengthMm += hypot(toX - this.x, toY - this.y)
+    this.lengthMm += Math.hypot(toX - this.x, toY - this.y)
     addPoint(this.target, toX, toY)
     this.x = toX
     this.y = toY
@@ -269,7 +269,7 @@ class SubpathWriter {
     if (!this.open) return
     const closed = closedByCommand || this.forceClosed
     if (closed && (this.x !== this.startX || this.y !== this.startY)) {
-      this.lengthMm += hypot(this.startX - this.x, this.startY - this.y)
+      this.lengthMm += Math.hypot(this.startX - this.x, this.startY - this.y)
       addPoint(this.target, this.startX, this.startY)
     }
     this.target.end(closed, this.lengthMm)
@@ -277,15 +277,6 @@ class SubpathWriter {
     this.x = this.startX
     this.y = this.startY
   }
-}
-
-/**
- * svg-path-properties' quadrature, bounded below by inscribed chords when
- * given: by the triangle inequality no curve is shorter than its chords, and
- * quadrature undershoots near cusps.
- */
-function curveLength(curveLengths: CurveLengthMemory, fromX: number, fromY: number, command: number, numbers: Float64Array, offset: number, chordsMm: number): number {
-  return Math.max(chordsMm, curveLengths.measure(fromX, fromY, command, numbers, offset))
 }
 
 function addPoint(target: PolylineSet, x: number, y: number): void {
@@ -303,11 +294,10 @@ function chordCount(secondDifference: number, degree: number, toleranceMm: numbe
   return Math.min(MAX_CHORDS_PER_CURVE, Math.max(1, count))
 }
 
-/** Adds the chords after (x0, y0) and returns their total length. */
-function addCubic(target: PolylineSet, x0: number, y0: number, x1: number, y1: number, x2: number, y2: number, x3: number, y3: number, toleranceMm: number): number {
-  const secondDifference = Math.max(hypot(x0 - 2 * x1 + x2, y0 - 2 * y1 + y2), hypot(x1 - 2 * x2 + x3, y1 - 2 * y2 + y3))
+/** Adds the chords after (x0, y0). */
+function addCubic(target: PolylineSet, x0: number, y0: number, x1: number, y1: number, x2: number, y2: number, x3: number, y3: number, toleranceMm: number): void {
+  const secondDifference = Math.max(Math.hypot(x0 - 2 * x1 + x2, y0 - 2 * y1 + y2), Math.hypot(x1 - 2 * x2 + x3, y1 - 2 * y2 + y3))
   const chords = chordCount(secondDifference, 3, toleranceMm)
-  let chordsMm = 0
   for (let step = 1; step <= chords; step++) {
     const t = step / chords
     const u = 1 - t
@@ -315,24 +305,15 @@ function addCubic(target: PolylineSet, x0: number, y0: number, x1: number, y1: n
     const b1 = 3 * u * u * t
     const b2 = 3 * u * t * t
     const b3 = t * t * t
-    chordsMm += addChordTo(target, b0 * x0 + b1 * x1 + b2 * x2 + b3 * x3, b0 * y0 + b1 * y1 + b2 * y2 + b3 * y3)
+    addPoint(target, b0 * x0 + b1 * x1 + b2 * x2 + b3 * x3, b0 * y0 + b1 * y1 + b2 * y2 + b3 * y3)
   }
-  return chordsMm
 }
 
-function addQuadratic(target: PolylineSet, x0: number, y0: number, x1: number, y1: number, x2: number, y2: number, toleranceMm: number): number {
-  const chords = chordCount(hypot(x0 - 2 * x1 + x2, y0 - 2 * y1 + y2), 2, toleranceMm)
-  let chordsMm = 0
+function addQuadratic(target: PolylineSet, x0: number, y0: number, x1: number, y1: number, x2: number, y2: number, toleranceMm: number): void {
+  const chords = chordCount(Math.hypot(x0 - 2 * x1 + x2, y0 - 2 * y1 + y2), 2, toleranceMm)
   for (let step = 1; step <= chords; step++) {
     const t = step / chords
     const u = 1 - t
-    chordsMm += addChordTo(target, u * u * x0 + 2 * u * t * x1 + t * t * x2, u * u * y0 + 2 * u * t * y1 + t * t * y2)
+    addPoint(target, u * u * x0 + 2 * u * t * x1 + t * t * x2, u * u * y0 + 2 * u * t * y1 + t * t * y2)
   }
-  return chordsMm
-}
-
-function addChordTo(target: PolylineSet, x: number, y: number): number {
-  const lengthMm = hypot(x - target.xy[2 * target.pointCount - 2], y - target.xy[2 * target.pointCount - 1])
-  addPoint(target, x, y)
-  return lengthMm
 }

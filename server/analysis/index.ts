@@ -1,12 +1,11 @@
 import { chainPolylines } from './chain'
-import { CurveLengthMemory } from './curveLength'
 import { runDesignRuleChecks } from './checks/index'
 import { type CutFileFormat, detectCutFileFormat } from './dxf/format'
 import { parseDxf } from './dxf/parseDxf'
 import { readDxfDocument } from './dxf/readDxf'
 import { AnalysisInputError } from './errors'
 import { FindingCollector } from './findings'
-import { flattenPath } from './flatten'
+import { PathFlattener } from './flatten'
 import { estimateMachineTime } from './machineTime'
 import { measureContours } from './measure'
 import type { AnalysisParams } from './params'
@@ -96,9 +95,9 @@ export function analyzeCutFileWithGeometry(text: string, params: AnalysisParams,
 
 function analyzeDrawing(drawing: ReadDrawing, params: AnalysisParams, findings: FindingCollector, lap: (stage: AnalysisStage) => void): { result: AnalysisResult; geometry: AnalysedGeometry } {
   const pieces = new PolylineSet()
-  const curveLengths = new CurveLengthMemory()
+  const flattener = new PathFlattener(pieces, params.chordToleranceMm)
   drawing.elements.forEach((element, elementIndex) => {
-    flattenPath(element.pathData, element.matrix, params.chordToleranceMm, pieces, OPERATION_CODES[element.operation], elementIndex, element.filled, curveLengths)
+    flattener.flatten(element.pathData, element.matrix, OPERATION_CODES[element.operation], elementIndex, element.filled)
   })
   lap('flatten')
   const contours = chainPolylines(pieces, params.chainToleranceMm)

@@ -1,5 +1,5 @@
 import { cutNesting } from './containment'
-import { PolylinePlanner, restToRestTimeS } from './motion'
+import { PolylineTimer, restToRestTimeS } from './motion'
 import type { AnalysisParams } from './params'
 import { OPERATION_CODES, type PolylineSet } from './polylines'
 import { planTour, type TourStops, tourTravel } from './tour'
@@ -19,25 +19,9 @@ export interface MachineTime {
  * through the constant-acceleration motion model.
  */
 export function estimateMachineTime(contours: PolylineSet, bounds: Float64Array, engraveAreaMm2: number, params: AnalysisParams): MachineTime {
-  const { runOrder, travelMm, travelS } = tourLevelsInRunOrder(contours, tourLevels(contours, cutNesting({ contours, bounds }).depth), params)
-  const { cutS, scoreS, cutCount } = contourRunTimes(contours, params)
-  // Raster engraving sweeps the area line by line (common practice, no source); turnarounds are not modelled.
-  const engraveS = engraveAreaMm2 > 0 ? engraveAreaMm2 / ((params.engraveSpeedMmPerMin / 60) * params.engraveLineSpacingMm) : 0
-  const pierceS = cutCount * params.pierceTimeS
-  const setupS = params.setupTimeS
-  return {
-    travelMm,
-    time: { cutS, scoreS, engraveS, pierceS, travelS, setupS, totalS: cutS + scoreS + engraveS + pierceS + travelS + setupS },
-    runOrder,
-  }
-}
-
-// Each long loop below has a function of its own: a function that runs once per analysis gets optimized inside its hot loop, and code after that loop would then run unoptimized.
-
-/** Tours level 0 (the score lines) first, then the cut levels from the deepest out, each from where the one before left the head. */
-function tourLevelsInRunOrder(contours: PolylineSet, { ids, levelStart }: TourLevels, params: AnalysisParams): { runOrder: Int32Array; travelMm: number; travelS: number } {
-  const runOrder = new Int32Array(ids.length)
+  const { ids, levelStart } = tourLevels(contours, cutNesting({ contours, bounds }).depth)
   const rapidSpeed = params.rapidSpeedMmPerMin / 60
+  const runOrder = new Int32Array(ids.length)
   let travelMm = 0
   let travelS = 0
   let x = 0
@@ -45,6 +29,7 @@ function tourLevelsInRunOrder(contours: PolylineSet, { ids, levelStart }: TourLe
   let written = 0
   const levelCount = levelStart.length - 1
   for (let step = 0; step < levelCount; step++) {
+    // Level 0 (the score lines) first, then the cut levels from the deepest out.
     const level = step === 0 ? 0 : levelCount - step
     const levelIds = ids.subarray(levelStart[level], levelStart[level + 1])
     if (levelIds.length === 0) continue
@@ -52,50 +37,36 @@ function tourLevelsInRunOrder(contours: PolylineSet, { ids, levelStart }: TourLe
     const order = planTour(stops, levelIds.length, x, y)
     const travel = tourTravel(stops, order, x, y)
     travelMm += travel.travelMm
-    travelS = addRapidTimes(travelS, travel.moveMm, rapidSpeed, params.accelMmPerS2)
+    for (const moveMm of travel.moveMm) travelS += restToRestTimeS(moveMm, rapidSpeed, params.accelMmPerS2)
     x = travel.endX
     y = travel.endY
-    written = appendRunOrder(runOrder, written, order, levelIds)
+    for (const entry of order) runOrder[written++] = entry >= 0 ? levelIds[entry] : -1 - levelIds[-1 - entry]
   }
-  return { runOrder, travelMm, travelS }
-}
 
-/** `totalS` plus the rest-to-rest time of each rapid move, added one at a time in tour order. */
-function addRapidTimes(totalS: number, moveMm: Float64Array, rapidSpeed: number, accel: number): number {
-  let sumS = totalS
-  for (let move = 0; move < moveMm.length; move++) sumS += restToRestTimeS(moveMm[move], rapidSpeed, accel)
-  return sumS
-}
-
-/** Writes a level's tour into the run order as contour ids from `written` on; returns where it stopped. */
-function appendRunOrder(runOrder: Int32Array, written: number, order: Int32Array, levelIds: Int32Array): number {
-  let next = written
-  for (let position = 0; position < order.length; position++) {
-    const entry = order[position]
-    runOrder[next++] = entry >= 0 ? levelIds[entry] : -1 - levelIds[-1 - entry]
-  }
-  return next
-}
-
-/** Cut and score time of each contour at its operation's speed, summed in id order, and the number of cuts (one pierce each). */
-function contourRunTimes(contours: PolylineSet, params: AnalysisParams): { cutS: number; scoreS: number; cutCount: number } {
-  const planner = new PolylinePlanner()
+  const timer = new PolylineTimer()
+  const runTimeS = (id: number, speedMmPerMin: number) =>
+    timer.timeS(contours.xy, contours.start[id], contours.start[id + 1], speedMmPerMin / 60, params.accelMmPerS2, params.junctionDeviationMm)
   let cutS = 0
   let scoreS = 0
   let cutCount = 0
   for (let id = 0; id < contours.count; id++) {
     const operation = contours.operation[id]
     if (operation === OPERATION_CODES.cut) {
-      cutS += runTimeS(planner, contours, id, params.cutSpeedMmPerMin, params)
+      cutS += runTimeS(id, params.cutSpeedMmPerMin)
       cutCount++
     }
-    if (operation === OPERATION_CODES.score) scoreS += runTimeS(planner, contours, id, params.scoreSpeedMmPerMin, params)
+    if (operation === OPERATION_CODES.score) scoreS += runTimeS(id, params.scoreSpeedMmPerMin)
   }
-  return { cutS, scoreS, cutCount }
-}
-
-function runTimeS(planner: PolylinePlanner, contours: PolylineSet, id: number, speedMmPerMin: number, params: AnalysisParams): number {
-  return planner.timeS(contours.xy, contours.start[id], contours.start[id + 1], speedMmPerMin / 60, params.accelMmPerS2, params.junctionDeviationMm)
+  // Raster engraving sweeps the area line by line (common practice, no source); turnarounds are not modelled.
+  const engraveS = engraveAreaMm2 > 0 ? engraveAreaMm2 / ((params.engraveSpeedMmPerMin / 60) * params.engraveLineSpacingMm) : 0
+  // One pierce per cut contour.
+  const pierceS = cutCount * params.pierceTimeS
+  const setupS = params.setupTimeS
+  return {
+    travelMm,
+    time: { cutS, scoreS, engraveS, pierceS, travelS, setupS, totalS: cutS + scoreS + engraveS + pierceS + travelS + setupS },
+    runOrder,
+  }
 }
 
 interface TourLevels {

@@ -9,6 +9,7 @@
  * separator, a syntax error — makes it answer false, and the caller uses
  * svgpath, which also words the error messages.
  */
+import { grownArray } from './growArray'
 
 export const STEP_MOVE = 0
 export const STEP_LINE = 1
@@ -176,8 +177,8 @@ export class PathSteps {
   private beginCurve(command: number): number {
     if (this.curveCount === this.curveCommand.length) {
       const size = this.curveCount * 2
-      this.curveCommand = grow(this.curveCommand, new Uint8Array(size))
-      this.curveNumbers = grow(this.curveNumbers, new Float64Array(size * CURVE_STRIDE))
+      this.curveCommand = grownArray(this.curveCommand, size)
+      this.curveNumbers = grownArray(this.curveNumbers, size * CURVE_STRIDE)
     }
     this.curveCommand[this.curveCount] = command
     return this.curveCount++
@@ -195,9 +196,9 @@ export class PathSteps {
   private push(kind: number, x: number, y: number): void {
     if (this.count === this.kind.length) {
       const size = this.count * 2
-      this.kind = grow(this.kind, new Uint8Array(size))
-      this.x = grow(this.x, new Float64Array(size))
-      this.y = grow(this.y, new Float64Array(size))
+      this.kind = grownArray(this.kind, size)
+      this.x = grownArray(this.x, size)
+      this.y = grownArray(this.y, size)
     }
     this.kind[this.count] = kind
     this.x[this.count] = x
@@ -263,9 +264,4 @@ function startsNumber(code: number): boolean {
 
 function isSpace(code: number): boolean {
   return code === CHAR_SPACE || code === CHAR_TAB || code === CHAR_LINE_FEED || code === CHAR_CARRIAGE_RETURN
-}
-
-function grow<T extends Uint8Array | Float64Array>(old: T, grown: T): T {
-  grown.set(old)
-  return grown
 }

@@ -1,3 +1,4 @@
+import { grownArray } from './growArray'
 import type { Operation } from './params'
 
 /** Operations as stored in typed arrays. */
@@ -31,11 +32,7 @@ export class PolylineSet {
   }
 
   addPoint(x: number, y: number): void {
-    if (2 * this.pointCount + 2 > this.xy.length) {
-      const grown = new Float64Array(this.xy.length * 2)
-      grown.set(this.xy)
-      this.xy = grown
-    }
+    if (2 * this.pointCount + 2 > this.xy.length) this.xy = grownArray(this.xy, 2 * this.xy.length)
     this.xy[2 * this.pointCount] = x
     this.xy[2 * this.pointCount + 1] = y
     this.pointCount++
@@ -96,15 +93,10 @@ export class PolylineSet {
 
   private growPolylines(): void {
     const size = this.start.length * 2
-    this.start = growTo(this.start, new Uint32Array(size))
-    this.closed = growTo(this.closed, new Uint8Array(size))
-    this.operation = growTo(this.operation, new Uint8Array(size))
-    this.lengthMm = growTo(this.lengthMm, new Float64Array(size))
-    this.element = growTo(this.element, new Uint32Array(size))
+    this.start = grownArray(this.start, size)
+    this.closed = grownArray(this.closed, size)
+    this.operation = grownArray(this.operation, size)
+    this.lengthMm = grownArray(this.lengthMm, size)
+    this.element = grownArray(this.element, size)
   }
-}
-
-function growTo<T extends Uint32Array | Uint8Array | Float64Array>(old: T, grown: T): T {
-  grown.set(old)
-  return grown
 }

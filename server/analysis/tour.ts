@@ -1,4 +1,3 @@
-import { hypot } from './distance'
 
 /** Where each contour of a tour is entered and left (the same point for a closed one); any contour may be run backwards. */
 export interface TourStops {
@@ -329,7 +328,7 @@ export function tourTravel(stops: TourStops, order: Int32Array, startX: number, 
     const stop = entry >= 0 ? entry : -1 - entry
     const inX = entry >= 0 ? stops.entryX[stop] : stops.exitX[stop]
     const inY = entry >= 0 ? stops.entryY[stop] : stops.exitY[stop]
-    moveMm[position] = hypot(inX - x, inY - y)
+    moveMm[position] = Math.hypot(inX - x, inY - y)
     travelMm += moveMm[position]
     x = entry >= 0 ? stops.exitX[stop] : stops.entryX[stop]
     y = entry >= 0 ? stops.exitY[stop] : stops.entryY[stop]

@@ -52,8 +52,8 @@ describe('chaining', () => {
     )
   })
 
-  // With four ends the occupancy bitmap folds every 64 cells: ends 0.64 mm apart share a bit but must not join.
-  it('keeps apart ends that are far apart even when their cells fold onto the same bitmap bit', () => {
+  // Ends 64 cells apart (0.64 mm at a 0.01 mm tolerance) are far apart, whatever slots their cells take in the grid's table.
+  it('keeps apart ends that are many cells apart', () => {
     const foldedX = 1 + 64 * TOLERANCE_MM
     const contours = contoursOf(
       chainPolylines(

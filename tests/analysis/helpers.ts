@@ -2,6 +2,11 @@ import { expect } from 'vitest'
 import { AnalysisInputError, type AnalysisParams, type AnalysisResult, analyzeSvg, withDefaults } from '../../server/analysis/index'
 
 export const CUT = '#c2185b'
+/**
+ * Timeout for property tests of a few hundred runs: under a second alone, many times that on a machine shared with
+ * other work. Only a bound against a hang; no test measures speed.
+ */
+export const PROPERTY_TIMEOUT_MS = 30_000
 export const SCORE = '#00897b'
 
 /** A document whose user unit is 1 mm, so expected values read directly in mm. */

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { junctionSpeed, restToRestTimeS } from '../../server/analysis/motion'
-import { analyze, cutPath, mmDocument } from './helpers'
+import { analyze, CUT, cutPath, mmDocument } from './helpers'
 
 const speedMmPerMin = 1200
 const v = speedMmPerMin / 60
@@ -53,4 +53,24 @@ describe('motion model', () => {
     expect(result.time.pierceS).toBeCloseTo(0.7, 9)
     expect(result.time.totalS).toBeCloseTo(result.time.cutS + result.time.travelS + 0.7 + 5, 9)
   })
+
+  // Uniform circular motion: centripetal acceleration a = v²/r, so on a circle of radius r the head may not exceed
+  // v = √(a·r). A 0.5 mm hole at 100 mm/s with a = 2000 mm/s² allows only √1000 ≈ 31.6 mm/s: the time is the
+  // trapezoid at that speed (L/v + v/a, from rest back to rest).
+  it('slows a small hole to √(a·r), from a = v²/r', () => {
+    const accel = 2000
+    const radius = 0.5
+    const limit = Math.sqrt(accel * radius)
+    const result = analyze(mmDocument(`<circle cx="50" cy="50" r="${radius}" fill="none" stroke="${CUT}"/>`), { cutSpeedMmPerMin: 6000, accelMmPerS2: accel, junctionDeviationMm: 0.05 })
+    const lengthMm = 2 * Math.PI * radius
+    expect(result.time.cutS / (lengthMm / limit + limit / accel)).toBeCloseTo(1, 2)
+  })
+
+  // The same rule leaves a large circle alone: at 20 mm/s, √(a·r) = √(2000 · 100) ≈ 447 mm/s is no limit.
+  it('runs a large circle at full speed', () => {
+    const accel = 2000
+    const result = analyze(mmDocument(`<circle cx="150" cy="150" r="100" fill="none" stroke="${CUT}"/>`), { cutSpeedMmPerMin: speedMmPerMin, accelMmPerS2: accel, junctionDeviationMm: 0.05 })
+    expect(result.time.cutS / ((2 * Math.PI * 100) / v + v / accel)).toBeCloseTo(1, 3)
+  })
 })
+

@@ -2,6 +2,7 @@ import fc from 'fast-check'
 import svgpath from 'svgpath'
 import { describe, expect, it } from 'vitest'
 import { CURVE_STRIDE, PathSteps, STEP_CLOSE, STEP_CURVE } from '../../server/analysis/pathSteps'
+import { PROPERTY_TIMEOUT_MS } from './helpers'
 
 // The reference is svgpath itself: the engine used it for all path data before this scanner took the common cases.
 type Segment = [string, ...number[]]
@@ -100,7 +101,7 @@ describe('the path data scanner reads what svgpath reads', () => {
       }),
       { numRuns: 400 },
     )
-  })
+  }, PROPERTY_TIMEOUT_MS)
 
   it('gives svgpath’s transformed points for straight path data', () => {
     const steps = new PathSteps()
@@ -116,7 +117,7 @@ describe('the path data scanner reads what svgpath reads', () => {
       }),
       { numRuns: 400 },
     )
-  })
+  }, PROPERTY_TIMEOUT_MS)
 
   it('leaves to svgpath what it does not take: S and T, exponents, syntax errors', () => {
     const steps = new PathSteps()

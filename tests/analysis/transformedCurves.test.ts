@@ -1,7 +1,6 @@
 import fc from 'fast-check'
 import { describe, expect, it } from 'vitest'
-import { CurveLengthMemory } from '../../server/analysis/curveLength'
-import { flattenPath } from '../../server/analysis/flatten'
+import { PathFlattener } from '../../server/analysis/flatten'
 import type { Matrix } from '../../server/analysis/matrix'
 import { PolylineSet } from '../../server/analysis/polylines'
 
@@ -10,7 +9,7 @@ import { PolylineSet } from '../../server/analysis/polylines'
 // svgpath by the engine's own path scanner, so the same path flattened both ways must give the same polylines.
 function flattened(pathData: string, matrix: Matrix): Record<string, unknown> {
   const set = new PolylineSet()
-  flattenPath(pathData, matrix, 0.01, set, 0, 0, false, new CurveLengthMemory())
+  new PathFlattener(set, 0.01).flatten(pathData, matrix, 0, 0, false)
   return {
     count: set.count,
     xy: Array.from(set.xy.subarray(0, 2 * set.pointCount)),

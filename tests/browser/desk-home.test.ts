@@ -72,7 +72,7 @@ describe('the overview per role in the browser', () => {
     await staff.open('/')
     const { page } = staff
     await page.getByRole('button', { name: 'Mark a cutter out of service…' }).click()
-    await page.getByLabel('Cutter').selectOption({ label: cutterName })
+    await page.getByRole('combobox', { name: /^Cutter/ }).selectOption({ label: cutterName })
     await page.getByLabel('Reason').fill('Mirror mount cracked')
     await page.getByLabel('Out of service from').fill(local(5, '08:00'))
     await page.getByLabel('Expected back').fill(local(6, '20:00'))

@@ -6,7 +6,6 @@ import type { CheckGeometry } from './index'
 import { oncePerGeometry } from '../memo'
 import { type ClosestPoints, closestPointsAt, emptyClosestPoints } from './segmentGeometry'
 import type { AnalysisParams } from '../params'
-import { hypot } from '../distance'
 
 /**
  * The straight segments of all cut contours, with what the checks need to
@@ -84,7 +83,7 @@ export class CutSegments {
         this.box[4 * segment + 1] = minY
         this.box[4 * segment + 2] = maxX
         this.box[4 * segment + 3] = maxY
-        this.alongMm[point + 1] = this.alongMm[point] + hypot(xy[2 * point + 2] - xy[2 * point], xy[2 * point + 3] - xy[2 * point + 1])
+        this.alongMm[point + 1] = this.alongMm[point] + Math.hypot(xy[2 * point + 2] - xy[2 * point], xy[2 * point + 3] - xy[2 * point + 1])
         const startsChunk =
           point === start[id] ||
           segment - chunkStart[chunkCount - 1] >= SEGMENTS_PER_CHUNK ||
@@ -257,7 +256,7 @@ export class CutSegments {
     const alongY = xy[point + 3] - xy[point + 1]
     const sideCross = side * (alongX * dy - alongY * dx)
     // The slack is never positive, so a non-negative cross product passes without the two lengths.
-    return sideCross >= 0 || sideCross >= -ALONG_THE_CUT_RELATIVE * hypot(alongX, alongY) * hypot(dx, dy)
+    return sideCross >= 0 || sideCross >= -ALONG_THE_CUT_RELATIVE * Math.hypot(alongX, alongY) * Math.hypot(dx, dy)
   }
 }
 

@@ -1,6 +1,6 @@
 import type { AnalysisParams } from '../params'
 import type { PolylineSet } from '../polylines'
-import { hypot } from '../distance'
+import { grownArray } from '../growArray'
 import { bridgeReachMm, type ChunkNeighbours, type CutSegments, cutSegmentsOf, grownBox } from './cutSegments'
 import type { CheckGeometry } from './index'
 import { oncePerGeometry } from '../memo'
@@ -75,21 +75,16 @@ export class NearCutList {
   }
 
   private grow(capacity: number): void {
-    this.kind = grownTo(this.kind, new Uint8Array(capacity))
-    this.sameContour = grownTo(this.sameContour, new Uint8Array(capacity))
-    this.first = grownTo(this.first, new Uint32Array(capacity))
-    this.second = grownTo(this.second, new Uint32Array(capacity))
-    this.distanceMm = grownTo(this.distanceMm, new Float64Array(capacity))
+    this.kind = grownArray(this.kind, capacity)
+    this.sameContour = grownArray(this.sameContour, capacity)
+    this.first = grownArray(this.first, capacity)
+    this.second = grownArray(this.second, capacity)
+    this.distanceMm = grownArray(this.distanceMm, capacity)
   }
 }
 
 function closestPointsOf(segments: CutSegments, first: number, second: number, out: ClosestPoints): ClosestPoints {
   return closestPointsAt(segments.contours.xy, 2 * segments.firstPoint[first], 2 * segments.firstPoint[second], out)
-}
-
-function grownTo<T extends Uint8Array | Uint32Array | Float64Array>(old: T, grown: T): T {
-  grown.set(old)
-  return grown
 }
 
 /** A stretch [from, to] (parameters) of a segment that runs along an earlier segment. */
@@ -241,8 +236,8 @@ function addRepeat(xy: Float64Array, firstPoint: Uint32Array, earlier: number, l
   const cross = (bx - ax) * (dy - cy) - (by - ay) * (dx - cx)
   // Most pairs that get here are neighbours meeting at an angle: clearly not parallel by squares, before the two roots.
   if (cross * cross > PARALLEL_SINE_SQUARED_CLEARLY * ((bx - ax) ** 2 + (by - ay) ** 2) * ((dx - cx) ** 2 + (dy - cy) ** 2)) return false
-  const earlierLength = hypot(bx - ax, by - ay)
-  const laterLength = hypot(dx - cx, dy - cy)
+  const earlierLength = Math.hypot(bx - ax, by - ay)
+  const laterLength = Math.hypot(dx - cx, dy - cy)
   if (earlierLength === 0 || laterLength === 0) return false
   const sine = Math.abs(cross) / (earlierLength * laterLength)
   if (sine > PARALLEL_SINE) return false

@@ -1,5 +1,4 @@
 /** Exact distance, crossing and overlap of two straight segments in the plane. */
-import { hypot } from '../distance'
 
 /** Closest points of two segments: P on the first at parameter u, Q on the second at v (0 at the start, 1 at the end). */
 export interface ClosestPoints {
@@ -70,7 +69,7 @@ function considerEnd(xy: Float64Array, end: number, segment: number, endIsOnSeco
   const t = lengthSquared === 0 ? 0 : Math.min(1, Math.max(0, ((x - sx) * (ex - sx) + (y - sy) * (ey - sy)) / lengthSquared))
   const footX = sx + t * (ex - sx)
   const footY = sy + t * (ey - sy)
-  const distance = hypot(x - footX, y - footY)
+  const distance = Math.hypot(x - footX, y - footY)
   if (distance >= out.distanceMm) return
   if (endIsOnSecond) setClosest(out, distance, footX, footY, t, x, y, endParameter)
   else setClosest(out, distance, x, y, endParameter, footX, footY, t)
@@ -147,7 +146,7 @@ export function stretchWithin(ax: number, ay: number, bx: number, by: number, cx
   }
   widen(clipToDisc(ax, ay, cx, cy, dx, dy, toleranceMm))
   widen(clipToDisc(bx, by, cx, cy, dx, dy, toleranceMm))
-  const length = hypot(bx - ax, by - ay)
+  const length = Math.hypot(bx - ax, by - ay)
   if (length > 0) {
     const alongX = (bx - ax) / length
     const alongY = (by - ay) / length
