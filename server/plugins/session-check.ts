@@ -1,4 +1,4 @@
-import { sessionIsLive } from '../services/sessions'
+import { sessionIsLive } from '../utils/sessions'
 
 // nuxt-auth-utils' own GET /api/_auth/session answers from the cookie alone; an ended session must not
 // show its user there either.
