@@ -21,7 +21,8 @@ export function useProcessChoice<Cutter extends ChoosableCutter>(cutters: Ref<Cu
   const materialId = computed({
     get: () => {
       const materials = cutter.value?.materials ?? []
-      return materials.some((m) => m.materialId === chosenMaterialId.value && m.cuttable) ? chosenMaterialId.value : (materials.find((m) => m.cuttable)?.materialId ?? null)
+      const chosenIsCuttable = materials.some((m) => m.materialId === chosenMaterialId.value && m.cuttable)
+      return chosenIsCuttable ? chosenMaterialId.value : (materials.find((m) => m.cuttable)?.materialId ?? null)
     },
     set: (id: number | null) => (chosenMaterialId.value = id),
   })

@@ -38,7 +38,14 @@ const SMTP_TIMEOUT_MS = Number(process.env.MAIL_TIMEOUT_MS || 10_000)
 export async function deliverBySmtp(message: OutgoingMail, workshopName: string): Promise<void> {
   const config = serverConfig()
   // Pooled: the sender delivers one mail after another over a kept-open connection.
-  transport ??= nodemailer.createTransport({ url: config.smtpUrl, pool: true, maxConnections: 1, connectionTimeout: SMTP_TIMEOUT_MS, greetingTimeout: SMTP_TIMEOUT_MS, socketTimeout: SMTP_TIMEOUT_MS })
+  transport ??= nodemailer.createTransport({
+    url: config.smtpUrl,
+    pool: true,
+    maxConnections: 1,
+    connectionTimeout: SMTP_TIMEOUT_MS,
+    greetingTimeout: SMTP_TIMEOUT_MS,
+    socketTimeout: SMTP_TIMEOUT_MS,
+  })
   await transport.sendMail({
     from: config.mailFrom,
     to: message.to,
