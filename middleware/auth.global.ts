@@ -21,6 +21,6 @@ export default defineNuxtRouteMiddleware(async (to) => {
   if (to.meta.public || to.matched.length === 0) return
   if (!session.user) return navigateTo({ path: '/sign-in', query: { next: to.fullPath } })
   if (to.meta.roles && !session.hasRole(...to.meta.roles)) {
-    throw createError({ statusCode: 403, statusMessage: 'This page is for workshop staff.' })
+    throw createError({ statusCode: 403, statusMessage: to.meta.roles.includes('staff') ? 'This page is for workshop staff.' : 'This page is for admins.' })
   }
 })

@@ -1,6 +1,8 @@
 // What a member reads about a finding group: made at display time from the group's code, cause, count,
 // statistics and facts (the engine stores numbers, never sentences), so one wording serves every page.
+// Lengths arrive in mm and are given in the reader's unit (shared/units.ts); the default is mm.
 import type { FindingGroup } from './finding-groups'
+import { MM_PER_INCH, type LengthUnit } from './units'
 
 export const FINDING_TITLES: Record<string, string> = {
   'narrow-bridge': 'Bridge too narrow',
@@ -38,9 +40,17 @@ export interface GroupDescription {
 
 type Described = Pick<FindingGroup, 'code' | 'cause' | 'count' | 'facts' | 'stats'>
 
-/** A length as members read it: two decimals and the unit. */
-export function formatMm(valueMm: number): string {
-  return `${valueMm.toFixed(2)} mm`
+/**
+ * The digits of a measured length in the reader's unit, fixed so that ranges and limits line up: hundredths of
+ * a millimetre, or thousandths of an inch (a thou, 0.0254 mm). Without the unit, so a range names it once.
+ */
+function measuredDigits(valueMm: number, unit: LengthUnit): string {
+  return unit === 'in' ? (valueMm / MM_PER_INCH).toFixed(3) : valueMm.toFixed(2)
+}
+
+/** A measured length as members read it: "1.50 mm", or "0.059 in". */
+export function formatMeasure(valueMm: number, unit: LengthUnit = 'mm'): string {
+  return `${measuredDigits(valueMm, unit)} ${unit}`
 }
 
 /** A count with its thousands set apart by a no-break space (22 500). */
@@ -48,11 +58,11 @@ export function formatCount(count: number): string {
   return String(Math.round(count)).replace(/\B(?=(\d{3})+(?!\d))/g, '\u00a0')
 }
 
-/** "1.50–1.62 mm", or one length when both ends read the same. */
-export function formatRangeMm(fromMm: number, toMm: number): string {
-  const from = fromMm.toFixed(2)
-  const to = toMm.toFixed(2)
-  return from === to ? `${from} mm` : `${from}–${to} mm`
+/** "1.50–1.62 mm" ("0.059–0.064 in"), or one length when both ends read the same. */
+export function formatRangeMm(fromMm: number, toMm: number, unit: LengthUnit = 'mm'): string {
+  const from = measuredDigits(fromMm, unit)
+  const to = measuredDigits(toMm, unit)
+  return from === to ? `${from} ${unit}` : `${from}–${to} ${unit}`
 }
 
 /** "1 bridge", "22 500 bridges". */
@@ -62,51 +72,58 @@ function counted(count: number, singular: string, plural: string): string {
 
 const isOrAre = (count: number) => (count === 1 ? 'is' : 'are')
 
-/** Message, headline and advice of a group in plain words, from its facts. */
-export function describeGroup(group: Described): GroupDescription {
+/** Message, headline and advice of a group in plain words, from its facts, with lengths in `unit`. */
+export function describeGroup(group: Described, unit: LengthUnit = 'mm'): GroupDescription {
   const title = findingTitle(group.code)
   // Revisions stored before findings were grouped keep their first finding's sentence instead of the numbers (db/legacy).
   if (typeof group.facts.message === 'string') return { title, headline: `${counted(group.count, 'place', 'places')}: ${group.facts.message}`, advice: '' }
-  const words = WORDING[group.code]?.(group, new Facts(group)) ?? { headline: `${formatCount(group.count)} × ${title}`, advice: '' }
+  const words = WORDING[group.code]?.(group, new Facts(group, unit)) ?? { headline: `${formatCount(group.count)} × ${title}`, advice: '' }
   return { title, ...words }
 }
 
-/** The line for one site of a group: its measured value in the group's terms, or '' when the site has none (no words that are not a number). */
-export function describeSite(group: Pick<FindingGroup, 'code' | 'cause' | 'facts'>, value: number): string {
+/** The line for one site of a group: its measured value (mm) in the group's terms and in `unit`, or '' when the site has none (no words that are not a number). */
+export function describeSite(group: Pick<FindingGroup, 'code' | 'cause' | 'facts'>, value: number, unit: LengthUnit = 'mm'): string {
   if (!Number.isFinite(value)) return ''
-  if (typeof group.facts.message === 'string') return formatMm(value)
-  const facts = new Facts(group)
+  const facts = new Facts(group, unit)
+  if (typeof group.facts.message === 'string') return facts.length(value)
   switch (group.code) {
     case 'narrow-bridge':
-      return value <= 0 ? `${formatMm(value + facts.number('kerfMm'))} apart (kerf ${formatMm(facts.number('kerfMm'))})` : `${formatMm(value)} wide (limit ${formatMm(facts.number('limitMm'))})`
+      return value <= 0 ? `${facts.length(value + facts.number('kerfMm'))} apart (kerf ${facts.mm('kerfMm')})` : `${facts.length(value)} wide (limit ${facts.mm('limitMm')})`
     case 'merged-cuts':
-      return `${formatMm(Math.max(0, value + facts.number('kerfMm')))} apart (kerf ${formatMm(facts.number('kerfMm'))})`
+      return `${facts.length(Math.max(0, value + facts.number('kerfMm')))} apart (kerf ${facts.mm('kerfMm')})`
     case 'small-hole':
-      return `${formatMm(value)} across (limit ${formatMm(facts.number('limitMm'))})`
+      return `${facts.length(value)} across (limit ${facts.mm('limitMm')})`
     case 'tiny-segment':
-      return `${formatMm(value)} long (limit ${formatMm(facts.number('limitMm'))})`
+      return `${facts.length(value)} long (limit ${facts.mm('limitMm')})`
     case 'duplicate-cut':
-      return `${formatMm(value)} drawn twice`
+      return `${facts.length(value)} drawn twice`
     case 'open-contour':
-      return `ends ${formatMm(value)} apart`
+      return `ends ${facts.length(value)} apart`
     case 'outside-sheet':
-      return `${formatMm(value)} (usable ${formatMm(facts.number('limitMm'))})`
+      return `${facts.length(value)} (usable ${facts.mm('limitMm')})`
     case 'too-thick':
-      return `${formatMm(value)} thick (limit ${formatMm(facts.number('limitMm'))})`
+      return `${facts.length(value)} thick (limit ${facts.mm('limitMm')})`
     default:
-      return formatMm(value)
+      return facts.length(value)
   }
 }
 
 /** Reads a group's facts; a missing number reads NaN, so a wrong fact shows rather than hides. */
 class Facts {
-  constructor(private readonly group: Pick<FindingGroup, 'facts'>) {}
+  constructor(
+    private readonly group: Pick<FindingGroup, 'facts'>,
+    readonly unit: LengthUnit,
+  ) {}
   number(name: string): number {
     const value = this.group.facts[name]
     return typeof value === 'number' ? value : Number.NaN
   }
+  /** A length fact (stored in mm), in the reader's unit. */
   mm(name: string): string {
-    return formatMm(this.number(name))
+    return this.length(this.number(name))
+  }
+  length(valueMm: number): string {
+    return formatMeasure(valueMm, this.unit)
   }
   text(name: string): string {
     const value = this.group.facts[name]
@@ -116,9 +133,9 @@ class Facts {
 
 type Wording = (group: Described, facts: Facts) => Omit<GroupDescription, 'title'>
 
-/** The measured range of the group's values, shifted (a web plus the kerf is the distance between the cuts). */
-function range(group: Described, shiftMm = 0): string {
-  return group.stats ? formatRangeMm(group.stats.min + shiftMm, group.stats.max + shiftMm) : ''
+/** The measured range of the group's values in the reader's unit, shifted (a web plus the kerf is the distance between the cuts). */
+function range(group: Described, facts: Facts, shiftMm = 0): string {
+  return group.stats ? formatRangeMm(group.stats.min + shiftMm, group.stats.max + shiftMm, facts.unit) : ''
 }
 
 const dxfOrSvg = (facts: Facts, svg: string, dxf: string) => (facts.text('format') === 'dxf' ? dxf : svg)
@@ -129,12 +146,21 @@ const WORDING: Record<string, Wording> = {
     const what = group.cause === 'neck' ? counted(count, 'neck within one cut', 'necks within single cuts') : counted(count, 'bridge between cuts', 'bridges between cuts')
     if (facts.number('limitMm') === 0) {
       return {
-        headline: `${what} ${count === 1 ? 'burns' : 'burn'} away: the cuts are ${range(group, facts.number('kerfMm'))} apart, no more than the kerf (${facts.mm('kerfMm')})`,
-        advice: `The material between them is cut away and the piece comes loose. Keep the cuts at least ${formatMm(facts.number('kerfMm') + facts.number('minBridgeMm'))} apart (kerf plus the minimum bridge).`,
+        headline: `${what} ${count === 1 ? 'burns' : 'burn'} away: the cuts are ${range(group, facts, facts.number('kerfMm'))} apart, no more than the kerf (${facts.mm('kerfMm')})`,
+        advice: `The material between them is cut away and the piece comes loose. Keep the cuts at least ${facts.length(facts.number('kerfMm') + facts.number('minBridgeMm'))} apart (kerf plus the minimum bridge).`,
       }
     }
+    // A width below zero is no bridge at all: the two cuts' kerfs overlap by that much.
+    const min = group.stats?.min ?? 0
+    const max = group.stats?.max ?? 0
+    const width =
+      max < 0
+        ? `${count === 1 ? 'is' : 'are'} not there: the cuts overlap by ${formatRangeMm(-max, -min, facts.unit)} after the kerf`
+        : min < 0
+          ? `${count === 1 ? 'is' : 'range'} from cuts overlapping by ${formatRangeMm(-min, -min, facts.unit)} to ${formatRangeMm(max, max, facts.unit)} wide after the kerf`
+          : `${isOrAre(count)} ${range(group, facts)} wide after the kerf`
     return {
-      headline: `${what} ${isOrAre(count)} ${range(group)} wide after the kerf (limit ${facts.mm('limitMm')})`,
+      headline: `${what} ${width} (limit ${facts.mm('limitMm')})`,
       advice: `The minimum bridge for ${facts.mm('thicknessMm')} material on this cutter is ${facts.mm('limitMm')}; narrower ones may tear or burn through. Move the cuts apart, or choose the thinner material the pattern may be drawn for.`,
     }
   },
@@ -145,7 +171,7 @@ const WORDING: Record<string, Wording> = {
           advice: 'The piece between them may drop out. Join them into one outline or move them apart.',
         }
       : {
-          headline: `${counted(group.count, 'pair', 'pairs')} of separate cuts come ${range(group, facts.number('kerfMm'))} apart, within the kerf (${facts.mm('kerfMm')})`,
+          headline: `${counted(group.count, 'pair', 'pairs')} of separate cuts come ${range(group, facts, facts.number('kerfMm'))} apart, within the kerf (${facts.mm('kerfMm')})`,
           advice: 'After cutting they run into each other. Move them apart or join them into one outline.',
         },
   'self-intersection': (group) => ({
@@ -157,17 +183,17 @@ const WORDING: Record<string, Wording> = {
     advice: `Lines within ${facts.mm('toleranceMm')} of each other are cut twice, which leaves burn marks. Delete the copies.`,
   }),
   'small-hole': (group, facts) => ({
-    headline: `${counted(group.count, 'hole', 'holes')} ${isOrAre(group.count)} ${range(group)} across (smallest for ${facts.mm('thicknessMm')} material: ${facts.mm('limitMm')})`,
+    headline: `${counted(group.count, 'hole', 'holes')} ${isOrAre(group.count)} ${range(group, facts)} across (smallest for ${facts.mm('thicknessMm')} material: ${facts.mm('limitMm')})`,
     advice: 'Holes this small may come out misshapen or not cut through. Make them larger or leave them out.',
   }),
   'tiny-segment': (group, facts) => ({
-    headline: `${counted(group.count, 'line is', 'lines are')} only ${range(group)} long (under ${facts.mm('limitMm')}, twice the kerf)`,
+    headline: `${counted(group.count, 'line is', 'lines are')} only ${range(group, facts)} long (under ${facts.mm('limitMm')}, twice the kerf)`,
     advice: 'Each burns a dot and costs a pierce. Delete them unless they are meant.',
   }),
   'open-contour': (group, facts) =>
     group.cause === 'nearly-closed'
       ? {
-          headline: `${counted(group.count, 'outline is', 'outlines are')} open, ${group.count === 1 ? 'its' : 'their'} ends only ${range(group)} apart`,
+          headline: `${counted(group.count, 'outline is', 'outlines are')} open, ${group.count === 1 ? 'its' : 'their'} ends only ${range(group, facts)} apart`,
           advice: `An open outline is cut as a line and nothing drops out. Close it if it should be a shape (ends closer than ${facts.mm('chainToleranceMm')} are joined).`,
         }
       : {

@@ -15,6 +15,23 @@ export function formatLength(valueMm: number, unit: LengthUnit = 'mm'): string {
   return unit === 'in' ? `${Number((valueMm / MM_PER_INCH).toFixed(3))} in` : `${Number(valueMm.toFixed(2))} mm`
 }
 
+/** A width × height, the unit named once: whole-ish mm, or inches to the hundredth ("600 × 400 mm", "23.62 × 15.75 in"). */
+export function formatSize(widthMm: number, heightMm: number, unit: LengthUnit = 'mm'): string {
+  const digits = (valueMm: number) => (unit === 'in' ? Number((valueMm / MM_PER_INCH).toFixed(2)) : Number(valueMm.toFixed(1)))
+  return `${digits(widthMm)} × ${digits(heightMm)} ${unit}`
+}
+
+/** A place on a drawing, x and y from its top-left corner, the unit named once: tenths of a mm or hundredths of an inch. */
+export function formatPoint(xMm: number, yMm: number, unit: LengthUnit = 'mm'): string {
+  const digits = (valueMm: number) => (unit === 'in' ? (valueMm / MM_PER_INCH).toFixed(2) : valueMm.toFixed(1))
+  return `x ${digits(xMm)}, y ${digits(yMm)} ${unit}`
+}
+
+/** A cut path's whole length: metres to the centimetre, or inches to the tenth (the same order of rounding). */
+export function formatPathLength(lengthMm: number, unit: LengthUnit = 'mm'): string {
+  return unit === 'in' ? `${(lengthMm / MM_PER_INCH).toFixed(1)} in` : `${(lengthMm / 1000).toFixed(2)} m`
+}
+
 /** An area: whole mm², or square inches with two decimals. */
 export function formatArea(valueMm2: number, unit: LengthUnit = 'mm'): string {
   return unit === 'in' ? `${Number((valueMm2 / (MM_PER_INCH * MM_PER_INCH)).toFixed(2))} in²` : `${Math.round(valueMm2)} mm²`

@@ -1,6 +1,6 @@
 import { defineStore } from 'pinia'
 
-// The calendar's view survives leaving the page: which cutter, which view, which date.
+// The calendar's view survives leaving the page: which view and which date (the cutter is remembered in a cookie).
 export const useCalendarStore = defineStore('calendar', {
-  state: () => ({ cutterId: null as number | null, view: 'timeGridWeek' as 'dayGridMonth' | 'timeGridWeek' | 'timeGridDay', date: null as string | null }),
+  state: () => ({ view: 'timeGridWeek' as 'dayGridMonth' | 'timeGridWeek' | 'timeGridDay', date: null as string | null }),
 })

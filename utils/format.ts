@@ -1,5 +1,5 @@
 import { DateTime } from 'luxon'
-import { formatLength, type LengthUnit } from '#shared/units'
+import { formatLength, formatPathLength, formatSize, type LengthUnit } from '#shared/units'
 
 // Display formatting shared by every page. Money arrives as integer minor units (ISO 4217).
 export function formatMoney(amountMinor: number, currency: string): string {
@@ -26,6 +26,16 @@ export function currentLengthUnit(): LengthUnit {
 /** A stored length (mm) in the reader's unit; read inside a render, so the page follows a change of unit. */
 export function formatMm(value: number | null | undefined): string {
   return value === null || value === undefined ? '—' : formatLength(value, currentLengthUnit())
+}
+
+/** A stored width × height (mm) in the reader's unit. */
+export function formatSizeMm(widthMm: number, heightMm: number): string {
+  return formatSize(widthMm, heightMm, currentLengthUnit())
+}
+
+/** A whole cut path's length (mm) in the reader's unit: metres, or inches. */
+export function formatPathMm(lengthMm: number): string {
+  return formatPathLength(lengthMm, currentLengthUnit())
 }
 
 export function formatDate(iso: string | null | undefined): string {

@@ -17,9 +17,16 @@ export async function up(knex: Knex): Promise<void> {
     timestamps(knex, t)
     t.index(['cutter_id', 'starts_at'])
   })
-  await knex.schema.alterTable('bookings', (t) => {
-    t.integer('outage_id').references('cutter_outages.id')
-  })
+  // SQLite: a plain ADD COLUMN. Knex adds a column with a foreign key by rebuilding the table, which drops the
+  // table's triggers (the bookings' overlap guard among them); SQLite accepts REFERENCES on an added column whose
+  // default is NULL, so no rebuild is needed.
+  if (knex.client.config.client === 'better-sqlite3') {
+    await knex.raw('ALTER TABLE bookings ADD COLUMN outage_id INTEGER REFERENCES cutter_outages(id)')
+  } else {
+    await knex.schema.alterTable('bookings', (t) => {
+      t.integer('outage_id').references('cutter_outages.id')
+    })
+  }
   await knex.schema.alterTable('users', (t) => {
     // mm | in (shared/units.ts)
     t.string('length_unit').notNullable().defaultTo('mm')

@@ -3,6 +3,6 @@ import { runSheet } from '../services/run-sheet'
 
 export default defineApiHandler(async (event) => {
   await requireRole(event, 'staff', 'admin')
-  const { cutter, date } = readQueryAs(event, runSheetQuerySchema)
-  return runSheet(useDb(), cutter, date)
+  const { cutter, prefer, date } = readQueryAs(event, runSheetQuerySchema)
+  return runSheet(useDb(), { cutterId: cutter, preferredCutterId: prefer }, date)
 })

@@ -7,6 +7,7 @@ import { Conflict, InvalidInput, NotFound } from '../utils/errors'
 import { nowIso } from '../utils/rows'
 import { analysisParamsFor } from './analysis-profile'
 import { getCutter } from './catalog/cutters'
+import { hasValidSignOff } from './catalog/sign-offs'
 import { getMaterial } from './catalog/materials'
 import { findProcessSetting } from './catalog/process-settings'
 import { balancesOwed } from './balance'
@@ -161,6 +162,8 @@ export async function jobDetail(db: Knex, viewer: SessionUser, jobId: number) {
     findingGroups,
     warningGroups: await acknowledgedGroups(db, findingGroups),
     estimate: await jobEstimate(db, job, files),
+    /** Whether the member holds a valid induction sign-off for the job's cutter today: booking needs one. */
+    memberSignedOff: await hasValidSignOff(db, job.member_id, job.cutter_id),
     /** What the cut cost beyond the hold and is not paid yet (pay from "My payments"). */
     balanceOwed: (await balancesOwed(db, { jobId }))[0] ?? null,
     events: await Promise.all(

@@ -1,17 +1,18 @@
 import type { Knex } from 'knex'
 import { cautionsFor, type Caution } from '#shared/safety'
 import { gunzipSync } from 'node:zlib'
-import { CLOSED_BIT, decodeGeometry, PREVIEW_OPERATIONS } from '#shared/packed-analysis'
+import { CLOSED_BIT, decodeGeometry, decodeSites, PREVIEW_OPERATIONS } from '#shared/packed-analysis'
 import { NotFound } from '../utils/errors'
 import { balancesOwed } from './balance'
 import { liveBookings } from './bookings'
 import { listColours } from './catalog/colours'
-import { getCutter } from './catalog/cutters'
+import { getCutter, listCutters } from './catalog/cutters'
 import { getMaterial } from './catalog/materials'
 import { acknowledgedGroups, type WarningGroupView } from './finding-acknowledgements'
-import { currentFindingGroups } from './job-revisions'
+import { currentFindingGroups, type FileFindingGroups } from './job-revisions'
 import { currentFiles, jobEstimate, type JobRow } from './jobs'
 import { timerMinutes, type TimerKind } from './operations'
+import { ledgerFor, paymentStateOf } from './payments'
 import { workshopSettings } from './settings'
 import { inZone, toUtcIso } from './workshop-time'
 
@@ -28,39 +29,97 @@ export interface RunSheetEntry {
   sheets: { count: number; widthMm: number; heightMm: number }
   files: { name: string; quantity: number; revision: number }[]
   /** The groups of warnings the member accepted, with their reasons and where they are. */
-  warningGroups: WarningGroupView[]
+  warningGroups: (WarningGroupView & { locations: SiteLocation[] })[]
   cautions: Caution[]
   timer: { minutes: number; running: boolean }
+  /** The estimate's cutting minutes (machine time without the setup), to read beside the timer. */
+  estimateMinutes: number
   actualMinutes: number | null
+  /** What the card paid so far for this booking (captures and balances, less refunds), once anything was charged. */
+  chargedMinor: number | null
+  currency: string
   pickupLocation: string | null
   problems: { kind: string; note: string; at: string }[]
 }
 
-/** The day's booked jobs on one cutter, in order, with everything the operator needs at the machine. */
-export async function runSheet(db: Knex, cutterId: number, localDate: string): Promise<{ cutterName: string; date: string; timeZone: string; entries: RunSheetEntry[] }> {
+/** Where a finding is, in mm from the drawing's top-left corner. */
+export interface SiteLocation {
+  x: number
+  y: number
+}
+
+// Enough places to find them at the machine; the job's preview has every one.
+const LOCATIONS_PER_GROUP = 5
+
+/** The first places of each acknowledged group, read from the revision's packed sites (one decode per revision). */
+async function withLocations(db: Knex, fileGroups: FileFindingGroups[], groups: WarningGroupView[]): Promise<RunSheetEntry['warningGroups']> {
+  const sitesByRevision = new Map<number, ReturnType<typeof decodeSites>>()
+  const result: RunSheetEntry['warningGroups'] = []
+  for (const g of groups) {
+    const revisionId = fileGroups.find((f) => f.fileId === g.fileId && f.revision === g.revision)!.revisionId
+    if (!sitesByRevision.has(revisionId)) {
+      const payload = await db('revision_payloads').where({ file_revision_id: revisionId }).first('sites_gz')
+      if (payload) sitesByRevision.set(revisionId, decodeSites(gunzipSync(payload.sites_gz)))
+    }
+    const sites = sitesByRevision.get(revisionId)
+    const locations: SiteLocation[] = []
+    for (let row = g.group.firstSite; sites && row < Math.min(g.group.firstSite + g.group.count, g.group.firstSite + LOCATIONS_PER_GROUP, sites.count); row++) {
+      locations.push({ x: sites.xy[2 * row]!, y: sites.xy[2 * row + 1]! })
+    }
+    result.push({ ...g, locations })
+  }
+  return result
+}
+
+export interface RunSheetDay {
+  cutterId: number
+  cutterName: string
+  date: string
+  timeZone: string
+  /** Every cutter in service with the number of jobs booked on it that day, for the choice of cutter. */
+  cutters: { id: number; name: string; bookings: number }[]
+  /** Every job of the day not yet handed over, in order of its booking. */
+  entries: RunSheetEntry[]
+  /** The day's jobs already handed over to their members. */
+  collected: RunSheetEntry[]
+}
+
+/**
+ * The day's booked jobs on one cutter, in order, with everything the operator needs at the machine.
+ * Without a cutter: the preferred one if it has bookings that day, else the one with the most, else the preferred one.
+ */
+export async function runSheet(db: Knex, choice: { cutterId?: number; preferredCutterId?: number }, localDate: string): Promise<RunSheetDay> {
   const settings = await workshopSettings(db)
-  const cutter = await getCutter(db, cutterId)
   const day = inZone(`${localDate}T12:00:00Z`, settings.timeZone).startOf('day')
   if (!day.isValid) throw new NotFound('No such day.')
   const from = toUtcIso(day)
   const to = toUtcIso(day.plus({ days: 1 }))
-  const bookings = await liveBookings(db('bookings').where({ cutter_id: cutterId, kind: 'job' }).where('starts_at', '>=', from).where('starts_at', '<', to)).orderBy('starts_at')
+  const dayBookings = () => liveBookings(db('bookings').where({ kind: 'job' }).where('starts_at', '>=', from).where('starts_at', '<', to))
+  const counts = new Map<number, number>(((await dayBookings().groupBy('cutter_id').select('cutter_id', db.raw('count(*) as n'))) as { cutter_id: number; n: number }[]).map((r) => [r.cutter_id, Number(r.n)]))
+  const cutters = (await listCutters(db)).map((c) => ({ id: c.id, name: c.name, bookings: counts.get(c.id) ?? 0 }))
+  const busiest = [...cutters].sort((a, b) => b.bookings - a.bookings)[0]
+  const preferred = cutters.find((c) => c.id === choice.preferredCutterId)
+  const cutterId = choice.cutterId ?? (preferred?.bookings ? preferred.id : busiest?.bookings ? busiest.id : (preferred?.id ?? busiest?.id))
+  if (!cutterId) throw new NotFound('No cutter is set up yet.')
+  const cutter = await getCutter(db, cutterId)
+  const bookings = await dayBookings().where({ cutter_id: cutterId }).orderBy('starts_at')
   const entries: RunSheetEntry[] = []
   for (const booking of bookings) {
     const job = (await db<JobRow & Record<string, any>>('jobs').where({ id: booking.job_id }).first())!
-    // Handed over: nothing left to do at the machine or the shelf.
-    if (job.state === 'collected') continue
-    const [member, material, files, events, problems] = await Promise.all([
+    const [member, material, files, events, problems, ledger] = await Promise.all([
       db('users').where({ id: job.member_id }).first('name', 'email'),
       getMaterial(db, job.material_id),
       currentFiles(db, job.id),
       db('cut_timer_events').where({ job_id: job.id }).orderBy('id').select('kind', 'at') as Promise<{ kind: TimerKind; at: string }[]>,
       db('cut_problems').where({ job_id: job.id }).orderBy('id').select('kind', 'note', 'created_at as at'),
+      ledgerFor(db, booking.id),
     ])
     const estimate = await jobEstimate(db, job, files)
     const withWarnings = files.filter((f) => f.current.counts.warningGroups > 0)
-    const warningGroups = withWarnings.length ? (await acknowledgedGroups(db, await currentFindingGroups(db, withWarnings))).filter((g) => g.acknowledgement) : []
+    const fileGroups = withWarnings.length ? await currentFindingGroups(db, withWarnings) : []
+    const acknowledged = fileGroups.length ? (await acknowledgedGroups(db, fileGroups)).filter((g) => g.acknowledgement) : []
     const sheet = material.sheets.find((s) => s.id === job.sheet_id) ?? material.sheets[0]!
+    const payment = paymentStateOf(ledger)
     entries.push({
       bookingId: booking.id,
       start: booking.starts_at,
@@ -72,15 +131,26 @@ export async function runSheet(db: Knex, cutterId: number, localDate: string): P
       material: { name: material.name, thicknessMm: material.thicknessMm, hazardNote: material.hazardNote },
       sheets: { count: estimate.sheetCount, widthMm: sheet.widthMm, heightMm: sheet.heightMm },
       files: files.map((f) => ({ name: f.name, quantity: f.quantity, revision: f.current.revision })),
-      warningGroups,
+      warningGroups: await withLocations(db, fileGroups, acknowledged),
       cautions: cautionsFor(cutter.kind, material),
       timer: timerMinutes(events),
+      estimateMinutes: Math.round((estimate.machineS - estimate.components.setupS) / 6) / 10,
       actualMinutes: job.actual_minutes ?? null,
+      chargedMinor: payment.capturedMinor > 0 ? payment.capturedMinor - payment.refundedMinor : null,
+      currency: estimate.currency,
       pickupLocation: job.pickup_location ?? null,
       problems,
     })
   }
-  return { cutterName: cutter.name, date: localDate, timeZone: settings.timeZone, entries }
+  return {
+    cutterId: cutter.id,
+    cutterName: cutter.name,
+    date: localDate,
+    timeZone: settings.timeZone,
+    cutters,
+    entries: entries.filter((e) => e.job.state !== 'collected'),
+    collected: entries.filter((e) => e.job.state === 'collected'),
+  }
 }
 
 /**

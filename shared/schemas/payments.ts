@@ -40,6 +40,8 @@ export const collectSchema = z.object({
 })
 
 export const runSheetQuerySchema = z.object({
-  cutter: z.coerce.number().int().positive({ error: 'Choose a cutter.' }),
+  // Without a cutter the day opens on the preferred one, or on the one with bookings that day.
+  cutter: z.coerce.number().int().positive({ error: 'Choose a cutter.' }).optional(),
+  prefer: z.coerce.number().int().positive().optional(),
   date: z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { error: 'The date is YYYY-MM-DD.' }),
 })

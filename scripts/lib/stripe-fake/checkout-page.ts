@@ -77,7 +77,11 @@ export function renderPaymentForm(stored: StoredCheckoutSession, form: CheckoutF
     ? `<input type="hidden" name="email" value="${escapeHtml(session.customer_email)}"><p>Receipt to <strong>${escapeHtml(session.customer_email)}</strong></p>`
     : field('email', form, 'type="email" autocomplete="email" required')
   const testCards = TEST_CARDS.map((card) => `<li><code>${escapeHtml(card.number.replace(/(\d{4})(?=\d)/g, '$1 '))}</code> — ${escapeHtml(card.summary)}</li>`).join('')
-  const body = `<h1>Pay ${escapeHtml(total)}</h1>
+  // A payment captured later is a hold on the card: the page says so instead of "Pay".
+  const hold = stored.paymentIntentData.captureMethod === 'manual'
+  const action = hold ? `Hold ${total} on your card` : `Pay ${total}`
+  const body = `<h1>${escapeHtml(action)}</h1>
+${hold ? '<p>Nothing is charged now: the amount is reserved on your card, and only what the shop finally charges is taken.</p>' : ''}
 ${errorSummary(form)}
 ${orderSummary(stored)}
 <section class="panel" aria-labelledby="card-heading">
@@ -90,7 +94,7 @@ ${field('expiry', form, 'autocomplete="cc-exp" placeholder="MM/YY" required', 'M
 ${field('cvc', form, 'inputmode="numeric" autocomplete="cc-csc" required', '3 or 4 digits')}
 </div>
 ${field('name', form, 'autocomplete="cc-name"', 'Optional')}
-<div class="actions"><button type="submit" class="primary">Pay ${escapeHtml(total)}</button></div>
+<div class="actions"><button type="submit" class="primary">${escapeHtml(action)}</button></div>
 </form>
 <div class="actions">${cancelForm(stored)}</div>
 <details>
@@ -99,7 +103,7 @@ ${field('name', form, 'autocomplete="cc-name"', 'Optional')}
 <p>Use any future expiry date and any three-digit security code.</p>
 </details>
 </section>`
-  return htmlDocument(`Pay ${total} — test checkout`, body)
+  return htmlDocument(`${action} — test checkout`, body)
 }
 
 export function renderAuthenticationStep(stored: StoredCheckoutSession): string {
