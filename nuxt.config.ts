@@ -18,7 +18,8 @@ export default defineNuxtConfig({
     },
   },
   runtimeConfig: {
-    session: { maxAge: 60 * 60 * 24 * 14 },
+    // The password comes from NUXT_SESSION_PASSWORD at run time; '' is nuxt-auth-utils' own default.
+    session: { maxAge: 60 * 60 * 24 * 14, password: '' },
   },
   nitro: {
     // Native and dialect-probing packages stay outside the bundle; Nitro copies them into .output.

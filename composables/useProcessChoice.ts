@@ -1,11 +1,15 @@
-import type { CutterOverview } from '~/server/services/catalog/overview'
+/** What the choice reads of a cutter in GET /api/catalog/overview. */
+interface ChoosableCutter {
+  cutterId: number
+  materials: { materialId: number; cuttable: boolean }[]
+}
 
 /**
  * The cutter × material a member picks for a file or a job. The material falls back to the first one
  * that can be cut on the chosen cutter — a computed rather than a watcher, so the server renders the
  * same choice the browser starts with.
  */
-export function useProcessChoice(cutters: Ref<CutterOverview[]>) {
+export function useProcessChoice<Cutter extends ChoosableCutter>(cutters: Ref<Cutter[]>) {
   const chosenCutterId = ref<number | null>(null)
   const chosenMaterialId = ref<number | null>(null)
 
@@ -17,7 +21,8 @@ export function useProcessChoice(cutters: Ref<CutterOverview[]>) {
   const materialId = computed({
     get: () => {
       const materials = cutter.value?.materials ?? []
-      return materials.some((m) => m.materialId === chosenMaterialId.value && m.cuttable) ? chosenMaterialId.value : (materials.find((m) => m.cuttable)?.materialId ?? null)
+      const chosenIsCuttable = materials.some((m) => m.materialId === chosenMaterialId.value && m.cuttable)
+      return chosenIsCuttable ? chosenMaterialId.value : (materials.find((m) => m.cuttable)?.materialId ?? null)
     },
     set: (id: number | null) => (chosenMaterialId.value = id),
   })

@@ -149,8 +149,9 @@ function groupLines(result: AnalysisResult, group: AnalysisResult['findingGroups
   const lines = [`  ${group.severity.padEnd(7)} ${title} [${group.key}]: ${headline}. ${advice}`]
   if (group.stats) lines.push(`          median ${mm(group.stats.median)}, histogram ${formatRangeMm(group.stats.histogram.fromMm, group.stats.histogram.toMm)}: ${group.stats.histogram.counts.join(' ')}`)
   for (let row = group.firstSite; row < group.firstSite + Math.min(group.count, SITES_SHOWN); row++) {
-    const line = describeSite(group, sites.value[row])
-    lines.push(`          at (${mm(sites.xy[2 * row])}, ${mm(sites.xy[2 * row + 1])})${line ? `: ${line}` : ''}`)
+    // The group's sites are rows firstSite … firstSite + count - 1 of the packed arrays.
+    const line = describeSite(group, sites.value[row]!)
+    lines.push(`          at (${mm(sites.xy[2 * row]!)}, ${mm(sites.xy[2 * row + 1]!)})${line ? `: ${line}` : ''}`)
   }
   if (group.count > SITES_SHOWN) lines.push(`          … and ${group.count - SITES_SHOWN} more`)
   return lines

@@ -7,6 +7,7 @@ import { cpus, tmpdir, totalmem } from 'node:os'
 import { join } from 'node:path'
 import autocannon from 'autocannon'
 import { plainPart, svgDocument } from '../tests/fixtures/svg'
+import type { ApiResponse } from '../utils/api-types'
 import { startBuiltApp } from './lib/built-app'
 
 const CONNECTIONS = 50
@@ -28,7 +29,7 @@ function largePattern(side: number): string {
   return svgDocument(side * cellMm, side * cellMm, parts.join(''))
 }
 
-async function api(baseUrl: string, cookie: string, method: string, path: string, body?: unknown): Promise<any> {
+async function api<T = unknown>(baseUrl: string, cookie: string, method: string, path: string, body?: unknown): Promise<T> {
   const response = await fetch(baseUrl + path, {
     method,
     headers: { cookie, ...(body instanceof FormData || body === undefined ? {} : { 'content-type': 'application/json' }) },
@@ -36,7 +37,7 @@ async function api(baseUrl: string, cookie: string, method: string, path: string
   })
   const text = await response.text()
   if (response.status >= 400) throw new Error(`${method} ${path}: ${response.status} ${text.slice(0, 300)}`)
-  return text ? JSON.parse(text) : undefined
+  return (text ? JSON.parse(text) : undefined) as T
 }
 
 async function signIn(baseUrl: string, email: string): Promise<string> {
@@ -73,22 +74,22 @@ async function main(): Promise<void> {
   try {
     const member = await signIn(baseUrl, 'member@example.test')
     const staff = await signIn(baseUrl, 'staff@example.test')
-    const overview = (await api(baseUrl, member, 'GET', '/api/catalog/overview')) as any[]
-    const heron = overview.find((c) => c.name.startsWith('Heron'))
-    const cutterId = heron.cutterId as number
-    const materialId = heron.materials.find((m: any) => m.name === 'Birch plywood').materialId as number
+    const overview = await api<ApiResponse<'/api/catalog/overview'>>(baseUrl, member, 'GET', '/api/catalog/overview')
+    const heron = overview.find((c) => c.name.startsWith('Heron'))!
+    const cutterId = heron.cutterId
+    const materialId = heron.materials.find((m) => m.name === 'Birch plywood')!.materialId
 
     console.log(`Preparing ${STORM_JOBS} approved jobs…`)
     const jobIds: number[] = []
     for (let i = 0; i < STORM_JOBS; i++) {
-      const job = await api(baseUrl, member, 'POST', '/api/jobs', { title: `Bench job ${i}`, cutterId, materialId })
+      const job = await api<ApiResponse<'/api/jobs', 'post'>>(baseUrl, member, 'POST', '/api/jobs', { title: `Bench job ${i}`, cutterId, materialId })
       await api(baseUrl, member, 'POST', `/api/jobs/${job.id}/files`, fileForm(plainPart(), 'part.svg'))
       await api(baseUrl, member, 'POST', `/api/jobs/${job.id}/submit`, {})
       await api(baseUrl, staff, 'POST', `/api/jobs/${job.id}/approve`, {})
       jobIds.push(job.id)
     }
-    const { slots } = await api(baseUrl, member, 'GET', `/api/bookings/suggestions?jobId=${jobIds[0]}`)
-    const slotStart = slots[0].start as string
+    const { slots } = await api<ApiResponse<'/api/bookings/suggestions'>>(baseUrl, member, 'GET', `/api/bookings/suggestions?jobId=${jobIds[0]}`)
+    const slotStart = slots[0]!.start
     const from = new Date(Date.now()).toISOString()
     const to = new Date(Date.now() + 28 * 86_400_000).toISOString()
     const calendarPath = `/api/bookings?cutter=${cutterId}&from=${encodeURIComponent(from)}&to=${encodeURIComponent(to)}`

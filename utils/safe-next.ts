@@ -3,6 +3,7 @@
 const ORIGIN = 'https://kerfbook.invalid'
 
 export function safeNextPath(next: unknown): string | undefined {
+  // eslint-disable-next-line no-control-regex -- a control character refuses the path
   if (typeof next !== 'string' || !next.startsWith('/') || /[\\\u0000-\u001f\u007f]/.test(next) || next.startsWith('//')) return undefined
   try {
     const url = new URL(next, ORIGIN)

@@ -1,5 +1,5 @@
 import { composeAccountMail } from '../services/account-mail'
-import { deliverDueMail, outboxPolicy } from '../services/mail-outbox'
+import { deliverAsWorkshop, deliverDueMail, outboxPolicy } from '../services/mail-outbox'
 
 // The outbox's background sender: every MAIL_OUTBOX_INTERVAL_MS (default 250 ms) it delivers the mail that is due,
 // one run at a time. It is the only place that talks to the mail server; requests only write rows.
@@ -12,7 +12,7 @@ export default defineNitroPlugin((nitro) => {
       if (running) return
       running = true
       databaseReady()
-        .then(() => deliverDueMail(useDb(), deliverBySmtp, policy, undefined, composeAccountMail))
+        .then(() => deliverDueMail(useDb(), (message) => deliverAsWorkshop(useDb(), message), policy, undefined, composeAccountMail))
         .catch((error) => console.error('[mail] sender failed:', error))
         .finally(() => (running = false))
     },

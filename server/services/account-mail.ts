@@ -1,8 +1,7 @@
 import type { Knex } from 'knex'
 import type { SessionUser } from '#shared/roles'
 import { serverConfig } from '../utils/config'
-import { sendMail } from '../utils/mailer'
-import { queueMail, type ComposeMail, type DeferredMailKind, type MailMessage } from './mail-outbox'
+import { queueMail, sendMail, type ComposeMail, type DeferredMailKind, type MailMessage } from './mail-outbox'
 import { issueToken } from './tokens'
 
 // The account e-mails, queued in the outbox in the transaction of the change they report (accounts.ts); the routes

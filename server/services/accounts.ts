@@ -2,7 +2,7 @@ import type { Knex } from 'knex'
 import type { Role, SessionUser } from '#shared/roles'
 import { Conflict, Forbidden, InvalidInput, NotFound, Unauthorized } from '../utils/errors'
 import { passwordChangedMail, signUpAttemptMail, verificationMail } from './account-mail'
-import { endAllSessions } from './sessions'
+import { endAllSessions } from '../utils/sessions'
 import { consumeToken, issueToken, revokeTokens } from './tokens'
 
 export interface UserRow {
@@ -32,11 +32,6 @@ function toSessionUser(row: UserRow): SessionUser {
 
 export function toListItem(row: UserRow): UserListItem {
   return { ...toSessionUser(row), verified: !!row.email_verified_at, disabled: !!row.disabled_at, createdAt: row.created_at }
-}
-
-export async function findActiveUser(db: Knex, id: number): Promise<SessionUser | undefined> {
-  const row = await db<UserRow>('users').where({ id }).whereNull('disabled_at').first()
-  return row ? toSessionUser(row) : undefined
 }
 
 /**

@@ -1,6 +1,6 @@
 import type { Knex } from 'knex'
 import { serverConfig } from '../utils/config'
-import { sendMail } from '../utils/mailer'
+import { sendMail } from './mail-outbox'
 import { nowIso } from '../utils/rows'
 import { bookingIcs } from './booking-calendar'
 import type { BookingRow } from './bookings'

@@ -4,6 +4,7 @@ import { isStaff, type SessionUser } from '#shared/roles'
 import type { WorkshopSettings } from '#shared/schemas/settings'
 import { Conflict, Forbidden, InvalidInput, NotFound } from '../utils/errors'
 import { nowIso } from '../utils/rows'
+import { isTriggerRefusal } from '../utils/sqlite'
 import { getCutter, type Cutter } from './catalog/cutters'
 import { listClosures, listOpeningHours } from './catalog/opening-hours'
 import { hasValidSignOff } from './catalog/sign-offs'
@@ -138,7 +139,8 @@ export async function inBookingTransaction<T>(db: Knex, cutterId: number, work: 
       return work(trx)
     })
   } catch (error) {
-    if (/booking_overlap/.test((error as Error).message)) throw new BookingRefused('overlap', 'Someone else has that time on this cutter. Pick another slot.')
+    // The one trigger on the tables a booking writes is the overlap guard of migration 0004.
+    if (isTriggerRefusal(error)) throw new BookingRefused('overlap', 'Someone else has that time on this cutter. Pick another slot.')
     throw error
   }
 }

@@ -1,6 +1,6 @@
 import type { Knex } from 'knex'
 import { serverConfig } from '../utils/config'
-import { sendMail } from '../utils/mailer'
+import { sendMail } from './mail-outbox'
 import { bookingIcs } from './booking-calendar'
 import type { OutagePeriod } from './cutter-outage-periods'
 import { formatMinor } from './money'

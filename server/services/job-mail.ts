@@ -1,7 +1,7 @@
 import type { Knex } from 'knex'
 import { JOB_STATE_LABELS } from '#shared/job-states'
 import { serverConfig } from '../utils/config'
-import { sendMail } from '../utils/mailer'
+import { sendMail } from './mail-outbox'
 import type { TransitionRecord } from './job-states'
 import { findingRefLabel } from './job-revisions'
 

@@ -31,11 +31,32 @@ export interface JobRow {
   state: JobState
   warnings_acknowledgement: string | null
   override_reason: string | null
+  override_by: number | null
   submitted_at: string | null
+  /** Machine minutes staff logged at the finish (0006). */
+  actual_minutes: number | null
+  /** The estimate as it stood when the cut finished, so reports and calibration read what was known then (0007). */
+  estimated_minutes: number | null
+  estimated_cut_s: number | null
+  estimated_pierce_s: number | null
+  estimated_travel_s: number | null
+  estimated_setup_s: number | null
+  sheets_used: number | null
+  cut_finished_at: string | null
+  /** Collection: the shelf, the one-time code, and when the parts were ready, reminded about and collected (0007). */
+  pickup_location: string | null
+  pickup_code: string | null
+  ready_at: string | null
+  collected_at: string | null
+  pickup_reminded_at: string | null
+  /** A finish under way, written before the card is captured and cleared when the finish commits (0011). */
+  finishing_minutes: number | null
+  finishing_comment: string | null
+  finishing_by: number | null
+  finishing_since: string | null
   created_at: string
   updated_at: string
 }
-
 
 /** The job if the viewer may see it; another member's job is "not found", so ids are not confirmed. */
 export async function jobForViewer(db: Knex, viewer: SessionUser, jobId: number): Promise<JobRow> {

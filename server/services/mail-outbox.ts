@@ -1,16 +1,12 @@
 import type { Knex } from 'knex'
 import type { Page } from '#shared/schemas/paging'
 import { keysetPage, mapPage } from '../utils/paging'
+import { deliverBySmtp, type OutgoingMail } from '../utils/mailer'
 import { nowIso } from '../utils/rows'
+import { workshopDisplayName } from './settings'
 
 /** A mail as the services write it; the mailer renders it (HTML and text) when it is sent. */
-export interface MailMessage {
-  to: string
-  subject: string
-  /** Paragraphs of plain text; the HTML part is built from the same paragraphs. */
-  paragraphs: string[]
-  action?: { label: string; url: string }
-  attachments?: { filename: string; content: string; contentType: string; encoding?: 'base64' }[]
+export interface MailMessage extends OutgoingMail {
   /**
    * A mail whose content the sender decides when it takes the row (`ComposeMail`), e.g. a reset link for an address
    * that may have no account: the request writes the same row either way and the sender drops it if there is none.
@@ -49,6 +45,20 @@ export function outboxPolicy(env = process.env): OutboxPolicy {
 export async function queueMail(db: Knex, message: MailMessage): Promise<number> {
   const [id] = await db('mail_outbox').insert({ recipient: message.to, subject: message.subject, message_json: JSON.stringify(message), next_attempt_at: nowIso() })
   return id!
+}
+
+/**
+ * Puts the mail in the outbox; the background sender delivers it. Pass the transaction of the change the mail
+ * reports, so the two commit together. Never waits for the mail server.
+ */
+export async function sendMail(message: MailMessage, db: Knex): Promise<boolean> {
+  await queueMail(db, message)
+  return true
+}
+
+/** The outbox sender's delivery: one mail through SMTP_URL, signed with the workshop's name. */
+export async function deliverAsWorkshop(db: Knex, message: MailMessage): Promise<void> {
+  await deliverBySmtp(message, await workshopDisplayName(db))
 }
 
 /** Exponential back-off: base, 2 × base, 4 × base … never more than the cap. */

@@ -1,7 +1,7 @@
 import type { Knex } from 'knex'
 import QRCode from 'qrcode'
 import { serverConfig } from '../utils/config'
-import { sendMail } from '../utils/mailer'
+import { sendMail } from './mail-outbox'
 
 /** The pickup code as a QR code (SVG), for the member's phone and the staff scanner. */
 export function pickupQrSvg(code: string): Promise<string> {

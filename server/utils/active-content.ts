@@ -27,6 +27,7 @@ const MARKUP_IN_TEXT = /<\s*(?:[\w.-]+:)?(?:script|foreignObject|iframe|embed|ob
 
 const localName = (name: string) => name.slice(name.indexOf(':') + 1).toLowerCase()
 // What a browser makes of a URL: whitespace and control characters dropped, case ignored.
+// eslint-disable-next-line no-control-regex -- control characters are what it drops
 const asUrl = (value: string) => value.replace(/[\u0000-\u0020\u007f-\u009f]/g, '').toLowerCase()
 
 function textFindings(text: string): string[] {

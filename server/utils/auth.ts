@@ -1,8 +1,7 @@
 import type { H3Event } from 'h3'
 import type { Role, SessionUser } from '#shared/roles'
 import { Forbidden, Unauthorized } from './errors'
-import { findActiveUser } from '../services/accounts'
-import { endSession, sessionIsLive, startSession } from '../services/sessions'
+import { endSession, liveSessionUser, startSession } from './sessions'
 
 interface KerfbookSession {
   user?: SessionUser
@@ -27,8 +26,7 @@ export async function requireRole(event: H3Event, ...roles: Role[]): Promise<Ses
   const session = await readSession(event)
   if (!session.user) throw new Unauthorized()
   const sessionId = session.secure?.sessionId
-  const live = !!sessionId && (await sessionIsLive(useDb(), sessionId, session.user.id))
-  const user = live ? await findActiveUser(useDb(), session.user.id) : undefined
+  const user = sessionId ? await liveSessionUser(useDb(), sessionId, session.user.id) : undefined
   if (!user) {
     await clearUserSession(event)
     throw new Unauthorized('Your session has ended. Please sign in again.')

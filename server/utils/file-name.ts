@@ -3,6 +3,7 @@ export const MAX_FILE_NAME_CHARS = 120
 
 // Control characters, and the invisible direction and width marks that can make "gvs.exe" read "exe.svg"
 // (Unicode TR #36, "Bidirectional Text Spoofing"). The zero-width joiner stays: emoji need it.
+// eslint-disable-next-line no-control-regex -- control characters are what it finds
 const INVISIBLE = /[\u0000-\u001f\u007f-\u009f\u061c\u200b\u200e\u200f\u202a-\u202e\u2066-\u2069\ufeff]/g
 
 /** Normalised (NFC), without invisible or control characters or folders, at most MAX_FILE_NAME_CHARS, extension kept. */

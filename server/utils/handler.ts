@@ -17,16 +17,19 @@ function toHttpError(event: H3Event, error: unknown): unknown {
     console.error('[stripe]', error.type, error.message)
     error = new DomainError(`The payment service refused or did not answer (${error.message}). Nothing was changed; please try again.`, 502)
   }
-  if (error instanceof TooManyRequests) setResponseHeader(event, 'Retry-After', String(error.retryAfterS))
+  if (error instanceof TooManyRequests) setResponseHeader(event, 'Retry-After', error.retryAfterS)
   if (error instanceof DomainError) {
     return createError({ statusCode: error.status, statusMessage: error.name, message: error.message, data: error.details })
   }
   return error
 }
 
-/** defineEventHandler plus the mapping of typed service errors to HTTP status and message. */
-export function defineApiHandler<T>(handler: (event: H3Event<EventHandlerRequest>) => T | Promise<T>): EventHandler {
-  return defineEventHandler(async (event) => {
+/**
+ * defineEventHandler plus the mapping of typed service errors to HTTP status and message. The handler's return type
+ * is kept, so Nitro types the route and `useFetch('/api/…')` / `$fetch` know the response's shape.
+ */
+export function defineApiHandler<T>(handler: (event: H3Event<EventHandlerRequest>) => T | Promise<T>): EventHandler<EventHandlerRequest, Promise<T>> {
+  return defineEventHandler(async (event): Promise<T> => {
     try {
       return await handler(event)
     } catch (error) {

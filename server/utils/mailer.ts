@@ -1,9 +1,14 @@
 import nodemailer, { type Transporter } from 'nodemailer'
-import type { Knex } from 'knex'
-import { queueMail, type MailMessage } from '../services/mail-outbox'
-import { workshopDisplayName } from '../services/settings'
 
-export type { MailMessage } from '../services/mail-outbox'
+/** What the SMTP side needs of a mail (server/services/mail-outbox.ts writes and reads them as rows). */
+export interface OutgoingMail {
+  to: string
+  subject: string
+  /** Paragraphs of plain text; the HTML part is built from the same paragraphs. */
+  paragraphs: string[]
+  action?: { label: string; url: string }
+  attachments?: { filename: string; content: string; contentType: string; encoding?: 'base64' }[]
+}
 
 let transport: Transporter | undefined
 
@@ -11,7 +16,7 @@ function escapeHtml(text: string): string {
   return text.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!)
 }
 
-export function renderMail(message: MailMessage, workshopName: string): { text: string; html: string } {
+export function renderMail(message: OutgoingMail, workshopName: string): { text: string; html: string } {
   const text = [
     ...message.paragraphs,
     ...(message.action ? [`${message.action.label}: ${message.action.url}`] : []),
@@ -26,24 +31,21 @@ export function renderMail(message: MailMessage, workshopName: string): { text: 
   return { text, html }
 }
 
-/**
- * Puts the mail in the outbox (server/services/mail-outbox.ts); the background sender delivers it. Pass the
- * transaction of the change the mail reports, so the two commit together. Never waits for the mail server.
- */
-export async function sendMail(message: MailMessage, db: Knex = useDb()): Promise<boolean> {
-  await queueMail(db, message)
-  return true
-}
-
 // A mail server that accepts and never answers must not hold the sender: every stage has a deadline.
 const SMTP_TIMEOUT_MS = Number(process.env.MAIL_TIMEOUT_MS || 10_000)
 
 /** Delivers one message through SMTP_URL; throws when the mail server refuses, fails or does not answer in time. */
-export async function deliverBySmtp(message: MailMessage): Promise<void> {
+export async function deliverBySmtp(message: OutgoingMail, workshopName: string): Promise<void> {
   const config = serverConfig()
   // Pooled: the sender delivers one mail after another over a kept-open connection.
-  transport ??= nodemailer.createTransport({ url: config.smtpUrl, pool: true, maxConnections: 1, connectionTimeout: SMTP_TIMEOUT_MS, greetingTimeout: SMTP_TIMEOUT_MS, socketTimeout: SMTP_TIMEOUT_MS })
-  const workshopName = await workshopDisplayName(useDb())
+  transport ??= nodemailer.createTransport({
+    url: config.smtpUrl,
+    pool: true,
+    maxConnections: 1,
+    connectionTimeout: SMTP_TIMEOUT_MS,
+    greetingTimeout: SMTP_TIMEOUT_MS,
+    socketTimeout: SMTP_TIMEOUT_MS,
+  })
   await transport.sendMail({
     from: config.mailFrom,
     to: message.to,

@@ -7,10 +7,15 @@ export const emailField = z
   .toLowerCase()
   .pipe(z.email({ error: 'Enter an e-mail address like name@example.org.' }))
 
+export const PASSWORD_MIN_LENGTH = 10
+
 export const newPasswordField = z
   .string({ error: 'Password is required.' })
-  .min(10, { error: 'Use at least 10 characters.' })
+  .min(PASSWORD_MIN_LENGTH, { error: `Use at least ${PASSWORD_MIN_LENGTH} characters.` })
   .max(200, { error: 'Use at most 200 characters.' })
+
+/** The rule of newPasswordField as the forms state it under a new-password field. */
+export const NEW_PASSWORD_HINT = `At least ${PASSWORD_MIN_LENGTH} characters.`
 
 export const signUpSchema = z.object({
   name: z.string({ error: 'Name is required.' }).trim().min(1, { error: 'Name is required.' }).max(80, { error: 'Use at most 80 characters.' }),

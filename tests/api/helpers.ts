@@ -1,4 +1,5 @@
 // Shared helpers for API tests: a cookie-keeping client per actor, and the mail sink.
+/* eslint-disable @typescript-eslint/no-explicit-any -- a test reads whatever JSON a route answers */
 import Database from 'better-sqlite3'
 import { inject } from 'vitest'
 

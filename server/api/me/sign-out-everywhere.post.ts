@@ -1,4 +1,4 @@
-import { endAllSessions } from '../../services/sessions'
+import { endAllSessions } from '../../utils/sessions'
 
 // Ends every session of the account, this browser's too: for a lost phone or a password typed on a shared computer.
 export default defineApiHandler(async (event) => {

@@ -38,7 +38,16 @@ export async function listClosures(db: Knex, filter: { fromIso?: string } = {}):
   return (await query).map(toClosure)
 }
 
-function toClosure(row: Record<string, any>): Closure {
+interface ClosureRow {
+  id: number
+  cutter_id: number | null
+  starts_at: string
+  ends_at: string
+  reason: string
+  created_at: string
+}
+
+function toClosure(row: ClosureRow): Closure {
   return { id: row.id, cutterId: row.cutter_id, startsAt: row.starts_at, endsAt: row.ends_at, reason: row.reason, createdAt: row.created_at }
 }
 

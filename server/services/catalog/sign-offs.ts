@@ -30,7 +30,21 @@ function baseQuery(db: Knex) {
     .orderBy([{ column: 'c.name' }, { column: 'u.name' }, { column: 's.signed_off_on', order: 'desc' }])
 }
 
-function toSignOff(row: Record<string, any>, on = today()): SignOff {
+/** A sign_offs row with the names baseQuery joins to it. */
+interface SignOffRow {
+  id: number
+  user_id: number
+  user_name: string
+  cutter_id: number
+  cutter_name: string
+  signed_off_on: string
+  signed_off_by_name: string
+  expires_on: string | null
+  revoked_at: string | null
+  note: string
+}
+
+function toSignOff(row: SignOffRow, on = today()): SignOff {
   return {
     id: row.id,
     userId: row.user_id,

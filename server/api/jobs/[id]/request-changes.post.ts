@@ -1,1 +1,3 @@
+import { defineJobMoveHandler } from '../../../services/job-move-route'
+
 export default defineJobMoveHandler('requestChanges')

@@ -1,7 +1,8 @@
 import { createHash, randomBytes } from 'node:crypto'
 import type { Knex } from 'knex'
+import type { SessionUser } from '#shared/roles'
 
-// Sessions as rows: the cookie holds a random session id, the database only its SHA-256, and a request is
+// Sessions as rows (the server's half of the cookie, read by the auth guard on every request): the cookie holds a random session id, the database only its SHA-256, and a request is
 // signed in only while the row exists. Ending a session is deleting its row; the cookie is then worthless.
 export const SESSION_TTL_MS = 14 * 24 * 3600_000
 
@@ -21,6 +22,16 @@ export async function startSession(db: Knex, userId: number, now = new Date()): 
 export async function sessionIsLive(db: Knex, sessionId: string, userId: number, now = new Date()): Promise<boolean> {
   const row = await db('user_sessions').where({ id_hash: hashSessionId(sessionId), user_id: userId }).where('expires_at', '>', now.toISOString()).first('user_id')
   return !!row
+}
+
+/** The account of a live session, if it is enabled: what the auth guard lets through. One query. */
+export async function liveSessionUser(db: Knex, sessionId: string, userId: number, now = new Date()): Promise<SessionUser | undefined> {
+  return db('user_sessions as s')
+    .join('users as u', 'u.id', 's.user_id')
+    .where({ 's.id_hash': hashSessionId(sessionId), 's.user_id': userId })
+    .where('s.expires_at', '>', now.toISOString())
+    .whereNull('u.disabled_at')
+    .first<SessionUser | undefined>('u.id', 'u.email', 'u.name', 'u.role')
 }
 
 export async function endSession(db: Knex, sessionId: string): Promise<void> {

@@ -1,7 +1,10 @@
 import { reviewCommentSchema } from '#shared/schemas/jobs'
 import { idParamSchema } from '#shared/schemas/auth'
-import { moveJob } from '../services/jobs'
-import type { JobAction } from '../services/job-states'
+import { requireUser } from '../utils/auth'
+import { useDb } from '../utils/db'
+import { defineApiHandler, readBodyAs, readParamsAs } from '../utils/handler'
+import { moveJob } from './jobs'
+import type { JobAction } from './job-states'
 
 /** The handler of every "move this job" route: the state machine decides who may and queues the mail with the move. */
 export function defineJobMoveHandler(action: Exclude<JobAction, 'submit' | 'book' | 'unbook'>) {
