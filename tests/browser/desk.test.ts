@@ -133,6 +133,12 @@ describe('the run sheet’s cutter', () => {
     await page.getByLabel('Cutter').selectOption({ label: cutterName })
     await browser.open(`/staff/run-sheet?date=${emptyDay.date}`)
     expect(await shownOption(page, 'Cutter')).toBe(cutterName)
+
+    // ?cutter= (the overview's "Open its run sheet") opens that cutter, whatever was chosen last.
+    const cutters = (await bench.staff.get('/api/catalog/cutters')).body as { id: number; name: string }[]
+    const other = cutters.find((c) => c.name !== cutterName)!
+    await browser.open(`/staff/run-sheet?date=${emptyDay.date}&cutter=${other.id}`)
+    expect(await shownOption(page, 'Cutter')).toBe(other.name)
   })
 })
 
