@@ -28,6 +28,11 @@ export function formatMm(value: number | null | undefined): string {
   return value === null || value === undefined ? '—' : formatLength(value, currentLengthUnit())
 }
 
+/** Why a material can't go on a cutter, with a thickness limit in the reader's unit. */
+export function materialReason(material: { reason: string; tooThick?: boolean }, cutter: { maxThicknessMm?: number } | null | undefined): string {
+  return material.tooThick && cutter?.maxThicknessMm !== undefined ? `Thicker than this cutter's ${formatMm(cutter.maxThicknessMm)} limit.` : material.reason
+}
+
 /** A stored width × height (mm) in the reader's unit. */
 export function formatSizeMm(widthMm: number, heightMm: number): string {
   return formatSize(widthMm, heightMm, currentLengthUnit())

@@ -132,6 +132,18 @@ describe('process settings', () => {
     expect(anvil.cautions.map((c: any) => c.code)).toContain('plasma-eyes-table')
     expect(anvil.materials.find((m: any) => m.name === 'Galvanised steel').cautions.map((c: any) => c.code)).toContain('coated-steel-fume')
   })
+
+  it('marks a material thicker than the cutter takes, with the cutter's limit for the page to state in the reader's unit', async () => {
+    const admin = await signedIn('admin@example.test')
+    const thin = await admin.post('/api/catalog/cutters', { ...newCutter(`Thin-stock laser ${Date.now()}`), maxThicknessMm: 2 })
+    expect(thin.status).toBe(201)
+    const overview = (await (await signedIn('member@example.test')).get('/api/catalog/overview')).body as any[]
+    const cutter = overview.find((c) => c.cutterId === thin.body.id)
+    expect(cutter.maxThicknessMm).toBe(2)
+    const plywood = cutter.materials.find((m: any) => m.name === 'Birch plywood' && m.thicknessMm === 3)
+    expect(plywood).toMatchObject({ tooThick: true, cuttable: false })
+    expect(cutter.materials.find((m: any) => m.name === 'Grey board' && m.thicknessMm === 2).tooThick).toBe(false)
+  })
 })
 
 describe('materials', () => {

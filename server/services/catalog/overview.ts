@@ -12,6 +12,8 @@ export interface CuttableMaterial {
   /** allowed: may go on this kind of cutter; cuttable: and the workshop has a process setting for it here. */
   allowed: boolean
   cuttable: boolean
+  /** Thicker than the cutter takes: pages say so with the cutter's limit in the reader's unit (`reason` says it in mm). */
+  tooThick: boolean
   reason: string
   kerfMm: number | null
   minBridgeMm: number | null
@@ -26,6 +28,7 @@ export interface CutterOverview {
   status: CutterStatus
   bedWidthMm: number
   bedHeightMm: number
+  maxThicknessMm: number
   pricePerMinuteMinor: number
   currency: string
   cautions: Caution[]
@@ -42,6 +45,7 @@ export async function cuttingOverview(db: Knex): Promise<CutterOverview[]> {
     status: cutter.status,
     bedWidthMm: cutter.bedWidthMm,
     bedHeightMm: cutter.bedHeightMm,
+    maxThicknessMm: cutter.maxThicknessMm,
     pricePerMinuteMinor: cutter.pricePerMinuteMinor,
     currency: cutter.currency,
     cautions: cautionsFor(cutter.kind),
@@ -56,6 +60,7 @@ export async function cuttingOverview(db: Knex): Promise<CutterOverview[]> {
         thicknessMm: material.thicknessMm,
         allowed,
         cuttable: allowed && !tooThick && !!setting,
+        tooThick,
         reason: !allowed ? rule!.reason : tooThick ? `Thicker than this cutter's ${cutter.maxThicknessMm} mm limit.` : setting ? '' : 'No process setting on this cutter yet.',
         kerfMm: setting?.kerfMm ?? null,
         minBridgeMm: setting?.minBridgeMm ?? null,
