@@ -3,8 +3,9 @@ import { Bezier } from 'bezier-js'
 import svgpath from 'svgpath'
 import { type INode, parseSync } from 'svgson'
 import { describe, expect, it } from 'vitest'
-import { analyzeSvgWithGeometry, withDefaults, type AnalysisParams } from '../../server/analysis/index'
+import { analyzeCutFileWithGeometry, analyzeSvgWithGeometry, withDefaults, type AnalysisParams, type CutFileFormat } from '../../server/analysis/index'
 import type { DrawnOperation } from '../../server/analysis/polylines'
+import { arc, circle, dxfDocument } from '../analysis/dxf/dxfText'
 import { drawnElementsOf, sheetSvgText, type SheetDrawing } from '../../server/services/run-sheet'
 
 const params: AnalysisParams = withDefaults({ sheetWidthMm: 600, sheetHeightMm: 400 })
@@ -33,14 +34,14 @@ const PLACEMENTS = [
   { fileId: 1, x: 300, y: 10, rotated: true },
 ]
 
-function sheetOf(svgText: string): { text: string; originalAnalysis: ReturnType<typeof analyzeSvgWithGeometry> } {
-  const originalAnalysis = analyzeSvgWithGeometry(svgText, params)
+function sheetOf(source: string, format: CutFileFormat = 'svg'): { text: string; originalAnalysis: ReturnType<typeof analyzeCutFileWithGeometry> } {
+  const originalAnalysis = analyzeCutFileWithGeometry(source, params, { format })
   const { bbox } = originalAnalysis.result
   const drawing: SheetDrawing = {
     widthMm: 600,
     heightMm: 400,
     placements: PLACEMENTS,
-    parts: new Map([[1, { bbox, elements: drawnElementsOf(svgText, 'svg', params) }]]),
+    parts: new Map([[1, { bbox, elements: drawnElementsOf(source, format, params) }]]),
     colourOf,
   }
   return { text: sheetSvgText(drawing), originalAnalysis }
@@ -172,5 +173,19 @@ describe('the sheet SVG for the cutter', () => {
     const signedArea = (ring: Point[]) => ring.reduce((sum, p, i) => sum + p.x * ring[(i + 1) % ring.length]!.y - ring[(i + 1) % ring.length]!.x * p.y, 0) / 2
     const rectangle = (copy: number) => measure(all[copy * ELEMENTS_PER_COPY]!.attributes.d!).rings[0]!
     expect(Math.sign(signedArea(rectangle(1)))).toBe(Math.sign(signedArea(rectangle(0))))
+  })
+})
+
+describe('the sheet SVG of a DXF part', () => {
+  it('keeps circles and a mirrored arc as exact arcs: 2πr and r·θ, re-read by the engine and measured by @flatten-js/core', () => {
+    // Extrusion (0, 0, −1): the arc's object coordinates are mirrored, so the reader's matrix mirrors its path data back.
+    const dxf = dxfDocument({ insUnits: 4, entities: [...circle(50, 50, 15), ...arc(20, 20, 10, 0, 90, [[210, 0], [220, 0], [230, -1]])] })
+    const expectedMm = 2 * Math.PI * 15 + 10 * (Math.PI / 2)
+    const { text, originalAnalysis } = sheetOf(dxf, 'dxf')
+    expect(originalAnalysis.result.cut.lengthMm).toBeCloseTo(expectedMm, 6)
+    expect(analyzeSvgWithGeometry(text, params).result.cut.lengthMm).toBeCloseTo(PLACEMENTS.length * expectedMm, 6)
+    const strokes = paths(parseSync(text))
+    expect(strokes.every((p) => p.attributes.fill === 'none' && p.attributes.stroke === CUT)).toBe(true)
+    expect(strokes.reduce((sum, p) => sum + measure(p.attributes.d!).lengthMm, 0)).toBeCloseTo(PLACEMENTS.length * expectedMm, 6)
   })
 })
