@@ -21,17 +21,18 @@ export async function jobEventsPage(db: Knex, viewer: SessionUser, jobId: number
   await jobForViewer(db, viewer, jobId)
   const query = db('job_events as e').leftJoin('users as u', 'u.id', 'e.actor_id').where('e.job_id', jobId).select('e.*', 'u.name as actor_name')
   const order = { columns: ['e.id'], direction: 'asc' as const, keyOf: (e: Record<string, any>) => [e.id as number] }
-  return mapPage(await keysetPage<Record<string, any>>(query, order, page), (events) =>
-    Promise.all(
-      events.map(async (e) => ({
-        id: e.id,
-        at: e.created_at,
-        actorName: e.actor_name ?? 'Kerfbook',
-        from: e.from_state,
-        to: e.to_state,
-        comment: e.comment,
-        finding: await findingRefLabel(db, jobId, e.finding_ref_json ? JSON.parse(e.finding_ref_json) : null),
-      })),
-    ),
-  )
+  return mapPage(await keysetPage<Record<string, any>>(query, order, page), (events) => Promise.all(events.map((e) => jobEventView(db, jobId, e))))
+}
+
+/** One row of job_events (joined with its actor's name as actor_name) as the job page's history shows it. */
+export async function jobEventView(db: Knex, jobId: number, e: Record<string, any>): Promise<JobEventView> {
+  return {
+    id: e.id,
+    at: e.created_at,
+    actorName: e.actor_name ?? 'Kerfbook',
+    from: e.from_state,
+    to: e.to_state,
+    comment: e.comment,
+    finding: await findingRefLabel(db, jobId, e.finding_ref_json ? JSON.parse(e.finding_ref_json) : null),
+  }
 }

@@ -16,7 +16,8 @@ import { estimateJob, type EstimatedFile, type JobEstimate } from './job-estimat
 import { timeCorrectionFor } from './time-calibration'
 import { availableActions, transitionJob, type JobAction, type TransitionRecord } from './job-states'
 import { acknowledgedGroups, recordAcknowledgements, unacknowledgedWarnings, type AcknowledgementInput } from './finding-acknowledgements'
-import { countFindings, currentFiles, currentFindingGroups, filesOfJobs, findingRefLabel, type JobFileView } from './job-revisions'
+import { countFindings, currentFiles, currentFindingGroups, filesOfJobs, type JobFileView } from './job-revisions'
+import { jobEventView } from './job-events'
 
 export { currentFiles, type JobFileView } from './job-revisions'
 
@@ -167,16 +168,7 @@ export async function jobDetail(db: Knex, viewer: SessionUser, jobId: number) {
     memberSignedOff: await hasValidSignOff(db, job.member_id, job.cutter_id),
     /** What the cut cost beyond the hold and is not paid yet (pay from "My payments"). */
     balanceOwed: (await balancesOwed(db, { jobId }))[0] ?? null,
-    events: await Promise.all(
-      events.map(async (e) => ({
-        at: e.created_at,
-        actorName: e.actor_name ?? 'Kerfbook',
-        from: e.from_state,
-        to: e.to_state,
-        comment: e.comment,
-        finding: await findingRefLabel(db, jobId, e.finding_ref_json ? JSON.parse(e.finding_ref_json) : null),
-      })),
-    ),
+    events: await Promise.all(events.map((e) => jobEventView(db, jobId, e))),
     actions: availableActions(job.state, viewer, job.member_id),
   }
 }
