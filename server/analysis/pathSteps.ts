@@ -165,8 +165,8 @@ export class PathSteps {
         numbers[offset + position - 1] = relative && isX ? this.number + currentX : relative && isY ? this.number + currentY : this.number
         commaFound = this.skipSeparator()
       }
-      currentX = numbers[offset + parameters - 2]
-      currentY = numbers[offset + parameters - 1]
+      currentX = numbers[offset + parameters - 2]!
+      currentY = numbers[offset + parameters - 1]!
       this.push(STEP_CURVE, currentX, currentY)
       if (commaFound) continue
       if (this.index >= this.text.length || !startsNumber(this.text.charCodeAt(this.index))) return [currentX, currentY]

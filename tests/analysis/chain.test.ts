@@ -19,7 +19,7 @@ function pieceSet(pieces: Piece[]): PolylineSet {
 
 function contoursOf(set: PolylineSet): { points: number[][]; closed: boolean; lengthMm: number; element: number }[] {
   return Array.from({ length: set.count }, (_, index) => ({
-    points: Array.from({ length: set.pointsOf(index) }, (_, point) => Array.from(set.xy.subarray(2 * (set.start[index] + point), 2 * (set.start[index] + point) + 2))),
+    points: Array.from({ length: set.pointsOf(index) }, (_, point) => Array.from(set.xy.subarray(2 * (set.start[index]! + point), 2 * (set.start[index]! + point) + 2))),
     closed: set.closed[index] === 1,
     lengthMm: set.lengthMm[index],
     element: set.element[index],

@@ -180,7 +180,7 @@ function check(kind: 'svg' | 'dxf', expected: CorpusCase, params: AnalysisParams
   if (expected.smallHoleMm !== undefined) {
     const group = result.findingGroups.find((candidate) => candidate.code === 'small-hole')!
     expect(group.count).toBe(1)
-    expect(Math.abs(result.sites.value[group.firstSite] - expected.smallHoleMm)).toBeLessThan(1e-3 * expected.smallHoleMm)
+    expect(Math.abs(result.sites.value[group.firstSite]! - expected.smallHoleMm)).toBeLessThan(1e-3 * expected.smallHoleMm)
   }
 }
 

@@ -66,8 +66,8 @@ function scannedSteps(steps: PathSteps, matrix?: number[]): Array<{ x: number; y
   const [a, b, c, d, e, f] = matrix ?? [1, 0, 0, 1, 0, 0]
   let curve = 0
   return Array.from({ length: steps.count }, (_, step) => {
-    const userX = steps.x[step]
-    const userY = steps.y[step]
+    const userX = steps.x[step]!
+    const userY = steps.y[step]!
     const x = matrix ? userX * a + userY * c + e : userX
     const y = matrix ? userX * b + userY * d + f : userY
     if (steps.kind[step] === STEP_CLOSE) return { x, y, close: true }
@@ -77,7 +77,7 @@ function scannedSteps(steps: PathSteps, matrix?: number[]): Array<{ x: number; y
 
 /** A curve of the scanner's flat storage in svgpath's segment form: the command, then its numbers. */
 function curveSegment(steps: PathSteps, curve: number): Segment {
-  const command = String.fromCharCode(steps.curveCommand[curve])
+  const command = String.fromCharCode(steps.curveCommand[curve]!)
   const count = { C: 6, Q: 4, A: 7 }[command]!
   const offset = curve * CURVE_STRIDE
   return [command, ...steps.curveNumbers.subarray(offset, offset + count)]

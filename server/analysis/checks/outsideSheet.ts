@@ -36,7 +36,7 @@ function beyond(geometry: CheckGeometry, params: AnalysisParams, area: 'sheet' |
   let outside = 0
   const box = [Infinity, Infinity, -Infinity, -Infinity]
   for (let contour = 0; contour < geometry.contours.count; contour++) {
-    if (!(bounds[4 * contour + 2] - minX > usableWidthMm || bounds[4 * contour + 3] - minY > usableHeightMm)) continue
+    if (!(bounds[4 * contour + 2]! - minX > usableWidthMm || bounds[4 * contour + 3]! - minY > usableHeightMm)) continue
     outside++
     for (let side = 0; side < 2; side++) box[side] = Math.min(box[side], bounds[4 * contour + side])
     for (let side = 2; side < 4; side++) box[side] = Math.max(box[side], bounds[4 * contour + side])

@@ -74,12 +74,12 @@ function splineEvaluator({ degree, knots, controlPoints, weights }: SplineDefini
         const low = knots[span - degree + j]
         const high = knots[span + 1 + j - level]
         const alpha = high > low ? (t - low) / (high - low) : 0
-        xs[j] = (1 - alpha) * xs[j - 1] + alpha * xs[j]
-        ys[j] = (1 - alpha) * ys[j - 1] + alpha * ys[j]
-        ws[j] = (1 - alpha) * ws[j - 1] + alpha * ws[j]
+        xs[j] = (1 - alpha) * xs[j - 1]! + alpha * xs[j]!
+        ys[j] = (1 - alpha) * ys[j - 1]! + alpha * ys[j]!
+        ws[j] = (1 - alpha) * ws[j - 1]! + alpha * ws[j]!
       }
     }
-    return { x: xs[degree] / ws[degree], y: ys[degree] / ws[degree] }
+    return { x: xs[degree]! / ws[degree]!, y: ys[degree]! / ws[degree]! }
   }
 }
 
@@ -126,10 +126,10 @@ export function drawFitPointSpline({ fitPoints, startTangent, endTangent, closed
   const derivatives = periodic ? periodicDerivatives(points, chord) : clampedOrNaturalDerivatives(points, chord, unit(startTangent), unit(endTangent))
   for (let i = 0; i < segments; i++) {
     const j = (i + 1) % count
-    const third = chord[i] / 3
+    const third = chord[i]! / 3
     path.cubicTo(
-      { x: points[i].x + third * derivatives.x[i], y: points[i].y + third * derivatives.y[i] },
-      { x: points[j].x - third * derivatives.x[j], y: points[j].y - third * derivatives.y[j] },
+      { x: points[i].x + third * derivatives.x[i]!, y: points[i].y + third * derivatives.y[i]! },
+      { x: points[j].x - third * derivatives.x[j]!, y: points[j].y - third * derivatives.y[j]! },
       points[j],
     )
   }
@@ -162,15 +162,15 @@ function clampedOrNaturalDerivatives(points: Point2[], h: Float64Array, start: P
   } else {
     diagonal[0] = 2
     upper[0] = 1
-    rightX[0] = (3 * deltaX(0)) / h[0]
-    rightY[0] = (3 * deltaY(0)) / h[0]
+    rightX[0] = (3 * deltaX(0)) / h[0]!
+    rightY[0] = (3 * deltaY(0)) / h[0]!
   }
   for (let i = 1; i < n - 1; i++) {
-    lower[i] = h[i]
-    diagonal[i] = 2 * (h[i - 1] + h[i])
-    upper[i] = h[i - 1]
-    rightX[i] = 3 * ((h[i] * deltaX(i - 1)) / h[i - 1] + (h[i - 1] * deltaX(i)) / h[i])
-    rightY[i] = 3 * ((h[i] * deltaY(i - 1)) / h[i - 1] + (h[i - 1] * deltaY(i)) / h[i])
+    lower[i] = h[i]!
+    diagonal[i] = 2 * (h[i - 1]! + h[i]!)
+    upper[i] = h[i - 1]!
+    rightX[i] = 3 * ((h[i]! * deltaX(i - 1)) / h[i - 1]! + (h[i - 1]! * deltaX(i)) / h[i]!)
+    rightY[i] = 3 * ((h[i]! * deltaY(i - 1)) / h[i - 1]! + (h[i - 1]! * deltaY(i)) / h[i]!)
   }
   if (end) {
     diagonal[n - 1] = 1
@@ -179,8 +179,8 @@ function clampedOrNaturalDerivatives(points: Point2[], h: Float64Array, start: P
   } else {
     lower[n - 1] = 1
     diagonal[n - 1] = 2
-    rightX[n - 1] = (3 * deltaX(n - 2)) / h[n - 2]
-    rightY[n - 1] = (3 * deltaY(n - 2)) / h[n - 2]
+    rightX[n - 1] = (3 * deltaX(n - 2)) / h[n - 2]!
+    rightY[n - 1] = (3 * deltaY(n - 2)) / h[n - 2]!
   }
   return { x: solveTridiagonal(lower, diagonal, upper, rightX), y: solveTridiagonal(lower, diagonal, upper, rightY) }
 }
@@ -196,12 +196,12 @@ function periodicDerivatives(points: Point2[], h: Float64Array): { x: Float64Arr
   for (let i = 0; i < n; i++) {
     const before = (i + n - 1) % n
     const after = (i + 1) % n
-    const hBefore = h[before]
-    lower[i] = h[i]
-    diagonal[i] = 2 * (hBefore + h[i])
+    const hBefore = h[before]!
+    lower[i] = h[i]!
+    diagonal[i] = 2 * (hBefore + h[i]!)
     upper[i] = hBefore
-    rightX[i] = 3 * ((h[i] * (points[i].x - points[before].x)) / hBefore + (hBefore * (points[after].x - points[i].x)) / h[i])
-    rightY[i] = 3 * ((h[i] * (points[i].y - points[before].y)) / hBefore + (hBefore * (points[after].y - points[i].y)) / h[i])
+    rightX[i] = 3 * ((h[i]! * (points[i].x - points[before].x)) / hBefore + (hBefore * (points[after].x - points[i].x)) / h[i]!)
+    rightY[i] = 3 * ((h[i]! * (points[i].y - points[before].y)) / hBefore + (hBefore * (points[after].y - points[i].y)) / h[i]!)
   }
   return { x: solveCyclicTridiagonal(lower, diagonal, upper, rightX), y: solveCyclicTridiagonal(lower, diagonal, upper, rightY) }
 }
@@ -211,27 +211,27 @@ function solveTridiagonal(lower: Float64Array, diagonal: Float64Array, upper: Fl
   const n = diagonal.length
   const c = new Float64Array(n)
   const x = new Float64Array(n)
-  let pivot = diagonal[0]
-  c[0] = upper[0] / pivot
-  x[0] = right[0] / pivot
+  let pivot = diagonal[0]!
+  c[0] = upper[0]! / pivot
+  x[0] = right[0]! / pivot
   for (let i = 1; i < n; i++) {
-    pivot = diagonal[i] - lower[i] * c[i - 1]
-    c[i] = upper[i] / pivot
-    x[i] = (right[i] - lower[i] * x[i - 1]) / pivot
+    pivot = diagonal[i]! - lower[i]! * c[i - 1]!
+    c[i] = upper[i]! / pivot
+    x[i] = (right[i]! - lower[i]! * x[i - 1]!) / pivot
   }
-  for (let i = n - 2; i >= 0; i--) x[i] -= c[i] * x[i + 1]
+  for (let i = n - 2; i >= 0; i--) x[i]! -= c[i]! * x[i + 1]!
   return x
 }
 
 /** A tridiagonal system with corners lower[0] (row 0, column n−1) and upper[n−1] (row n−1, column 0): Numerical Recipes' cyclic method. */
 function solveCyclicTridiagonal(lower: Float64Array, diagonal: Float64Array, upper: Float64Array, right: Float64Array): Float64Array {
   const n = diagonal.length
-  const cornerTopRight = lower[0]
-  const cornerBottomLeft = upper[n - 1]
-  const gamma = -diagonal[0]
+  const cornerTopRight = lower[0]!
+  const cornerBottomLeft = upper[n - 1]!
+  const gamma = -diagonal[0]!
   const modified = Float64Array.from(diagonal)
-  modified[0] = diagonal[0] - gamma
-  modified[n - 1] = diagonal[n - 1] - (cornerBottomLeft * cornerTopRight) / gamma
+  modified[0] = diagonal[0]! - gamma
+  modified[n - 1] = diagonal[n - 1]! - (cornerBottomLeft * cornerTopRight) / gamma
   const innerLower = Float64Array.from(lower)
   const innerUpper = Float64Array.from(upper)
   innerLower[0] = 0
@@ -241,7 +241,7 @@ function solveCyclicTridiagonal(lower: Float64Array, diagonal: Float64Array, upp
   u[0] = gamma
   u[n - 1] = cornerBottomLeft
   const z = solveTridiagonal(innerLower, modified, innerUpper, u)
-  const factor = (x[0] + (cornerTopRight * x[n - 1]) / gamma) / (1 + z[0] + (cornerTopRight * z[n - 1]) / gamma)
-  for (let i = 0; i < n; i++) x[i] -= factor * z[i]
+  const factor = (x[0]! + (cornerTopRight * x[n - 1]!) / gamma) / (1 + z[0]! + (cornerTopRight * z[n - 1]!) / gamma)
+  for (let i = 0; i < n; i++) x[i]! -= factor * z[i]!
   return x
 }
