@@ -31,10 +31,10 @@ function integrate(speed: (t: number) => number, from: number, to: number, toler
   let kronrod = KRONROD_CENTRE_WEIGHT * centreSpeed
   let gauss = GAUSS_CENTRE_WEIGHT * centreSpeed
   for (let node = 0; node < KRONROD_NODES.length; node++) {
-    const offset = halfWidth * KRONROD_NODES[node]
+    const offset = halfWidth * KRONROD_NODES[node]!
     const pair = speed(centre - offset) + speed(centre + offset)
-    kronrod += KRONROD_WEIGHTS[node] * pair
-    if (node % 2 === 1) gauss += GAUSS_WEIGHTS[node >> 1] * pair
+    kronrod += KRONROD_WEIGHTS[node]! * pair
+    if (node % 2 === 1) gauss += GAUSS_WEIGHTS[node >> 1]! * pair
   }
   kronrod *= halfWidth
   gauss *= halfWidth
@@ -160,8 +160,8 @@ function rootsInUnitInterval(p: number, q: number, r: number, s: number): number
   const stretchEnds = [0, ...quadraticRoots(3 * p, 2 * q, r).filter((t) => t > 0 && t < 1), 1]
   const roots: number[] = []
   for (let stretch = 0; stretch + 1 < stretchEnds.length; stretch++) {
-    let low = stretchEnds[stretch]
-    let high = stretchEnds[stretch + 1]
+    let low = stretchEnds[stretch]!
+    let high = stretchEnds[stretch + 1]!
     const lowValue = value(low)
     if (stretch > 0 && lowValue === 0) roots.push(low)
     if (!(lowValue * value(high) < 0)) continue

@@ -190,7 +190,7 @@ export function findingStats(values: Float64Array): FindingStats {
   let bin = 0
   for (let index = 0; index < count; index++) {
     while (bin < bins - 1 && sorted[index]! >= min + width * (bin + 1)) bin++
-    counts[bin]++
+    counts[bin]!++
   }
   return { min, median, max, histogram: { fromMm: min, toMm: max, counts } }
 }

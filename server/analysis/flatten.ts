@@ -208,7 +208,7 @@ function flattenCurve(command: number, numbers: Float64Array, offset: number, ch
     return
   }
   for (const cubic of arcToCubics(x, y, toX, toY, largeArc, sweep, rx, ry, rotationDeg)) {
-    addCubic(target, cubic[0], cubic[1], cubic[2], cubic[3], cubic[4], cubic[5], cubic[6], cubic[7], chordToleranceMm)
+    addCubic(target, cubic[0]!, cubic[1]!, cubic[2]!, cubic[3]!, cubic[4]!, cubic[5]!, cubic[6]!, cubic[7]!, chordToleranceMm)
   }
   // The cubics end on the arc's endpoint up to rounding; land exactly on it.
   target.xy[2 * target.pointCount - 2] = toX

@@ -52,7 +52,7 @@ function engraveArea(contours: PolylineSet, bounds: Float64Array, elements: Draw
     }
     let end = first + 1
     while (end < contours.count && contours.operation[end] === OPERATION_CODES.engrave && contours.element[end] === contours.element[first]) end++
-    areaMm2 += filledArea(contours, bounds, first, end, elements[contours.element[first]!].fillRule)
+    areaMm2 += filledArea(contours, bounds, first, end, elements[contours.element[first]!]!.fillRule)
     first = end
   }
   return areaMm2

@@ -26,7 +26,7 @@ function lineCubicLength(v0: number, v1: number, v2: number, v3: number): number
   }
   const stops = [0, ...roots.filter((t) => t > 0 && t < 1).sort((x, y) => x - y), 1]
   let length = 0
-  for (let index = 1; index < stops.length; index++) length += Math.abs(value(stops[index]) - value(stops[index - 1]))
+  for (let index = 1; index < stops.length; index++) length += Math.abs(value(stops[index]!) - value(stops[index - 1]!))
   return length
 }
 
@@ -66,7 +66,7 @@ describe('curve length', () => {
       fc.property(fc.array(coordinate, { minLength: 4, maxLength: 4 }), fc.double({ min: 0, max: 2 * Math.PI, noNaN: true }), coordinate, coordinate, (values, angle, originX, originY) => {
         const [ux, uy] = [Math.cos(angle), Math.sin(angle)]
         const [x0, y0, x1, y1, x2, y2, x3, y3] = values.flatMap((value) => [originX + value * ux, originY + value * uy])
-        const expected = lineCubicLength(values[0], values[1], values[2], values[3])
+        const expected = lineCubicLength(values[0]!, values[1]!, values[2]!, values[3]!)
         expect(Math.abs(cubicLengthMm(x0, y0, x1, y1, x2, y2, x3, y3) - expected)).toBeLessThanOrEqual(1e-9 * (1 + expected))
       }),
       { numRuns: 400 },

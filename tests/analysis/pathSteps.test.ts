@@ -94,9 +94,9 @@ describe('the path data scanner reads what svgpath reads', () => {
         const scanned = scannedSteps(steps)
         expect(scanned.length).toBe(expected.length)
         scanned.forEach((step, index) => {
-          expect(step.x == expected[index].x && step.y == expected[index].y).toBe(true)
-          expect(step.close ?? false).toBe(expected[index].close ?? false)
-          expect(step.curve?.map(String)).toEqual(expected[index].curve?.map(String))
+          expect(step.x == expected[index]!.x && step.y == expected[index]!.y).toBe(true)
+          expect(step.close ?? false).toBe(expected[index]!.close ?? false)
+          expect(step.curve?.map(String)).toEqual(expected[index]!.curve?.map(String))
         })
       }),
       { numRuns: 400 },
@@ -113,7 +113,7 @@ describe('the path data scanner reads what svgpath reads', () => {
         const expected = svgpathSteps(data, values)
         const scanned = scannedSteps(steps, values)
         expect(scanned.length).toBe(expected.length)
-        scanned.forEach((step, index) => expect(step.x == expected[index].x && step.y == expected[index].y).toBe(true))
+        scanned.forEach((step, index) => expect(step.x == expected[index]!.x && step.y == expected[index]!.y).toBe(true))
       }),
       { numRuns: 400 },
     )

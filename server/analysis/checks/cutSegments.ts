@@ -171,7 +171,7 @@ export class CutSegments {
     let found = false
     for (let point = start[contour]!; point < start[contour + 1]! - 1 && !found; point++) {
       const near = [Math.min(xy[2 * point]!, xy[2 * point + 2]!) - reachMm, Math.min(xy[2 * point + 1]!, xy[2 * point + 3]!) - reachMm, Math.max(xy[2 * point]!, xy[2 * point + 2]!) + reachMm, Math.max(xy[2 * point + 1]!, xy[2 * point + 3]!) + reachMm]
-      this.forEachNear(near[0], near[1], near[2], near[3], (segment) => {
+      this.forEachNear(near[0]!, near[1]!, near[2]!, near[3]!, (segment) => {
         if (found || !others(this.contourOf[segment]!)) return
         found = closestPointsAt(xy, 2 * point, 2 * this.firstPoint[segment]!, closest).distanceMm <= reachMm
       })

@@ -136,5 +136,5 @@ function addBridgeSite(narrow: NearCutList, slot: number, contourOf: Uint32Array
   const sameContour = narrow.sameContour[slot] === 1
   const { px, py, qx, qy } = narrow.closest(slot)
   const first = contourOf[narrow.first[slot]!]
-  groups[2 * Number(sameContour) + Number(widthMm <= 0)].add((px + qx) / 2, (py + qy) / 2, widthMm, first, sameContour ? -1 : contourOf[narrow.second[slot]!])
+  groups[2 * Number(sameContour) + Number(widthMm <= 0)]!.add((px + qx) / 2, (py + qy) / 2, widthMm, first, sameContour ? -1 : contourOf[narrow.second[slot]!])
 }

@@ -17,9 +17,9 @@ export function splineProblem({ degree, knots, controlPoints, weights }: SplineD
   if (!Number.isInteger(degree) || degree < 1 || degree > 25) return `its degree is ${degree}`
   if (controlPoints.length < degree + 1) return `it has ${controlPoints.length} control points for degree ${degree}`
   if (knots.length !== controlPoints.length + degree + 1) return `it has ${knots.length} knots for ${controlPoints.length} control points of degree ${degree}`
-  if (knots.some((knot, index) => index > 0 && knot < knots[index - 1])) return 'its knots are not in order'
+  if (knots.some((knot, index) => index > 0 && knot < knots[index - 1]!)) return 'its knots are not in order'
   if (weights.length > 0 && (weights.length !== controlPoints.length || weights.some((weight) => !(weight > 0)))) return 'its weights are not one positive number per control point'
-  if (!(knots[controlPoints.length] > knots[degree])) return 'its knots leave it no length'
+  if (!(knots[controlPoints.length]! > knots[degree]!)) return 'its knots leave it no length'
   return undefined
 }
 
@@ -34,11 +34,11 @@ export function splineProblem({ degree, knots, controlPoints, weights }: SplineD
 export function drawSpline(spline: SplineDefinition, toleranceUnits: number, path: PathDataWriter): void {
   const { degree, knots, controlPoints } = spline
   const evaluate = splineEvaluator(spline)
-  const first = evaluate(knots[degree], degree)
+  const first = evaluate(knots[degree]!, degree)
   path.moveTo(first.x, first.y)
   for (let span = degree; span < controlPoints.length; span++) {
-    const from = knots[span]
-    const to = knots[span + 1]
+    const from = knots[span]!
+    const to = knots[span + 1]!
     if (!(to > from)) continue
     const atSpan = (t: number) => evaluate(t, span)
     addChords(atSpan, from, atSpan(from), to, atSpan(to), toleranceUnits, 0, path)
@@ -63,7 +63,7 @@ function splineEvaluator({ degree, knots, controlPoints, weights }: SplineDefini
   const ws = new Float64Array(degree + 1)
   return (t, span) => {
     for (let j = 0; j <= degree; j++) {
-      const point = controlPoints[span - degree + j]
+      const point = controlPoints[span - degree + j]!
       const weight = weights.length > 0 ? weights[span - degree + j] : 1
       xs[j] = point.x * weight
       ys[j] = point.y * weight
@@ -71,8 +71,8 @@ function splineEvaluator({ degree, knots, controlPoints, weights }: SplineDefini
     }
     for (let level = 1; level <= degree; level++) {
       for (let j = degree; j >= level; j--) {
-        const low = knots[span - degree + j]
-        const high = knots[span + 1 + j - level]
+        const low = knots[span - degree + j]!
+        const high = knots[span + 1 + j - level]!
         const alpha = high > low ? (t - low) / (high - low) : 0
         xs[j] = (1 - alpha) * xs[j - 1]! + alpha * xs[j]!
         ys[j] = (1 - alpha) * ys[j - 1]! + alpha * ys[j]!
@@ -111,26 +111,26 @@ export interface FitPointSpline {
  * (group 44) is not applied: the curve runs through the points exactly.
  */
 export function drawFitPointSpline({ fitPoints, startTangent, endTangent, closed }: FitPointSpline, path: PathDataWriter): void {
-  const points = fitPoints.filter((point, index) => index === 0 || point.x !== fitPoints[index - 1].x || point.y !== fitPoints[index - 1].y)
-  if (closed && points.length > 1 && points[0].x === points[points.length - 1].x && points[0].y === points[points.length - 1].y) points.pop()
-  path.moveTo(points[0].x, points[0].y)
+  const points = fitPoints.filter((point, index) => index === 0 || point.x !== fitPoints[index - 1]!.x || point.y !== fitPoints[index - 1]!.y)
+  if (closed && points.length > 1 && points[0]!.x === points[points.length - 1]!.x && points[0]!.y === points[points.length - 1]!.y) points.pop()
+  path.moveTo(points[0]!.x, points[0]!.y)
   if (points.length < 2) return
   const periodic = closed && points.length >= 3
   const count = points.length
   const segments = periodic ? count : count - 1
   const chord = new Float64Array(segments)
   for (let i = 0; i < segments; i++) {
-    const next = points[(i + 1) % count]
-    chord[i] = Math.hypot(next.x - points[i].x, next.y - points[i].y)
+    const next = points[(i + 1) % count]!
+    chord[i] = Math.hypot(next.x - points[i]!.x, next.y - points[i]!.y)
   }
   const derivatives = periodic ? periodicDerivatives(points, chord) : clampedOrNaturalDerivatives(points, chord, unit(startTangent), unit(endTangent))
   for (let i = 0; i < segments; i++) {
     const j = (i + 1) % count
     const third = chord[i]! / 3
     path.cubicTo(
-      { x: points[i].x + third * derivatives.x[i]!, y: points[i].y + third * derivatives.y[i]! },
-      { x: points[j].x - third * derivatives.x[j]!, y: points[j].y - third * derivatives.y[j]! },
-      points[j],
+      { x: points[i]!.x + third * derivatives.x[i]!, y: points[i]!.y + third * derivatives.y[i]! },
+      { x: points[j]!.x - third * derivatives.x[j]!, y: points[j]!.y - third * derivatives.y[j]! },
+      points[j]!,
     )
   }
   if (closed) path.close()
@@ -153,8 +153,8 @@ function clampedOrNaturalDerivatives(points: Point2[], h: Float64Array, start: P
   const upper = new Float64Array(n)
   const rightX = new Float64Array(n)
   const rightY = new Float64Array(n)
-  const deltaX = (i: number) => points[i + 1].x - points[i].x
-  const deltaY = (i: number) => points[i + 1].y - points[i].y
+  const deltaX = (i: number) => points[i + 1]!.x - points[i]!.x
+  const deltaY = (i: number) => points[i + 1]!.y - points[i]!.y
   if (start) {
     diagonal[0] = 1
     rightX[0] = start.x
@@ -200,8 +200,8 @@ function periodicDerivatives(points: Point2[], h: Float64Array): { x: Float64Arr
     lower[i] = h[i]!
     diagonal[i] = 2 * (hBefore + h[i]!)
     upper[i] = hBefore
-    rightX[i] = 3 * ((h[i]! * (points[i].x - points[before].x)) / hBefore + (hBefore * (points[after].x - points[i].x)) / h[i]!)
-    rightY[i] = 3 * ((h[i]! * (points[i].y - points[before].y)) / hBefore + (hBefore * (points[after].y - points[i].y)) / h[i]!)
+    rightX[i] = 3 * ((h[i]! * (points[i]!.x - points[before]!.x)) / hBefore + (hBefore * (points[after]!.x - points[i]!.x)) / h[i]!)
+    rightY[i] = 3 * ((h[i]! * (points[i]!.y - points[before]!.y)) / hBefore + (hBefore * (points[after]!.y - points[i]!.y)) / h[i]!)
   }
   return { x: solveCyclicTridiagonal(lower, diagonal, upper, rightX), y: solveCyclicTridiagonal(lower, diagonal, upper, rightY) }
 }

@@ -7,7 +7,7 @@ describe('limits of the contour checks, at their edges', () => {
   it('flags cuts just under twice the kerf and not just over', () => {
     const sites = findingsOf('tiny-segment', ['M10 10h0.3', 'M20 10h0.45'], { kerfMm: 0.2 })
     expect(sites).toMatchObject([{ limitMm: 0.4, contours: [0] }])
-    expect(sites[0].valueMm).toBeCloseTo(0.3, 6)
+    expect(sites[0]!.valueMm).toBeCloseTo(0.3, 6)
   })
 
   // A hole that is a circle is measured by its diameter (minimum hole of one thickness: common practice, no source).
