@@ -180,9 +180,9 @@ class EndpointGrid {
     let bestDistance = this.cellSizeMm
     for (let offsetX = -1; offsetX <= 1; offsetX++) {
       for (let offsetY = -1; offsetY <= 1; offsetY++) {
-        const cell = offsetX === 0 && offsetY === 0 ? this.cellOfEndpoint[endpoint] : this.cellAt(column + offsetX, row + offsetY)
+        const cell = offsetX === 0 && offsetY === 0 ? this.cellOfEndpoint[endpoint]! : this.cellAt(column + offsetX, row + offsetY)
         if (cell < 0) continue
-        for (let listed = this.cellStart[cell]; listed < this.cellStart[cell + 1]!; listed++) {
+        for (let listed = this.cellStart[cell]!; listed < this.cellStart[cell + 1]!; listed++) {
           const candidate = this.byCell[listed]!
           if (used[candidate >> 1] !== 0 || operation[candidate >> 1] !== wantedOperation) continue
           const distance = Math.hypot(this.endpointX[candidate]! - x, this.endpointY[candidate]! - y)

@@ -21,9 +21,9 @@ export function parseColour(value: string): Rgba | undefined {
   const text = value.trim().toLowerCase()
   if (text === 'transparent') return { r: 0, g: 0, b: 0, a: 0 }
   const hex = HEX_PATTERN.exec(NAMED_COLOURS[text] ?? text)
-  if (hex) return parseHexDigits(hex[1])
+  if (hex) return parseHexDigits(hex[1]!)
   const rgb = RGB_FUNCTION_PATTERN.exec(text)
-  if (rgb) return parseRgbArguments(rgb[1])
+  if (rgb) return parseRgbArguments(rgb[1]!)
   return undefined
 }
 

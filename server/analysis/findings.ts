@@ -115,21 +115,21 @@ export class FindingCollector {
       const values = new Float64Array(list.count)
       let measured = 0
       for (let slot = 0; slot < list.count; slot++) {
-        const site = order === null ? slot : order[slot]
+        const site = order === null ? slot : order[slot]!
         const row = firstSite + slot
         const x = list.xy[2 * site]!
         const y = list.xy[2 * site + 1]!
         sites.xy[2 * row] = x
         sites.xy[2 * row + 1] = y
-        sites.value[row] = list.value[site]
-        sites.contourA[row] = list.contourA[site]
-        sites.contourB[row] = list.contourB[site]
+        sites.value[row] = list.value[site]!
+        sites.contourA[row] = list.contourA[site]!
+        sites.contourB[row] = list.contourB[site]!
         if (x < box[0]) box[0] = x
         if (y < box[1]) box[1] = y
         if (x > box[2]) box[2] = x
         if (y > box[3]) box[3] = y
         // Statistics of the values as the site table stores them, so they agree with the sites a page reads.
-        if (!Number.isNaN(list.value[site])) values[measured++] = Math.fround(list.value[site])
+        if (!Number.isNaN(list.value[site])) values[measured++] = Math.fround(list.value[site]!)
       }
       const { spec } = list
       const facts: Record<string, number | string> = { ...spec.facts }

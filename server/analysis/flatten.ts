@@ -101,7 +101,7 @@ function transformedCurve(command: number, numbers: Float64Array, offset: number
     return
   }
   const ellipse = transformedEllipse(numbers[offset]!, numbers[offset + 1]!, numbers[offset + 2]!, matrix)
-  const sweep = numbers[offset + 4]
+  const sweep = numbers[offset + 4]!
   const x = numbers[offset + 5]!
   const y = numbers[offset + 6]!
   const toX = x * a + y * c + e

@@ -40,7 +40,7 @@ export function estimateMachineTime(contours: PolylineSet, bounds: Float64Array,
     for (const moveMm of travel.moveMm) travelS += restToRestTimeS(moveMm, rapidSpeed, params.accelMmPerS2)
     x = travel.endX
     y = travel.endY
-    for (const entry of order) runOrder[written++] = entry >= 0 ? levelIds[entry] : -1 - levelIds[-1 - entry]!
+    for (const entry of order) runOrder[written++] = entry >= 0 ? levelIds[entry]! : -1 - levelIds[-1 - entry]!
   }
 
   const timer = new PolylineTimer()

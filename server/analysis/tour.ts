@@ -34,8 +34,8 @@ function nearestNeighbourOrder(stops: TourStops, count: number, startX: number, 
     grid.remove(stop)
     const backwards = (end & 1) === 1
     order[position] = backwards ? -1 - stop : stop
-    x = backwards ? stops.entryX[stop] : stops.exitX[stop]
-    y = backwards ? stops.entryY[stop] : stops.exitY[stop]
+    x = backwards ? stops.entryX[stop]! : stops.exitX[stop]!
+    y = backwards ? stops.entryY[stop]! : stops.exitY[stop]!
   }
   return order
 }
@@ -260,10 +260,10 @@ class TourEnds {
     for (let position = 0; position < count; position++) {
       const entry = order[position]!
       const stop = entry >= 0 ? entry : -1 - entry
-      ends.inX[position] = entry >= 0 ? stops.entryX[stop] : stops.exitX[stop]
-      ends.inY[position] = entry >= 0 ? stops.entryY[stop] : stops.exitY[stop]
-      ends.outX[position] = entry >= 0 ? stops.exitX[stop] : stops.entryX[stop]
-      ends.outY[position] = entry >= 0 ? stops.exitY[stop] : stops.entryY[stop]
+      ends.inX[position] = entry >= 0 ? stops.entryX[stop]! : stops.exitX[stop]!
+      ends.inY[position] = entry >= 0 ? stops.entryY[stop]! : stops.exitY[stop]!
+      ends.outX[position] = entry >= 0 ? stops.exitX[stop]! : stops.entryX[stop]!
+      ends.outY[position] = entry >= 0 ? stops.exitY[stop]! : stops.entryY[stop]!
     }
     for (let position = 0; position + 1 < count; position++) ends.measureMove(position)
     return ends
@@ -326,12 +326,12 @@ export function tourTravel(stops: TourStops, order: Int32Array, startX: number, 
   for (let position = 0; position < order.length; position++) {
     const entry = order[position]!
     const stop = entry >= 0 ? entry : -1 - entry
-    const inX = entry >= 0 ? stops.entryX[stop] : stops.exitX[stop]
-    const inY = entry >= 0 ? stops.entryY[stop] : stops.exitY[stop]
+    const inX = entry >= 0 ? stops.entryX[stop]! : stops.exitX[stop]!
+    const inY = entry >= 0 ? stops.entryY[stop]! : stops.exitY[stop]!
     moveMm[position] = Math.hypot(inX - x, inY - y)
     travelMm += moveMm[position]!
-    x = entry >= 0 ? stops.exitX[stop] : stops.entryX[stop]
-    y = entry >= 0 ? stops.exitY[stop] : stops.entryY[stop]
+    x = entry >= 0 ? stops.exitX[stop]! : stops.entryX[stop]!
+    y = entry >= 0 ? stops.exitY[stop]! : stops.entryY[stop]!
   }
   return { travelMm, moveMm, endX: x, endY: y }
 }

@@ -238,11 +238,11 @@ export class CutSegments {
     if (side === 0) return true
     const onThisSide = this.materialSideOf(segment, side, closest, isFirst)
     const t = isFirst ? closest.u : closest.v
-    const neighbour = t === 0 ? this.previousOf[segment] : t === 1 ? this.nextOf[segment] : -1
+    const neighbour = t === 0 ? this.previousOf[segment]! : t === 1 ? this.nextOf[segment]! : -1
     if (neighbour < 0) return onThisSide
     const onNeighbourSide = this.materialSideOf(neighbour, side, closest, isFirst)
-    const incoming = 2 * this.firstPoint[t === 0 ? neighbour : segment]
-    const outgoing = 2 * this.firstPoint[t === 0 ? segment : neighbour]
+    const incoming = 2 * this.firstPoint[t === 0 ? neighbour : segment]!
+    const outgoing = 2 * this.firstPoint[t === 0 ? segment : neighbour]!
     const { xy } = this.contours
     const turn = (xy[incoming + 2]! - xy[incoming]!) * (xy[outgoing + 3]! - xy[outgoing + 1]!) - (xy[incoming + 3]! - xy[incoming + 1]!) * (xy[outgoing + 2]! - xy[outgoing]!)
     return side * turn > 0 ? onThisSide && onNeighbourSide : onThisSide || onNeighbourSide

@@ -64,7 +64,7 @@ function splineEvaluator({ degree, knots, controlPoints, weights }: SplineDefini
   return (t, span) => {
     for (let j = 0; j <= degree; j++) {
       const point = controlPoints[span - degree + j]!
-      const weight = weights.length > 0 ? weights[span - degree + j] : 1
+      const weight = weights.length > 0 ? weights[span - degree + j]! : 1
       xs[j] = point.x * weight
       ys[j] = point.y * weight
       ws[j] = weight
