@@ -144,7 +144,7 @@ export function arcLengthMm(x0: number, y0: number, rxGiven: number, ryGiven: nu
 
 /** The length of one absolute C, Q or A segment from (fromX, fromY), its numbers at numbers[offset …] in path-data order. */
 export function curveLengthMm(fromX: number, fromY: number, command: number, numbers: ArrayLike<number>, offset: number): number {
-  const n = (position: number) => numbers[offset + position]
+  const n = (position: number) => numbers[offset + position]!
   if (command === CURVE_CUBIC) return cubicLengthMm(fromX, fromY, n(0), n(1), n(2), n(3), n(4), n(5))
   if (command === CURVE_ARC) return arcLengthMm(fromX, fromY, n(0), n(1), n(2), n(3) !== 0, n(4) !== 0, n(5), n(6))
   return quadraticLengthMm(fromX, fromY, n(0), n(1), n(2), n(3))

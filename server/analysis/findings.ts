@@ -183,7 +183,7 @@ export function findingStats(values: Float64Array): FindingStats {
   const min = sorted[0]!
   const max = sorted[count - 1]!
   const middle = count >> 1
-  const median = count % 2 === 1 ? sorted[middle] : (sorted[middle - 1]! + sorted[middle]!) / 2
+  const median = count % 2 === 1 ? sorted[middle]! : (sorted[middle - 1]! + sorted[middle]!) / 2
   const bins = max > min ? HISTOGRAM_BINS : 1
   const counts = new Array<number>(bins).fill(0)
   const width = (max - min) / bins

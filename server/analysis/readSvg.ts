@@ -323,7 +323,7 @@ class IdIndex {
   get(id: string): XmlNode | undefined {
     if (this.map === undefined) {
       this.map = new Map()
-      for (const node of this.withId) if (!this.map.has(node.attributes.id)) this.map.set(node.attributes.id, node)
+      for (const node of this.withId) if (!this.map.has(node.attributes.id!)) this.map.set(node.attributes.id!, node)
     }
     return this.map.get(id)
   }

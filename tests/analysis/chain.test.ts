@@ -21,8 +21,8 @@ function contoursOf(set: PolylineSet): { points: number[][]; closed: boolean; le
   return Array.from({ length: set.count }, (_, index) => ({
     points: Array.from({ length: set.pointsOf(index) }, (_, point) => Array.from(set.xy.subarray(2 * (set.start[index]! + point), 2 * (set.start[index]! + point) + 2))),
     closed: set.closed[index] === 1,
-    lengthMm: set.lengthMm[index],
-    element: set.element[index],
+    lengthMm: set.lengthMm[index]!,
+    element: set.element[index]!,
   }))
 }
 
@@ -42,7 +42,7 @@ describe('chaining', () => {
     })
     fc.assert(
       fc.property(fc.shuffledSubarray([0, 1, 2, 3], { minLength: 4, maxLength: 4 }), fc.array(fc.boolean(), { minLength: 4, maxLength: 4 }), (order, reversed) => {
-        const contours = contoursOf(chainPolylines(pieceSet(order.map((side, slot) => ({ points: reversed[slot] ? [...sides[side]!].reverse() : sides[side] }))), TOLERANCE_MM))
+        const contours = contoursOf(chainPolylines(pieceSet(order.map((side, slot) => ({ points: reversed[slot] ? [...sides[side]!].reverse() : sides[side]! }))), TOLERANCE_MM))
         expect(contours).toHaveLength(1)
         expect(contours[0]!.closed).toBe(true)
         expect(contours[0]!.points).toHaveLength(5)

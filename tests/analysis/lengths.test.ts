@@ -102,9 +102,9 @@ describe('lengths and areas against closed forms', () => {
  */
 function cubicLengthBounds(c: number[], pieces: number): { lowerMm: number; upperMm: number } {
   const blossom = (u: number, v: number, w: number, axis: number) => {
-    let points = [c[axis], c[axis + 2], c[axis + 4], c[axis + 6]]
+    let points = [c[axis]!, c[axis + 2]!, c[axis + 4]!, c[axis + 6]!]
     for (const t of [u, v, w]) points = points.slice(1).map((point, index) => (1 - t) * points[index]! + t * point)
-    return points[0]
+    return points[0]!
   }
   const point = (u: number, v: number, w: number) => [blossom(u, v, w, 0), blossom(u, v, w, 1)] as const
   let lowerMm = 0

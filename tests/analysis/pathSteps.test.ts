@@ -47,8 +47,8 @@ function svgpathSteps(data: string, matrix?: number[]): Array<{ x: number; y: nu
       steps.push({ x, y, close: true })
       continue
     }
-    if (name === 'H') x = segment[1]
-    else if (name === 'V') y = segment[1]
+    if (name === 'H') x = segment[1]!
+    else if (name === 'V') y = segment[1]!
     else {
       x = segment[segment.length - 2] as number
       y = segment[segment.length - 1] as number
@@ -63,7 +63,7 @@ function svgpathSteps(data: string, matrix?: number[]): Array<{ x: number; y: nu
 }
 
 function scannedSteps(steps: PathSteps, matrix?: number[]): Array<{ x: number; y: number; curve?: Segment; close?: boolean }> {
-  const [a, b, c, d, e, f] = matrix ?? [1, 0, 0, 1, 0, 0]
+  const [a, b, c, d, e, f] = (matrix ?? [1, 0, 0, 1, 0, 0]) as [number, number, number, number, number, number]
   let curve = 0
   return Array.from({ length: steps.count }, (_, step) => {
     const userX = steps.x[step]!

@@ -33,7 +33,7 @@ export function sitesOf(result: Pick<AnalysisResult, 'findingGroups' | 'sites'>,
         y: sites.xy[2 * row + 1]!,
         ...(Number.isNaN(value) ? {} : { valueMm: value }),
         ...(typeof limit === 'number' ? { limitMm: limit } : {}),
-        contours: [sites.contourA[row], sites.contourB[row]].filter((contour) => contour >= 0),
+        contours: [sites.contourA[row]!, sites.contourB[row]!].filter((contour) => contour >= 0),
         facts: group.facts,
       })
     }

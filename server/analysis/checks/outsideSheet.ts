@@ -34,7 +34,7 @@ function beyond(geometry: CheckGeometry, params: AnalysisParams, area: 'sheet' |
   const { bounds } = geometry
   // The lines that stick out: how many, and the box round them.
   let outside = 0
-  const box = [Infinity, Infinity, -Infinity, -Infinity]
+  const box: [number, number, number, number] = [Infinity, Infinity, -Infinity, -Infinity]
   for (let contour = 0; contour < geometry.contours.count; contour++) {
     if (!(bounds[4 * contour + 2]! - minX > usableWidthMm || bounds[4 * contour + 3]! - minY > usableHeightMm)) continue
     outside++

@@ -23,8 +23,8 @@ function findRepeatedCuts(geometry: CheckGeometry, params: AnalysisParams): Repe
   for (const [later, stretches] of pairScanOf(geometry, params).repeatsOf) {
     const [cx, cy, dx, dy] = segments.ends(later)
     const lengthMm = unionLength(stretches) * Math.hypot(dx - cx, dy - cy)
-    const contours = [segments.contourOf[stretches[0]!.earlier], segments.contourOf[later]]
-    const key = contourPairKey(segments.contours, contours[0]!, contours[1]!)
+    const contours: [number, number] = [segments.contourOf[stretches[0]!.earlier]!, segments.contourOf[later]!]
+    const key = contourPairKey(segments.contours, contours[0], contours[1])
     result.repeatingPairs.add(key)
     const site = result.sites.get(key)
     if (site !== undefined) {

@@ -22,7 +22,7 @@ describe('duplicate-cut', () => {
 
   it('counts a line drawn three times as two extra passes', () => {
     const [finding] = findingsOf('duplicate-cut', ['M0 0H50', 'M0 0H50', 'M50 0H0'], cutSpeed)
-    expect(finding.valueMm).toBeCloseTo(100, 6)
+    expect(finding!.valueMm).toBeCloseTo(100, 6)
   })
 
   it('finds the shared side of two rectangles drawn edge to edge (30 mm), and a line that goes back over itself', () => {

@@ -82,7 +82,7 @@ describe('segment geometry against @flatten-js/core on random segments', () => {
     fc.assert(
       fc.property(coordinate, coordinate, segment, segment, fc.double({ min: 0.01, max: 0.99, noNaN: true }), fc.double({ min: 0.01, max: 0.99, noNaN: true }), (x, y, a, b, u, v) => {
         // Shift each random segment so the point at parameter u (v) is (x, y).
-        const through = ([ax, ay, bx, by]: number[], t: number) => {
+        const through = ([ax, ay, bx, by]: readonly [number, number, number, number], t: number) => {
           const dx = x - (ax + t * (bx - ax))
           const dy = y - (ay + t * (by - ay))
           return [ax + dx, ay + dy, bx + dx, by + dy] as const
