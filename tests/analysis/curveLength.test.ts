@@ -50,6 +50,9 @@ function parabolaLength(x0: number, y0: number, x1: number, y1: number, x2: numb
   return antiderivative(1) - antiderivative(0)
 }
 
+// x0, y0 … x3, y3 of a cubic.
+type CubicCoordinates = [number, number, number, number, number, number, number, number]
+
 const coordinate = fc.double({ min: -300, max: 300, noNaN: true })
 
 describe('curve length', () => {
@@ -65,7 +68,7 @@ describe('curve length', () => {
     fc.assert(
       fc.property(fc.array(coordinate, { minLength: 4, maxLength: 4 }), fc.double({ min: 0, max: 2 * Math.PI, noNaN: true }), coordinate, coordinate, (values, angle, originX, originY) => {
         const [ux, uy] = [Math.cos(angle), Math.sin(angle)]
-        const [x0, y0, x1, y1, x2, y2, x3, y3] = values.flatMap((value) => [originX + value * ux, originY + value * uy]) as [number, number, number, number, number, number, number, number]
+        const [x0, y0, x1, y1, x2, y2, x3, y3] = values.flatMap((value) => [originX + value * ux, originY + value * uy]) as CubicCoordinates
         const expected = lineCubicLength(values[0]!, values[1]!, values[2]!, values[3]!)
         expect(Math.abs(cubicLengthMm(x0, y0, x1, y1, x2, y2, x3, y3) - expected)).toBeLessThanOrEqual(1e-9 * (1 + expected))
       }),

@@ -9,6 +9,6 @@ declare module 'bezier-js' {
     constructor(...coordinates: number[])
     length(): number
     getLUT(steps?: number): BezierPoint[]
-    bbox(): { x: { min: number, max: number }, y: { min: number, max: number } }
+    bbox(): { x: { min: number; max: number }; y: { min: number; max: number } }
   }
 }
