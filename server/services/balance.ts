@@ -22,3 +22,10 @@ export async function balancesOwed(db: Knex, where: { bookingId?: number; bookin
   const rows = (await query) as { booking_id: number; currency: string; balance: number }[]
   return rows.filter((r) => r.balance > 0).map((r) => ({ bookingId: r.booking_id, balanceMinor: r.balance, currency: r.currency }))
 }
+
+/** A member's balances still to pay, each with its job's title: the overview and My payments put them first. */
+export async function memberBalancesOwed(db: Knex, memberId: number): Promise<(BalanceOwed & { jobTitle: string | null })[]> {
+  const owed = await balancesOwed(db, { memberId })
+  const titles = (await db('bookings as b').leftJoin('jobs as j', 'j.id', 'b.job_id').whereIn('b.id', owed.map((o) => o.bookingId)).select('b.id', 'j.title')) as { id: number; title: string | null }[]
+  return owed.map((o) => ({ ...o, jobTitle: titles.find((t) => t.id === o.bookingId)?.title ?? null }))
+}

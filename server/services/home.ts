@@ -1,6 +1,6 @@
 import type { Knex } from 'knex'
 import type { JobState } from '#shared/job-states'
-import { balancesOwed } from './balance'
+import { memberBalancesOwed } from './balance'
 import { liveBookings } from './bookings'
 import { listClosures } from './catalog/opening-hours'
 import { calledOffFor, openOutages, type CalledOffForMember, type OutageView } from './cutter-outages'
@@ -62,14 +62,12 @@ export async function memberHome(db: Knex, memberId: number, now = new Date().to
     pickupLocation: r.pickup_location,
   }))
   const next = jobs.filter((j) => j.state === 'booked' && j.booking && j.booking.end > now).sort((a, b) => a.booking!.start.localeCompare(b.booking!.start))[0]
-  const owed = await balancesOwed(db, { memberId })
-  const titles = await db('bookings as b').leftJoin('jobs as j', 'j.id', 'b.job_id').whereIn('b.id', owed.map((o) => o.bookingId)).select('b.id', 'j.title')
   return {
     timeZone: settings.timeZone,
     jobs,
     nextBooking: next ? { bookingId: next.booking!.id, jobId: next.id, jobTitle: next.title, cutterName: next.cutterName, start: next.booking!.start, end: next.booking!.end, status: next.booking!.status } : null,
     readyToCollect: jobs.filter((j) => j.state === 'ready').map((j) => ({ jobId: j.id, title: j.title, location: j.pickupLocation })),
-    owed: owed.map((o) => ({ ...o, jobTitle: titles.find((t) => t.id === o.bookingId)?.title ?? null })),
+    owed: await memberBalancesOwed(db, memberId),
     calledOff: await calledOffFor(db, memberId),
   }
 }

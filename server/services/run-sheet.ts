@@ -1,11 +1,22 @@
 import type { Knex } from 'knex'
 import { cautionsFor, type Caution } from '#shared/safety'
 import { gunzipSync } from 'node:zlib'
-import { CLOSED_BIT, decodeGeometry, decodeSites, PREVIEW_OPERATIONS } from '#shared/packed-analysis'
+import svgpath from 'svgpath'
+import { decodeSites } from '#shared/packed-analysis'
+import type { CutFileFormat } from '../analysis/dxf/format'
+import { parseDxf } from '../analysis/dxf/parseDxf'
+import { readDxfDocument } from '../analysis/dxf/readDxf'
+import { FindingCollector } from '../analysis/findings'
+import type { Matrix } from '../analysis/matrix'
+import type { AnalysisParams } from '../analysis/params'
+import { parseSvgXml } from '../analysis/parseXml'
+import type { DrawnOperation } from '../analysis/polylines'
+import { type DrawnElement, readSvgDocument } from '../analysis/readSvg'
 import { NotFound } from '../utils/errors'
+import { readUpload } from '../utils/upload-store'
+import { analysisParamsFor } from './analysis-profile'
 import { balancesOwed } from './balance'
 import { liveBookings } from './bookings'
-import { listColours } from './catalog/colours'
 import { getCutter, listCutters } from './catalog/cutters'
 import { acknowledgedGroups, type WarningGroupView } from './finding-acknowledgements'
 import { currentFindingGroups, filesOfJobs, type FileFindingGroups } from './job-revisions'
@@ -160,39 +171,81 @@ export async function runSheet(db: Knex, choice: { cutterId?: number; preferredC
   }
 }
 
+/** A part as the sheet SVG draws it: the engine's drawn elements of its stored original, and the box its placement refers to. */
+export interface SheetPart {
+  bbox: { x: number; y: number; width: number; height: number }
+  elements: readonly DrawnElement[]
+}
+
+/** What the sheet SVG draws: the sheet's size, its placed copies, and the workshop's colour for each operation. */
+export interface SheetDrawing {
+  widthMm: number
+  heightMm: number
+  placements: readonly { fileId: number; x: number; y: number; rotated: boolean }[]
+  parts: ReadonlyMap<number, SheetPart>
+  colourOf: (operation: DrawnOperation) => string
+}
+
 /**
- * One stock sheet of a job as an SVG to load on the cutter: every placed copy's checked geometry
- * (the engine's normalised contours, never the uploaded markup), moved or turned to its place, in
- * the workshop's own stroke colour for its operation, 1 user unit = 1 mm.
+ * The engine's reader alone (parse and read, no flattening): each drawn element keeps its exact path data,
+ * curves and arcs as drawn, its matrix into mm at full double precision, its operation and fill rule.
+ */
+export function drawnElementsOf(text: string, format: CutFileFormat, params: AnalysisParams): DrawnElement[] {
+  const findings = new FindingCollector()
+  return (format === 'dxf' ? readDxfDocument(parseDxf(text), params, findings) : readSvgDocument(parseSvgXml(text), params, findings)).elements
+}
+
+/** Where a placed copy goes on the sheet, as an SVG matrix [a b c d e f] from the part's own mm. */
+function placementMatrix(bbox: SheetPart['bbox'], placement: SheetDrawing['placements'][number]): Matrix {
+  // Turned a quarter: the part's y runs along the sheet's x, its x back along the sheet's y.
+  return placement.rotated
+    ? [0, -1, 1, 0, placement.x - bbox.y, placement.y + bbox.x + bbox.width]
+    : [1, 0, 0, 1, placement.x - bbox.x, placement.y - bbox.y]
+}
+
+/**
+ * The sheet as SVG text, 1 user unit = 1 mm. Path data is the drawn element's own, carried through its matrix and
+ * the placement by svgpath (arcs stay arcs, numbers are not rounded); an engrave area is a filled path with its fill
+ * rule and no stroke, a cut or score line a stroke with no fill.
+ */
+export function sheetSvgText(drawing: SheetDrawing): string {
+  const paths: string[] = []
+  for (const placement of drawing.placements) {
+    const part = drawing.parts.get(placement.fileId)!
+    const place = placementMatrix(part.bbox, placement)
+    for (const element of part.elements) {
+      const d = svgpath(element.pathData).matrix([...element.matrix]).matrix([...place]).toString()
+      const colour = drawing.colourOf(element.operation)
+      paths.push(element.filled
+        ? `<path d="${d}" fill="${colour}" fill-rule="${element.fillRule}" stroke="none"/>`
+        : `<path d="${d}" fill="none" stroke="${colour}" stroke-width="0.1"/>`)
+    }
+  }
+  const { widthMm: w, heightMm: h } = drawing
+  return `<?xml version="1.0" encoding="UTF-8"?>\n<svg xmlns="http://www.w3.org/2000/svg" width="${w}mm" height="${h}mm" viewBox="0 0 ${w} ${h}">\n<g>\n${paths.join('\n')}\n</g>\n</svg>\n`
+}
+
+/**
+ * One stock sheet of a job as an SVG to load on the cutter: every placed copy's drawn elements, read again from the
+ * stored original by the engine's reader with the job's process (never the uploaded markup, never the preview's
+ * flattened points), moved or turned to its place, in the workshop's own colour for its operation.
  */
 export async function sheetSvg(db: Knex, job: JobRow, sheetIndex: number): Promise<string> {
   const files = await currentFiles(db, job.id)
   const estimate = await jobEstimate(db, job, files)
   const sheet = estimate.layout.sheets[sheetIndex]
   if (!sheet) throw new NotFound('No such sheet in this job.')
-  const geometries = new Map<number, { bbox: (typeof files)[number]['current']['bbox']; geometry: ReturnType<typeof decodeGeometry> }>()
-  for (const file of files) {
-    const payload = await db('revision_payloads').where({ file_revision_id: file.current.id }).first('geometry_gz')
-    geometries.set(file.id, { bbox: file.current.bbox, geometry: decodeGeometry(gunzipSync(payload.geometry_gz)) })
+  const params = await analysisParamsFor(db, { cutterId: job.cutter_id, materialId: job.material_id, sheetId: job.sheet_id })
+  const placed = new Set(sheet.placements.map((p) => p.fileId))
+  const originals: { id: number; sha256: string; content_type: string }[] = await db('file_revisions')
+    .whereIn('id', files.filter((f) => placed.has(f.id)).map((f) => f.current.id))
+    .select('id', 'sha256', 'content_type')
+  const parts = new Map<number, SheetPart>()
+  for (const file of files.filter((f) => placed.has(f.id))) {
+    const original = originals.find((o) => o.id === file.current.id)!
+    const format: CutFileFormat = original.content_type === 'image/vnd.dxf' ? 'dxf' : 'svg'
+    parts.set(file.id, { bbox: file.current.bbox, elements: drawnElementsOf(readUpload(original.sha256).toString('utf8'), format, params) })
   }
-  const colours = await listColours(db)
-  const strokeFor = (operation: string) => colours.find((c) => c.operation === operation)?.hex ?? '#000000'
-  const paths: string[] = []
-  for (const placement of sheet.placements) {
-    const { bbox, geometry } = geometries.get(placement.fileId)!
-    const { x: bx, y: by, width: bw } = bbox
-    // Turned a quarter: the part's y runs along the sheet's x, its x back along the sheet's y.
-    const place = (x: number, y: number): [number, number] => (placement.rotated ? [placement.x + (y - by), placement.y + (bx + bw - x)] : [placement.x + (x - bx), placement.y + (y - by)])
-    for (let contour = 0; contour < geometry.count; contour++) {
-      let d = ''
-      for (let point = geometry.start[contour]!; point < geometry.start[contour + 1]!; point++) {
-        const [x, y] = place(geometry.xy[2 * point]!, geometry.xy[2 * point + 1]!)
-        d += `${d ? 'L' : 'M'}${x.toFixed(3)} ${y.toFixed(3)}`
-      }
-      const kind = geometry.kind[contour]!
-      paths.push(`<path d="${d}${kind & CLOSED_BIT ? 'Z' : ''}" stroke="${strokeFor(PREVIEW_OPERATIONS[kind & 3]!)}"/>`)
-    }
-  }
-  const { sheetWidthMm: w, sheetHeightMm: h } = estimate.layout
-  return `<?xml version="1.0" encoding="UTF-8"?>\n<svg xmlns="http://www.w3.org/2000/svg" width="${w}mm" height="${h}mm" viewBox="0 0 ${w} ${h}">\n<g fill="none" stroke-width="0.1">\n${paths.join('\n')}\n</g>\n</svg>\n`
+  const colourOf = (operation: DrawnOperation) => params.colourMapping.find((c) => c.operation === operation)?.hex ?? '#000000'
+  return sheetSvgText({ widthMm: estimate.layout.sheetWidthMm, heightMm: estimate.layout.sheetHeightMm, placements: sheet.placements, parts, colourOf })
 }

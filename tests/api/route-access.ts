@@ -297,6 +297,7 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   // Money, the cutting day and pickups.
   'GET /api/admin/payments': { policy: adminOnly('ok') },
   'GET /api/me/payments': { policy: signedInOnly('ok') },
+  'GET /api/me/balances': { policy: signedInOnly('ok') },
   'POST /api/payments/:bookingId/refund': { policy: staffOnly(), params: (w) => ({ bookingId: w.bookingId }) },
   // The member's own balance (409 while nothing is owed); another member is not told the booking exists.
   'GET /api/staff/mail-outbox': { policy: staffOnly('ok') },

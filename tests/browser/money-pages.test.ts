@@ -48,7 +48,8 @@ describe('money pages in the browser', () => {
     const { page } = browser
     await signInThroughForm(browser, 'member@example.test')
     await browser.open('/payments')
-    const card = page.locator('section').filter({ hasText: owing.title })
+    // Balances owed come first, under To pay, whatever page of payments their booking is on.
+    const card = page.getByRole('region', { name: 'To pay' }).getByRole('listitem').filter({ hasText: owing.title })
     await card.getByText(`${euros(owing.balanceMinor)} is still to pay`).waitFor()
     await card.getByRole('button', { name: `Pay ${euros(owing.balanceMinor)}` }).waitFor()
     expectNoRawMinorUnits(await card.innerText(), owing.balanceMinor, owing.chargeMinor, owing.chargeMinor - owing.balanceMinor)
