@@ -17,10 +17,10 @@ export function chainPolylines(pieces: PolylineSet, toleranceMm: number): Polyli
   const gridded = new Uint32Array(2 * pieces.count)
   let griddedCount = 0
   for (let index = 0; index < pieces.count; index++) {
-    endpointX[2 * index] = pieces.xy[2 * pieces.start[index]]
-    endpointY[2 * index] = pieces.xy[2 * pieces.start[index] + 1]
-    endpointX[2 * index + 1] = pieces.xy[2 * pieces.start[index + 1] - 2]
-    endpointY[2 * index + 1] = pieces.xy[2 * pieces.start[index + 1] - 1]
+    endpointX[2 * index] = pieces.xy[2 * pieces.start[index]!]!
+    endpointY[2 * index] = pieces.xy[2 * pieces.start[index]! + 1]!
+    endpointX[2 * index + 1] = pieces.xy[2 * pieces.start[index + 1]! - 2]!
+    endpointY[2 * index + 1] = pieces.xy[2 * pieces.start[index + 1]! - 1]!
     if (!isChainable(pieces, index)) continue
     gridded[griddedCount++] = 2 * index
     gridded[griddedCount++] = 2 * index + 1
@@ -36,24 +36,24 @@ export function chainPolylines(pieces: PolylineSet, toleranceMm: number): Polyli
     used[index] = 1
     if (!isChainable(pieces, index)) {
       copyPiece(pieces, index, false, contours, true)
-      contours.end(pieces.closed[index] === 1, pieces.lengthMm[index])
+      contours.end(pieces.closed[index] === 1, pieces.lengthMm[index]!)
       continue
     }
     // Walk from the end forwards, then from the start backwards; each step takes the nearest free end.
     const tailLength = walkChain(grid, 2 * index + 1, used, pieces.operation, tail)
     const headLength = walkChain(grid, 2 * index, used, pieces.operation, head)
     // Head pieces were found end-first: a partner that is a piece's end means the piece runs forwards into the chain.
-    let lengthMm = pieces.lengthMm[index]
+    let lengthMm = pieces.lengthMm[index]!
     let first = true
     for (let position = headLength - 1; position >= 0; position--) {
-      copyPiece(pieces, head[position] >> 1, (head[position] & 1) === 0, contours, first)
-      lengthMm += pieces.lengthMm[head[position] >> 1]
+      copyPiece(pieces, head[position]! >> 1, (head[position]! & 1) === 0, contours, first)
+      lengthMm += pieces.lengthMm[head[position]! >> 1]!
       first = false
     }
     copyPiece(pieces, index, false, contours, first)
     for (let position = 0; position < tailLength; position++) {
-      copyPiece(pieces, tail[position] >> 1, (tail[position] & 1) === 1, contours, false)
-      lengthMm += pieces.lengthMm[tail[position] >> 1]
+      copyPiece(pieces, tail[position]! >> 1, (tail[position]! & 1) === 1, contours, false)
+      lengthMm += pieces.lengthMm[tail[position]! >> 1]!
     }
     contours.end(closeIfEndsMeet(contours, toleranceMm), lengthMm)
   }
@@ -77,22 +77,22 @@ function walkChain(grid: EndpointGrid, endpoint: number, used: Uint8Array, opera
 
 /** Appends a piece's points to the contour begun last (beginning one when `begin`), skipping the shared joint; the caller sized the point array. */
 function copyPiece(pieces: PolylineSet, index: number, reversed: boolean, contours: PolylineSet, begin: boolean): void {
-  if (begin) contours.begin(pieces.operation[index], pieces.element[index])
-  const first = pieces.start[index]
-  const last = pieces.start[index + 1] - 1
+  if (begin) contours.begin(pieces.operation[index]!, pieces.element[index]!)
+  const first = pieces.start[index]!
+  const last = pieces.start[index + 1]! - 1
   const skip = begin ? 0 : 1
   const from = pieces.xy
   const to = contours.xy
   let written = 2 * contours.pointCount
   if (reversed) {
     for (let point = last - skip; point >= first; point--) {
-      to[written++] = from[2 * point]
-      to[written++] = from[2 * point + 1]
+      to[written++] = from[2 * point]!
+      to[written++] = from[2 * point + 1]!
     }
   } else {
     for (let point = first + skip; point <= last; point++) {
-      to[written++] = from[2 * point]
-      to[written++] = from[2 * point + 1]
+      to[written++] = from[2 * point]!
+      to[written++] = from[2 * point + 1]!
     }
   }
   contours.pointCount = written / 2
@@ -100,14 +100,14 @@ function copyPiece(pieces: PolylineSet, index: number, reversed: boolean, contou
 
 /** A chain whose two ends meet is closed; its last point is snapped onto the first so the ring is exact. */
 function closeIfEndsMeet(contours: PolylineSet, toleranceMm: number): boolean {
-  const first = contours.start[contours.count]
+  const first = contours.start[contours.count]!
   const last = contours.pointCount - 1
   if (last - first < 2) return false
-  const dx = contours.xy[2 * last] - contours.xy[2 * first]
-  const dy = contours.xy[2 * last + 1] - contours.xy[2 * first + 1]
+  const dx = contours.xy[2 * last]! - contours.xy[2 * first]!
+  const dy = contours.xy[2 * last + 1]! - contours.xy[2 * first + 1]!
   if (Math.hypot(dx, dy) > toleranceMm) return false
-  contours.xy[2 * last] = contours.xy[2 * first]
-  contours.xy[2 * last + 1] = contours.xy[2 * first + 1]
+  contours.xy[2 * last] = contours.xy[2 * first]!
+  contours.xy[2 * last + 1] = contours.xy[2 * first + 1]!
   return true
 }
 
@@ -146,8 +146,8 @@ class EndpointGrid {
     this.cellOfEndpoint = new Int32Array(endpointX.length)
     let cellCount = 0
     for (const endpoint of endpoints) {
-      const column = Math.floor(endpointX[endpoint] / cellSizeMm)
-      const row = Math.floor(endpointY[endpoint] / cellSizeMm)
+      const column = Math.floor(endpointX[endpoint]! / cellSizeMm)
+      const row = Math.floor(endpointY[endpoint]! / cellSizeMm)
       let cell = this.cellAt(column, row)
       if (cell < 0) {
         cell = cellCount++
@@ -158,11 +158,11 @@ class EndpointGrid {
       this.cellOfEndpoint[endpoint] = cell
     }
     this.cellStart = new Uint32Array(cellCount + 1)
-    for (const endpoint of endpoints) this.cellStart[this.cellOfEndpoint[endpoint] + 1]++
-    for (let cell = 0; cell < cellCount; cell++) this.cellStart[cell + 1] += this.cellStart[cell]
+    for (const endpoint of endpoints) this.cellStart[this.cellOfEndpoint[endpoint]! + 1]!++
+    for (let cell = 0; cell < cellCount; cell++) this.cellStart[cell + 1]! += this.cellStart[cell]!
     this.byCell = new Uint32Array(endpoints.length)
     const filled = this.cellStart.slice(0, cellCount)
-    for (const endpoint of endpoints) this.byCell[filled[this.cellOfEndpoint[endpoint]]++] = endpoint
+    for (const endpoint of endpoints) this.byCell[filled[this.cellOfEndpoint[endpoint]!]!++] = endpoint
   }
 
   /**
@@ -171,8 +171,8 @@ class EndpointGrid {
    * equal distances the one listed last in the last cell looked at wins.
    */
   nearestFree(endpoint: number, used: Uint8Array, operation: Uint8Array): number {
-    const x = this.endpointX[endpoint]
-    const y = this.endpointY[endpoint]
+    const x = this.endpointX[endpoint]!
+    const y = this.endpointY[endpoint]!
     const column = Math.floor(x / this.cellSizeMm)
     const row = Math.floor(y / this.cellSizeMm)
     const wantedOperation = operation[endpoint >> 1]
@@ -180,12 +180,12 @@ class EndpointGrid {
     let bestDistance = this.cellSizeMm
     for (let offsetX = -1; offsetX <= 1; offsetX++) {
       for (let offsetY = -1; offsetY <= 1; offsetY++) {
-        const cell = offsetX === 0 && offsetY === 0 ? this.cellOfEndpoint[endpoint] : this.cellAt(column + offsetX, row + offsetY)
+        const cell = offsetX === 0 && offsetY === 0 ? this.cellOfEndpoint[endpoint]! : this.cellAt(column + offsetX, row + offsetY)
         if (cell < 0) continue
-        for (let listed = this.cellStart[cell]; listed < this.cellStart[cell + 1]; listed++) {
-          const candidate = this.byCell[listed]
+        for (let listed = this.cellStart[cell]!; listed < this.cellStart[cell + 1]!; listed++) {
+          const candidate = this.byCell[listed]!
           if (used[candidate >> 1] !== 0 || operation[candidate >> 1] !== wantedOperation) continue
-          const distance = Math.hypot(this.endpointX[candidate] - x, this.endpointY[candidate] - y)
+          const distance = Math.hypot(this.endpointX[candidate]! - x, this.endpointY[candidate]! - y)
           if (distance <= bestDistance) {
             best = candidate
             bestDistance = distance
@@ -198,7 +198,7 @@ class EndpointGrid {
 
   private cellAt(column: number, row: number): number {
     for (let slot = this.hash(column, row); ; slot = (slot + 1) & this.slotMask) {
-      const cell = this.cellInSlot[slot] - 1
+      const cell = this.cellInSlot[slot]! - 1
       if (cell < 0) return -1
       if (this.cellColumn[cell] === column && this.cellRow[cell] === row) return cell
     }

@@ -21,9 +21,9 @@ export function parseColour(value: string): Rgba | undefined {
   const text = value.trim().toLowerCase()
   if (text === 'transparent') return { r: 0, g: 0, b: 0, a: 0 }
   const hex = HEX_PATTERN.exec(NAMED_COLOURS[text] ?? text)
-  if (hex) return parseHexDigits(hex[1])
+  if (hex) return parseHexDigits(hex[1]!)
   const rgb = RGB_FUNCTION_PATTERN.exec(text)
-  if (rgb) return parseRgbArguments(rgb[1])
+  if (rgb) return parseRgbArguments(rgb[1]!)
   return undefined
 }
 
@@ -39,7 +39,8 @@ function parseRgbArguments(argumentText: string): Rgba | undefined {
   const channels = parts.slice(0, 3).map((part) => (part.endsWith('%') ? (Number.parseFloat(part) * 255) / 100 : Number.parseFloat(part)))
   const alpha = parts[3] === undefined ? 1 : parseOpacity(parts[3])
   if (channels.some((channel) => !Number.isFinite(channel))) return undefined
-  const [r, g, b] = channels.map((channel) => Math.min(255, Math.max(0, Math.round(channel))))
+  // Three channels: the length is checked above.
+  const [r, g, b] = channels.map((channel) => Math.min(255, Math.max(0, Math.round(channel)))) as [number, number, number]
   return { r, g, b, a: alpha }
 }
 

@@ -14,31 +14,31 @@ export function findContainers(polylines: PolylineSet, bounds: Float64Array, con
   const index = new Flatbush(containers.length)
   const absoluteArea = new Float64Array(containers.length)
   for (let slot = 0; slot < containers.length; slot++) {
-    const container = containers[slot]
-    index.add(bounds[4 * container], bounds[4 * container + 1], bounds[4 * container + 2], bounds[4 * container + 3])
+    const container = containers[slot]!
+    index.add(bounds[4 * container]!, bounds[4 * container + 1]!, bounds[4 * container + 2]!, bounds[4 * container + 3]!)
     absoluteArea[slot] = Math.abs(polylines.signedArea(container))
   }
   index.finish()
   for (let queryIndex = 0; queryIndex < queries.length; queryIndex++) {
-    const query = queries[queryIndex]
-    const minX = bounds[4 * query]
-    const minY = bounds[4 * query + 1]
-    const maxX = bounds[4 * query + 2]
-    const maxY = bounds[4 * query + 3]
+    const query = queries[queryIndex]!
+    const minX = bounds[4 * query]!
+    const minY = bounds[4 * query + 1]!
+    const maxX = bounds[4 * query + 2]!
+    const maxY = bounds[4 * query + 3]!
     const queryArea = polylines.closed[query] ? Math.abs(polylines.signedArea(query)) : 0
-    const point = polylines.start[query]
-    const probeX = (polylines.xy[2 * point] + polylines.xy[2 * point + 2]) / 2
-    const probeY = (polylines.xy[2 * point + 1] + polylines.xy[2 * point + 3]) / 2
+    const point = polylines.start[query]!
+    const probeX = (polylines.xy[2 * point]! + polylines.xy[2 * point + 2]!) / 2
+    const probeY = (polylines.xy[2 * point + 1]! + polylines.xy[2 * point + 3]!) / 2
     let bestArea = Infinity
     for (const slot of index.search(minX, minY, maxX, maxY)) {
-      const container = containers[slot]
-      if (container === query || absoluteArea[slot] >= bestArea) continue
+      const container = containers[slot]!
+      if (container === query || absoluteArea[slot]! >= bestArea) continue
       // A container must be strictly bigger, so two copies of one outline never contain each other.
-      if (absoluteArea[slot] <= queryArea) continue
-      if (bounds[4 * container] > minX || bounds[4 * container + 1] > minY || bounds[4 * container + 2] < maxX || bounds[4 * container + 3] < maxY) continue
+      if (absoluteArea[slot]! <= queryArea) continue
+      if (bounds[4 * container]! > minX || bounds[4 * container + 1]! > minY || bounds[4 * container + 2]! < maxX || bounds[4 * container + 3]! < maxY) continue
       if (!containsPoint(polylines, container, probeX, probeY)) continue
       parent[query] = container
-      bestArea = absoluteArea[slot]
+      bestArea = absoluteArea[slot]!
     }
   }
   return parent
@@ -48,11 +48,11 @@ export function findContainers(polylines: PolylineSet, bounds: Float64Array, con
 export function containsPoint(polylines: PolylineSet, polyline: number, x: number, y: number): boolean {
   const { xy } = polylines
   let inside = false
-  for (let point = polylines.start[polyline]; point < polylines.start[polyline + 1] - 1; point++) {
-    const ax = xy[2 * point]
-    const ay = xy[2 * point + 1]
-    const bx = xy[2 * point + 2]
-    const by = xy[2 * point + 3]
+  for (let point = polylines.start[polyline]!; point < polylines.start[polyline + 1]! - 1; point++) {
+    const ax = xy[2 * point]!
+    const ay = xy[2 * point + 1]!
+    const bx = xy[2 * point + 2]!
+    const by = xy[2 * point + 3]!
     if (ay > y !== by > y && x < ax + ((y - ay) * (bx - ax)) / (by - ay)) inside = !inside
   }
   return inside
@@ -63,12 +63,12 @@ export function nestingDepths(parentOf: Int32Array, ids: ArrayLike<number>): Int
   const depth = new Int32Array(parentOf.length).fill(-1)
   const path: number[] = []
   for (let slot = 0; slot < ids.length; slot++) {
-    let current = ids[slot]
-    while (current >= 0 && depth[current] < 0) {
+    let current = ids[slot]!
+    while (current >= 0 && depth[current]! < 0) {
       path.push(current)
-      current = parentOf[current]
+      current = parentOf[current]!
     }
-    let base = current >= 0 ? depth[current] : -1
+    let base = current >= 0 ? depth[current]! : -1
     while (path.length > 0) depth[path.pop()!] = ++base
   }
   return depth

@@ -31,10 +31,10 @@ function integrate(speed: (t: number) => number, from: number, to: number, toler
   let kronrod = KRONROD_CENTRE_WEIGHT * centreSpeed
   let gauss = GAUSS_CENTRE_WEIGHT * centreSpeed
   for (let node = 0; node < KRONROD_NODES.length; node++) {
-    const offset = halfWidth * KRONROD_NODES[node]
+    const offset = halfWidth * KRONROD_NODES[node]!
     const pair = speed(centre - offset) + speed(centre + offset)
-    kronrod += KRONROD_WEIGHTS[node] * pair
-    if (node % 2 === 1) gauss += GAUSS_WEIGHTS[node >> 1] * pair
+    kronrod += KRONROD_WEIGHTS[node]! * pair
+    if (node % 2 === 1) gauss += GAUSS_WEIGHTS[node >> 1]! * pair
   }
   kronrod *= halfWidth
   gauss *= halfWidth
@@ -144,7 +144,7 @@ export function arcLengthMm(x0: number, y0: number, rxGiven: number, ryGiven: nu
 
 /** The length of one absolute C, Q or A segment from (fromX, fromY), its numbers at numbers[offset …] in path-data order. */
 export function curveLengthMm(fromX: number, fromY: number, command: number, numbers: ArrayLike<number>, offset: number): number {
-  const n = (position: number) => numbers[offset + position]
+  const n = (position: number) => numbers[offset + position]!
   if (command === CURVE_CUBIC) return cubicLengthMm(fromX, fromY, n(0), n(1), n(2), n(3), n(4), n(5))
   if (command === CURVE_ARC) return arcLengthMm(fromX, fromY, n(0), n(1), n(2), n(3) !== 0, n(4) !== 0, n(5), n(6))
   return quadraticLengthMm(fromX, fromY, n(0), n(1), n(2), n(3))
@@ -160,8 +160,8 @@ function rootsInUnitInterval(p: number, q: number, r: number, s: number): number
   const stretchEnds = [0, ...quadraticRoots(3 * p, 2 * q, r).filter((t) => t > 0 && t < 1), 1]
   const roots: number[] = []
   for (let stretch = 0; stretch + 1 < stretchEnds.length; stretch++) {
-    let low = stretchEnds[stretch]
-    let high = stretchEnds[stretch + 1]
+    let low = stretchEnds[stretch]!
+    let high = stretchEnds[stretch + 1]!
     const lowValue = value(low)
     if (stretch > 0 && lowValue === 0) roots.push(low)
     if (!(lowValue * value(high) < 0)) continue

@@ -115,21 +115,21 @@ export class FindingCollector {
       const values = new Float64Array(list.count)
       let measured = 0
       for (let slot = 0; slot < list.count; slot++) {
-        const site = order === null ? slot : order[slot]
+        const site = order === null ? slot : order[slot]!
         const row = firstSite + slot
-        const x = list.xy[2 * site]
-        const y = list.xy[2 * site + 1]
+        const x = list.xy[2 * site]!
+        const y = list.xy[2 * site + 1]!
         sites.xy[2 * row] = x
         sites.xy[2 * row + 1] = y
-        sites.value[row] = list.value[site]
-        sites.contourA[row] = list.contourA[site]
-        sites.contourB[row] = list.contourB[site]
+        sites.value[row] = list.value[site]!
+        sites.contourA[row] = list.contourA[site]!
+        sites.contourB[row] = list.contourB[site]!
         if (x < box[0]) box[0] = x
         if (y < box[1]) box[1] = y
         if (x > box[2]) box[2] = x
         if (y > box[3]) box[3] = y
         // Statistics of the values as the site table stores them, so they agree with the sites a page reads.
-        if (!Number.isNaN(list.value[site])) values[measured++] = Math.fround(list.value[site])
+        if (!Number.isNaN(list.value[site])) values[measured++] = Math.fround(list.value[site]!)
       }
       const { spec } = list
       const facts: Record<string, number | string> = { ...spec.facts }
@@ -165,11 +165,11 @@ function worstFirstOrder(list: SiteList): Uint32Array | null {
   const sign = direction === 'smallest' ? 1 : -1
   const { value, count } = list
   let sorted = true
-  for (let site = 1; site < count && sorted; site++) if (sign * (value[site] - value[site - 1]) < 0) sorted = false
+  for (let site = 1; site < count && sorted; site++) if (sign * (value[site]! - value[site - 1]!) < 0) sorted = false
   if (sorted) return null
   const order = new Uint32Array(count)
   for (let site = 0; site < count; site++) order[site] = site
-  return order.sort((a, b) => sign * (value[a] - value[b]) || a - b)
+  return order.sort((a, b) => sign * (value[a]! - value[b]!) || a - b)
 }
 
 /**
@@ -180,17 +180,17 @@ function worstFirstOrder(list: SiteList): Uint32Array | null {
 export function findingStats(values: Float64Array): FindingStats {
   const sorted = Float64Array.from(values).sort()
   const count = sorted.length
-  const min = sorted[0]
-  const max = sorted[count - 1]
+  const min = sorted[0]!
+  const max = sorted[count - 1]!
   const middle = count >> 1
-  const median = count % 2 === 1 ? sorted[middle] : (sorted[middle - 1] + sorted[middle]) / 2
+  const median = count % 2 === 1 ? sorted[middle]! : (sorted[middle - 1]! + sorted[middle]!) / 2
   const bins = max > min ? HISTOGRAM_BINS : 1
   const counts = new Array<number>(bins).fill(0)
   const width = (max - min) / bins
   let bin = 0
   for (let index = 0; index < count; index++) {
-    while (bin < bins - 1 && sorted[index] >= min + width * (bin + 1)) bin++
-    counts[bin]++
+    while (bin < bins - 1 && sorted[index]! >= min + width * (bin + 1)) bin++
+    counts[bin]!++
   }
   return { min, median, max, histogram: { fromMm: min, toMm: max, counts } }
 }

@@ -56,18 +56,18 @@ function flattenSteps(steps: PathSteps, matrix: Matrix, identity: boolean, chord
   for (let step = 0; step < steps.count; step++) {
     const kind = steps.kind[step]
     if (kind === STEP_CURVE) {
-      const command = steps.curveCommand[curve]
+      const command = steps.curveCommand[curve]!
       const offset = curve * CURVE_STRIDE
       if (identity) flattenCurve(command, steps.curveNumbers, offset, chordToleranceMm, subpaths)
       else transformedCurve(command, steps.curveNumbers, offset, matrix, userX, userY, chordToleranceMm, subpaths)
       const end = offset + curveNumberCount(command) - 2
-      userX = steps.curveNumbers[end]
-      userY = steps.curveNumbers[end + 1]
+      userX = steps.curveNumbers[end]!
+      userY = steps.curveNumbers[end + 1]!
       curve++
       continue
     }
-    userX = steps.x[step]
-    userY = steps.y[step]
+    userX = steps.x[step]!
+    userY = steps.y[step]!
     if (kind === STEP_CLOSE) {
       subpaths.finish(true)
       continue
@@ -92,18 +92,18 @@ function transformedCurve(command: number, numbers: Float64Array, offset: number
   const transformed = new Float64Array(CURVE_STRIDE)
   if (command !== CURVE_ARC) {
     for (let position = 0; position < curveNumberCount(command); position += 2) {
-      const x = numbers[offset + position]
-      const y = numbers[offset + position + 1]
+      const x = numbers[offset + position]!
+      const y = numbers[offset + position + 1]!
       transformed[position] = x * a + y * c + e
       transformed[position + 1] = x * b + y * d + f
     }
     flattenCurve(command, transformed, 0, chordToleranceMm, subpaths)
     return
   }
-  const ellipse = transformedEllipse(numbers[offset], numbers[offset + 1], numbers[offset + 2], matrix)
-  const sweep = numbers[offset + 4]
-  const x = numbers[offset + 5]
-  const y = numbers[offset + 6]
+  const ellipse = transformedEllipse(numbers[offset]!, numbers[offset + 1]!, numbers[offset + 2]!, matrix)
+  const sweep = numbers[offset + 4]!
+  const x = numbers[offset + 5]!
+  const y = numbers[offset + 6]!
   const toX = x * a + y * c + e
   const toY = x * b + y * d + f
   if ((x === fromUserX && y === fromUserY) || ellipse.rx < ELLIPSE_EPSILON * ellipse.ry || ellipse.ry < ELLIPSE_EPSILON * ellipse.rx) {
@@ -113,7 +113,7 @@ function transformedCurve(command: number, numbers: Float64Array, offset: number
   transformed[0] = ellipse.rx
   transformed[1] = ellipse.ry
   transformed[2] = ellipse.ax
-  transformed[3] = numbers[offset + 3]
+  transformed[3] = numbers[offset + 3]!
   transformed[4] = a * d - b * c < 0 ? (sweep ? 0 : 1) : sweep
   transformed[5] = toX
   transformed[6] = toY
@@ -188,19 +188,19 @@ function flattenCurve(command: number, numbers: Float64Array, offset: number, ch
   const { x, y } = subpaths
   if (command !== CURVE_ARC) {
     const isCubic = command === CURVE_CUBIC
-    if (isCubic) addCubic(target, x, y, numbers[offset], numbers[offset + 1], numbers[offset + 2], numbers[offset + 3], numbers[offset + 4], numbers[offset + 5], chordToleranceMm)
-    else addQuadratic(target, x, y, numbers[offset], numbers[offset + 1], numbers[offset + 2], numbers[offset + 3], chordToleranceMm)
+    if (isCubic) addCubic(target, x, y, numbers[offset]!, numbers[offset + 1]!, numbers[offset + 2]!, numbers[offset + 3]!, numbers[offset + 4]!, numbers[offset + 5]!, chordToleranceMm)
+    else addQuadratic(target, x, y, numbers[offset]!, numbers[offset + 1]!, numbers[offset + 2]!, numbers[offset + 3]!, chordToleranceMm)
     const end = offset + (isCubic ? 4 : 2)
-    subpaths.curveTo(numbers[end], numbers[end + 1], curveLengthMm(x, y, command, numbers, offset))
+    subpaths.curveTo(numbers[end]!, numbers[end + 1]!, curveLengthMm(x, y, command, numbers, offset))
     return
   }
-  const rx = numbers[offset]
-  const ry = numbers[offset + 1]
-  const rotationDeg = numbers[offset + 2]
-  const largeArc = numbers[offset + 3]
-  const sweep = numbers[offset + 4]
-  const toX = numbers[offset + 5]
-  const toY = numbers[offset + 6]
+  const rx = numbers[offset]!
+  const ry = numbers[offset + 1]!
+  const rotationDeg = numbers[offset + 2]!
+  const largeArc = numbers[offset + 3]!
+  const sweep = numbers[offset + 4]!
+  const toX = numbers[offset + 5]!
+  const toY = numbers[offset + 6]!
   if (toX === x && toY === y) return
   // SVG 1.1 F.6.2: an arc with a zero radius is a straight line.
   if (rx === 0 || ry === 0) {
@@ -208,7 +208,7 @@ function flattenCurve(command: number, numbers: Float64Array, offset: number, ch
     return
   }
   for (const cubic of arcToCubics(x, y, toX, toY, largeArc, sweep, rx, ry, rotationDeg)) {
-    addCubic(target, cubic[0], cubic[1], cubic[2], cubic[3], cubic[4], cubic[5], cubic[6], cubic[7], chordToleranceMm)
+    addCubic(target, cubic[0]!, cubic[1]!, cubic[2]!, cubic[3]!, cubic[4]!, cubic[5]!, cubic[6]!, cubic[7]!, chordToleranceMm)
   }
   // The cubics end on the arc's endpoint up to rounding; land exactly on it.
   target.xy[2 * target.pointCount - 2] = toX

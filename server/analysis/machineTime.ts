@@ -40,12 +40,12 @@ export function estimateMachineTime(contours: PolylineSet, bounds: Float64Array,
     for (const moveMm of travel.moveMm) travelS += restToRestTimeS(moveMm, rapidSpeed, params.accelMmPerS2)
     x = travel.endX
     y = travel.endY
-    for (const entry of order) runOrder[written++] = entry >= 0 ? levelIds[entry] : -1 - levelIds[-1 - entry]
+    for (const entry of order) runOrder[written++] = entry >= 0 ? levelIds[entry]! : -1 - levelIds[-1 - entry]!
   }
 
   const timer = new PolylineTimer()
   const runTimeS = (id: number, speedMmPerMin: number) =>
-    timer.timeS(contours.xy, contours.start[id], contours.start[id + 1], speedMmPerMin / 60, params.accelMmPerS2, params.junctionDeviationMm)
+    timer.timeS(contours.xy, contours.start[id]!, contours.start[id + 1]!, speedMmPerMin / 60, params.accelMmPerS2, params.junctionDeviationMm)
   let cutS = 0
   let scoreS = 0
   let cutCount = 0
@@ -84,15 +84,15 @@ function tourLevels(contours: PolylineSet, cutDepth: Int32Array): TourLevels {
   let levelCount = 1
   for (let id = 0; id < contours.count; id++) {
     if (contours.operation[id] === OPERATION_CODES.score) levelOf[id] = 0
-    if (contours.operation[id] === OPERATION_CODES.cut) levelOf[id] = cutDepth[id] + 1
-    levelCount = Math.max(levelCount, levelOf[id] + 1)
+    if (contours.operation[id] === OPERATION_CODES.cut) levelOf[id] = cutDepth[id]! + 1
+    levelCount = Math.max(levelCount, levelOf[id]! + 1)
   }
   const levelStart = new Int32Array(levelCount + 1)
-  for (let id = 0; id < contours.count; id++) if (levelOf[id] >= 0) levelStart[levelOf[id] + 1]++
-  for (let level = 0; level < levelCount; level++) levelStart[level + 1] += levelStart[level]
-  const ids = new Int32Array(levelStart[levelCount])
+  for (let id = 0; id < contours.count; id++) if (levelOf[id]! >= 0) levelStart[levelOf[id]! + 1]!++
+  for (let level = 0; level < levelCount; level++) levelStart[level + 1]! += levelStart[level]!
+  const ids = new Int32Array(levelStart[levelCount]!)
   const filled = levelStart.slice(0, levelCount)
-  for (let id = 0; id < contours.count; id++) if (levelOf[id] >= 0) ids[filled[levelOf[id]]++] = id
+  for (let id = 0; id < contours.count; id++) if (levelOf[id]! >= 0) ids[filled[levelOf[id]!]!++] = id
   return { ids, levelStart }
 }
 
@@ -104,12 +104,12 @@ function stopsOf(contours: PolylineSet, ids: Int32Array): TourStops {
     exitY: new Float64Array(ids.length),
   }
   for (let slot = 0; slot < ids.length; slot++) {
-    const first = contours.start[ids[slot]]
-    const last = contours.start[ids[slot] + 1] - 1
-    stops.entryX[slot] = contours.xy[2 * first]
-    stops.entryY[slot] = contours.xy[2 * first + 1]
-    stops.exitX[slot] = contours.xy[2 * last]
-    stops.exitY[slot] = contours.xy[2 * last + 1]
+    const first = contours.start[ids[slot]!]!
+    const last = contours.start[ids[slot]! + 1]! - 1
+    stops.entryX[slot] = contours.xy[2 * first]!
+    stops.entryY[slot] = contours.xy[2 * first + 1]!
+    stops.exitX[slot] = contours.xy[2 * last]!
+    stops.exitY[slot] = contours.xy[2 * last + 1]!
   }
   return stops
 }

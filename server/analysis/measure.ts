@@ -20,16 +20,16 @@ export function measureContours(contours: PolylineSet, bounds: Float64Array, ele
   let maxX = -Infinity
   let maxY = -Infinity
   for (let index = 0; index < contours.count; index++) {
-    minX = Math.min(minX, bounds[4 * index])
-    minY = Math.min(minY, bounds[4 * index + 1])
-    maxX = Math.max(maxX, bounds[4 * index + 2])
-    maxY = Math.max(maxY, bounds[4 * index + 3])
+    minX = Math.min(minX, bounds[4 * index]!)
+    minY = Math.min(minY, bounds[4 * index + 1]!)
+    maxX = Math.max(maxX, bounds[4 * index + 2]!)
+    maxY = Math.max(maxY, bounds[4 * index + 3]!)
     if (contours.operation[index] === OPERATION_CODES.cut) {
-      cutLengthMm += contours.lengthMm[index]
+      cutLengthMm += contours.lengthMm[index]!
       if (contours.closed[index]) closedCutContours++
       else openCutContours++
     } else if (contours.operation[index] === OPERATION_CODES.score) {
-      scoreLengthMm += contours.lengthMm[index]
+      scoreLengthMm += contours.lengthMm[index]!
     }
   }
   return {
@@ -52,7 +52,7 @@ function engraveArea(contours: PolylineSet, bounds: Float64Array, elements: Draw
     }
     let end = first + 1
     while (end < contours.count && contours.operation[end] === OPERATION_CODES.engrave && contours.element[end] === contours.element[first]) end++
-    areaMm2 += filledArea(contours, bounds, first, end, elements[contours.element[first]].fillRule)
+    areaMm2 += filledArea(contours, bounds, first, end, elements[contours.element[first]!]!.fillRule)
     first = end
   }
   return areaMm2
@@ -69,16 +69,16 @@ function filledArea(contours: PolylineSet, bounds: Float64Array, first: number, 
   const ids = Array.from({ length: end - first }, (_, offset) => first + offset)
   const parentOf = findContainers(contours, bounds, ids, ids)
   const depth = nestingDepths(parentOf, ids)
-  const byDepth = [...ids].sort((a, b) => depth[a] - depth[b])
+  const byDepth = [...ids].sort((a, b) => depth[a]! - depth[b]!)
   const winding = new Map<number, number>()
   let areaMm2 = 0
   for (const id of byDepth) {
     const signed = contours.signedArea(id)
-    const parent = parentOf[id]
+    const parent = parentOf[id]!
     const ownWinding = (parent >= 0 ? winding.get(parent)! : 0) + Math.sign(signed)
     winding.set(id, ownWinding)
-    const filled = fillRule === 'evenodd' ? depth[id] % 2 === 0 : ownWinding !== 0
-    const parentFilled = parent >= 0 && (fillRule === 'evenodd' ? depth[parent] % 2 === 0 : winding.get(parent) !== 0)
+    const filled = fillRule === 'evenodd' ? depth[id]! % 2 === 0 : ownWinding !== 0
+    const parentFilled = parent >= 0 && (fillRule === 'evenodd' ? depth[parent]! % 2 === 0 : winding.get(parent) !== 0)
     // A ring's area is its own less its children's: add it where filled, take it from a filled parent.
     if (filled) areaMm2 += Math.abs(signed)
     if (parentFilled) areaMm2 -= Math.abs(signed)

@@ -79,19 +79,19 @@ export class PolylineTimer {
     let lengthMm = 0
     for (let segment = 0; segment < segmentCount; segment++) {
       const point = first + segment
-      lengths[segment] = Math.hypot(xy[2 * point + 2] - xy[2 * point], xy[2 * point + 3] - xy[2 * point + 1])
-      lengthMm += lengths[segment]
+      lengths[segment] = Math.hypot(xy[2 * point + 2]! - xy[2 * point]!, xy[2 * point + 3]! - xy[2 * point + 1]!)
+      lengthMm += lengths[segment]!
       segmentLimit[segment] = maxSpeed
     }
     if (accel <= 0) return lengthMm / maxSpeed
     for (let vertex = 1; vertex < segmentCount; vertex++) {
       const point = first + vertex
-      const inX = xy[2 * point] - xy[2 * point - 2]
-      const inY = xy[2 * point + 1] - xy[2 * point - 1]
-      const outX = xy[2 * point + 2] - xy[2 * point]
-      const outY = xy[2 * point + 3] - xy[2 * point + 1]
-      const inLength = lengths[vertex - 1]
-      const outLength = lengths[vertex]
+      const inX = xy[2 * point]! - xy[2 * point - 2]!
+      const inY = xy[2 * point + 1]! - xy[2 * point - 1]!
+      const outX = xy[2 * point + 2]! - xy[2 * point]!
+      const outY = xy[2 * point + 3]! - xy[2 * point + 1]!
+      const inLength = lengths[vertex - 1]!
+      const outLength = lengths[vertex]!
       speeds[vertex] = maxSpeed
       if (inLength === 0 || outLength === 0) continue
       speeds[vertex] = junctionSpeed(inX / inLength, inY / inLength, outX / outLength, outY / outLength, maxSpeed, accel, deviationMm)
@@ -100,21 +100,21 @@ export class PolylineTimer {
       if (sinTurn === 0) continue
       const radiusMm = Math.hypot(inX + outX, inY + outY) / (2 * sinTurn)
       const limit = curveSpeedLimit(radiusMm, accel)
-      speeds[vertex] = Math.min(speeds[vertex], limit)
-      if (inLength <= radiusMm) segmentLimit[vertex - 1] = Math.min(segmentLimit[vertex - 1], limit)
-      if (outLength <= radiusMm) segmentLimit[vertex] = Math.min(segmentLimit[vertex], limit)
+      speeds[vertex] = Math.min(speeds[vertex]!, limit)
+      if (inLength <= radiusMm) segmentLimit[vertex - 1] = Math.min(segmentLimit[vertex - 1]!, limit)
+      if (outLength <= radiusMm) segmentLimit[vertex] = Math.min(segmentLimit[vertex]!, limit)
     }
     speeds[0] = 0
     speeds[segmentCount] = 0
-    for (let vertex = 1; vertex < segmentCount; vertex++) speeds[vertex] = Math.min(speeds[vertex], segmentLimit[vertex - 1], segmentLimit[vertex])
+    for (let vertex = 1; vertex < segmentCount; vertex++) speeds[vertex] = Math.min(speeds[vertex]!, segmentLimit[vertex - 1]!, segmentLimit[vertex]!)
     for (let segment = 0; segment < segmentCount; segment++) {
-      speeds[segment + 1] = Math.min(speeds[segment + 1], Math.sqrt(speeds[segment] * speeds[segment] + 2 * accel * lengths[segment]))
+      speeds[segment + 1] = Math.min(speeds[segment + 1]!, Math.sqrt(speeds[segment]! * speeds[segment]! + 2 * accel * lengths[segment]!))
     }
     for (let segment = segmentCount - 1; segment >= 0; segment--) {
-      speeds[segment] = Math.min(speeds[segment], Math.sqrt(speeds[segment + 1] * speeds[segment + 1] + 2 * accel * lengths[segment]))
+      speeds[segment] = Math.min(speeds[segment]!, Math.sqrt(speeds[segment + 1]! * speeds[segment + 1]! + 2 * accel * lengths[segment]!))
     }
     let timeS = 0
-    for (let segment = 0; segment < segmentCount; segment++) timeS += segmentTimeS(lengths[segment], speeds[segment], speeds[segment + 1], segmentLimit[segment], accel)
+    for (let segment = 0; segment < segmentCount; segment++) timeS += segmentTimeS(lengths[segment]!, speeds[segment]!, speeds[segment + 1]!, segmentLimit[segment]!, accel)
     return timeS
   }
 }

@@ -65,7 +65,7 @@ function readAsSvg(root: XmlNode): void {
     if (node.type !== 'element') continue
     let svgPrefixes = inherited
     for (const name in node.attributes) {
-      const value = node.attributes[name]
+      const value = node.attributes[name]!
       if (value.includes('&')) node.attributes[name] = withReferencesReplaced(value)
       if (name.startsWith('xmlns:')) {
         const prefix = name.slice('xmlns:'.length)

@@ -165,8 +165,8 @@ export class PathSteps {
         numbers[offset + position - 1] = relative && isX ? this.number + currentX : relative && isY ? this.number + currentY : this.number
         commaFound = this.skipSeparator()
       }
-      currentX = numbers[offset + parameters - 2]
-      currentY = numbers[offset + parameters - 1]
+      currentX = numbers[offset + parameters - 2]!
+      currentY = numbers[offset + parameters - 1]!
       this.push(STEP_CURVE, currentX, currentY)
       if (commaFound) continue
       if (this.index >= this.text.length || !startsNumber(this.text.charCodeAt(this.index))) return [currentX, currentY]
@@ -247,7 +247,7 @@ export class PathSteps {
     }
     if (digits === 0 || (code | LOWER_CASE_BIT) === 0x65 /* e */) return false
     this.index = index
-    const magnitude = digits <= MAX_EXACT_DIGITS ? mantissa / EXACT_POWERS_OF_TEN[fractionDigits] : Number.parseFloat(text.slice(negative ? start + 1 : start, index))
+    const magnitude = digits <= MAX_EXACT_DIGITS ? mantissa / EXACT_POWERS_OF_TEN[fractionDigits]! : Number.parseFloat(text.slice(negative ? start + 1 : start, index))
     // svgpath adds 0.0 to every number, which turns −0 into +0.
     this.number = (negative ? -magnitude : magnitude) + 0
     return true

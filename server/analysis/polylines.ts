@@ -40,7 +40,7 @@ export class PolylineSet {
 
   /** Keeps the polyline begun last if it has a segment, otherwise drops its points. */
   end(closed: boolean, lengthMm: number): void {
-    const first = this.start[this.count]
+    const first = this.start[this.count]!
     if (this.pointCount - first < 2 || lengthMm <= 0) {
       this.pointCount = first
       return
@@ -52,7 +52,7 @@ export class PolylineSet {
   }
 
   pointsOf(index: number): number {
-    return this.start[index + 1] - this.start[index]
+    return this.start[index + 1]! - this.start[index]!
   }
 
   /** Bounding boxes as [minX, minY, maxX, maxY] per polyline. */
@@ -63,9 +63,9 @@ export class PolylineSet {
       let minY = Infinity
       let maxX = -Infinity
       let maxY = -Infinity
-      for (let point = this.start[index]; point < this.start[index + 1]; point++) {
-        const x = this.xy[2 * point]
-        const y = this.xy[2 * point + 1]
+      for (let point = this.start[index]!; point < this.start[index + 1]!; point++) {
+        const x = this.xy[2 * point]!
+        const y = this.xy[2 * point + 1]!
         if (x < minX) minX = x
         if (x > maxX) maxX = x
         if (y < minY) minY = y
@@ -82,12 +82,12 @@ export class PolylineSet {
   /** Shoelace formula (signed: positive when counter-clockwise in a y-up frame). */
   signedArea(index: number): number {
     let twiceArea = 0
-    const first = this.start[index]
-    const last = this.start[index + 1] - 1
+    const first = this.start[index]!
+    const last = this.start[index + 1]! - 1
     for (let point = first; point < last; point++) {
-      twiceArea += this.xy[2 * point] * this.xy[2 * point + 3] - this.xy[2 * point + 2] * this.xy[2 * point + 1]
+      twiceArea += this.xy[2 * point]! * this.xy[2 * point + 3]! - this.xy[2 * point + 2]! * this.xy[2 * point + 1]!
     }
-    twiceArea += this.xy[2 * last] * this.xy[2 * first + 1] - this.xy[2 * first] * this.xy[2 * last + 1]
+    twiceArea += this.xy[2 * last]! * this.xy[2 * first + 1]! - this.xy[2 * first]! * this.xy[2 * last + 1]!
     return twiceArea / 2
   }
 

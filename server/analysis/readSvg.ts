@@ -63,7 +63,7 @@ export function readSvgDocument(root: XmlNode, params: AnalysisParams, findings:
   const paints = new Map<string, Paint>()
   const stack: Pending[] = []
   const pushChildren = (node: XmlNode, matrix: Matrix, style: ComputedStyle, useDepth: number, viewport: ViewportSize) => {
-    for (let index = node.children.length - 1; index >= 0; index--) stack.push({ node: node.children[index], parentMatrix: matrix, parentStyle: style, useDepth, viewport })
+    for (let index = node.children.length - 1; index >= 0; index--) stack.push({ node: node.children[index]!, parentMatrix: matrix, parentStyle: style, useDepth, viewport })
   }
   const rootStyle = computeStyle(root, INITIAL_STYLE, styleSheet)
   // SVG 1.1 §11.5: display none on an element, the root included, renders neither it nor anything in it.
@@ -187,7 +187,7 @@ function expandUse(node: XmlNode, matrix: Matrix, style: ComputedStyle, useDepth
   if (symbolStyle.displayNone) return
   const symbolMatrix = multiply(matrix, multiply(offset, symbolViewportMatrix(target, node, viewport)))
   for (let index = target.children.length - 1; index >= 0; index--) {
-    stack.push({ node: target.children[index], parentMatrix: symbolMatrix, parentStyle: symbolStyle, useDepth: useDepth + 1, viewport: symbolViewport(target, node, viewport) })
+    stack.push({ node: target.children[index]!, parentMatrix: symbolMatrix, parentStyle: symbolStyle, useDepth: useDepth + 1, viewport: symbolViewport(target, node, viewport) })
   }
 }
 
@@ -306,8 +306,8 @@ function indexDocument(root: XmlNode): { byId: IdIndex; styleSheet: StyleSheet }
     // Children go on the stack last first, so the walk (and `withId`, and the style sheets) follow document order.
     const children = node.children ?? []
     for (let index = children.length - 1; index >= 0; index--) {
-      if (children[index].type !== 'element') continue
-      nodes.push(children[index])
+      if (children[index]!.type !== 'element') continue
+      nodes.push(children[index]!)
       depths.push(depth + 1)
     }
   }
@@ -323,7 +323,7 @@ class IdIndex {
   get(id: string): XmlNode | undefined {
     if (this.map === undefined) {
       this.map = new Map()
-      for (const node of this.withId) if (!this.map.has(node.attributes.id)) this.map.set(node.attributes.id, node)
+      for (const node of this.withId) if (!this.map.has(node.attributes.id!)) this.map.set(node.attributes.id!, node)
     }
     return this.map.get(id)
   }

@@ -11,8 +11,8 @@ export class StyleSheet {
   add(cssText: string): void {
     const withoutComments = cssText.replace(/\/\*[\s\S]*?\*\//g, '')
     for (const rule of withoutComments.matchAll(/([^{}@]+)\{([^{}]*)\}/g)) {
-      const declarations = parseDeclarations(rule[2])
-      for (const selector of rule[1].split(',').map((part) => part.trim())) {
+      const declarations = parseDeclarations(rule[2]!)
+      for (const selector of rule[1]!.split(',').map((part) => part.trim())) {
         if (/^\.[\w-]+$/.test(selector)) appendTo(this.byClass, selector.slice(1), declarations)
         else if (/^#[\w-]+$/.test(selector)) appendTo(this.byId, selector.slice(1), declarations)
         else if (/^[a-zA-Z][\w-]*$/.test(selector)) appendTo(this.byElement, selector, declarations)

@@ -34,8 +34,8 @@ function nearestNeighbourOrder(stops: TourStops, count: number, startX: number, 
     grid.remove(stop)
     const backwards = (end & 1) === 1
     order[position] = backwards ? -1 - stop : stop
-    x = backwards ? stops.entryX[stop] : stops.exitX[stop]
-    y = backwards ? stops.entryY[stop] : stops.exitY[stop]
+    x = backwards ? stops.entryX[stop]! : stops.exitX[stop]!
+    y = backwards ? stops.entryY[stop]! : stops.exitY[stop]!
   }
   return order
 }
@@ -77,16 +77,16 @@ class StopEndGrid {
     let maxX = -Infinity
     let maxY = -Infinity
     for (let stop = 0; stop < count; stop++) {
-      this.endX[2 * stop] = stops.entryX[stop]
-      this.endY[2 * stop] = stops.entryY[stop]
-      this.endX[2 * stop + 1] = stops.exitX[stop]
-      this.endY[2 * stop + 1] = stops.exitY[stop]
+      this.endX[2 * stop] = stops.entryX[stop]!
+      this.endY[2 * stop] = stops.entryY[stop]!
+      this.endX[2 * stop + 1] = stops.exitX[stop]!
+      this.endY[2 * stop + 1] = stops.exitY[stop]!
     }
     for (let end = 0; end < endCount; end++) {
-      minX = Math.min(minX, this.endX[end])
-      minY = Math.min(minY, this.endY[end])
-      maxX = Math.max(maxX, this.endX[end])
-      maxY = Math.max(maxY, this.endY[end])
+      minX = Math.min(minX, this.endX[end]!)
+      minY = Math.min(minY, this.endY[end]!)
+      maxX = Math.max(maxX, this.endX[end]!)
+      maxY = Math.max(maxY, this.endY[end]!)
     }
     const widthMm = maxX - minX
     const heightMm = maxY - minY
@@ -102,17 +102,17 @@ class StopEndGrid {
     this.cellStart = new Uint32Array(this.columns * this.rows + 1)
     this.liveInCell = new Uint32Array(this.columns * this.rows)
     for (let end = 0; end < endCount; end++) {
-      const cell = this.cellIndex(this.column(this.endX[end]), this.row(this.endY[end]))
+      const cell = this.cellIndex(this.column(this.endX[end]!), this.row(this.endY[end]!))
       this.cellOfEnd[end] = cell
-      this.liveInCell[cell]++
+      this.liveInCell[cell]!++
     }
-    for (let cell = 0; cell < this.liveInCell.length; cell++) this.cellStart[cell + 1] = this.cellStart[cell] + this.liveInCell[cell]
+    for (let cell = 0; cell < this.liveInCell.length; cell++) this.cellStart[cell + 1] = this.cellStart[cell]! + this.liveInCell[cell]!
     this.endInSlot = new Uint32Array(endCount)
     this.slotOfEnd = new Uint32Array(endCount)
     const filled = new Uint32Array(this.liveInCell.length)
     for (let end = 0; end < endCount; end++) {
-      const cell = this.cellOfEnd[end]
-      const slot = this.cellStart[cell] + filled[cell]++
+      const cell = this.cellOfEnd[end]!
+      const slot = this.cellStart[cell]! + filled[cell]!++
       this.endInSlot[slot] = end
       this.slotOfEnd[end] = slot
     }
@@ -151,10 +151,10 @@ class StopEndGrid {
 
   remove(stop: number): void {
     for (let end = 2 * stop; end <= 2 * stop + 1; end++) {
-      const cell = this.cellOfEnd[end]
-      const lastSlot = this.cellStart[cell] + --this.liveInCell[cell]
-      const slot = this.slotOfEnd[end]
-      const movedEnd = this.endInSlot[lastSlot]
+      const cell = this.cellOfEnd[end]!
+      const lastSlot = this.cellStart[cell]! + --this.liveInCell[cell]!
+      const slot = this.slotOfEnd[end]!
+      const movedEnd = this.endInSlot[lastSlot]!
       this.endInSlot[slot] = movedEnd
       this.slotOfEnd[movedEnd] = slot
       this.endInSlot[lastSlot] = end
@@ -163,12 +163,12 @@ class StopEndGrid {
   }
 
   private searchCell(cell: number, x: number, y: number): void {
-    const first = this.cellStart[cell]
-    const end = first + this.liveInCell[cell]
+    const first = this.cellStart[cell]!
+    const end = first + this.liveInCell[cell]!
     for (let slot = first; slot < end; slot++) {
-      const candidate = this.endInSlot[slot]
-      const dx = this.endX[candidate] - x
-      const dy = this.endY[candidate] - y
+      const candidate = this.endInSlot[slot]!
+      const dx = this.endX[candidate]! - x
+      const dy = this.endY[candidate]! - y
       const distanceSquared = dx * dx + dy * dy
       if (distanceSquared < this.bestDistanceSquared || (distanceSquared === this.bestDistanceSquared && candidate < this.bestEnd)) {
         this.bestEnd = candidate
@@ -212,12 +212,12 @@ function improveWithTwoOpt(stops: TourStops, order: Int32Array, startX: number, 
       let moveIn = ends.moveInto(from)
       for (let to = from; to <= last; to++) {
         // The last position's move out is 0 (there is none), so `before` needs no test for it.
-        const worthAfter = moveIn + moveMm[to] - 1e-9
-        const newMoveInX = outX[to] - previousX
-        const newMoveInY = outY[to] - previousY
+        const worthAfter = moveIn + moveMm[to]! - 1e-9
+        const newMoveInX = outX[to]! - previousX
+        const newMoveInY = outY[to]! - previousY
         // `after` is at least the new move in, and mostly that alone is too long already: a squared test (its margin far above rounding) rules those out without a root.
         if (!(worthAfter > 0) || newMoveInX * newMoveInX + newMoveInY * newMoveInY > worthAfter * worthAfter * (1 + 1e-6)) continue
-        const after = distance(newMoveInX, newMoveInY) + (to + 1 < count ? distance(inX[to + 1] - inX[from], inY[to + 1] - inY[from]) : 0)
+        const after = distance(newMoveInX, newMoveInY) + (to + 1 < count ? distance(inX[to + 1]! - inX[from]!, inY[to + 1]! - inY[from]!) : 0)
         if (after < worthAfter) {
           ends.reverseRun(order, from, to)
           moveIn = ends.moveInto(from)
@@ -258,12 +258,12 @@ class TourEnds {
     const count = order.length
     const ends = new TourEnds(new Float64Array(count), new Float64Array(count), new Float64Array(count), new Float64Array(count), new Float64Array(count), Float64Array.of(startX, startY))
     for (let position = 0; position < count; position++) {
-      const entry = order[position]
+      const entry = order[position]!
       const stop = entry >= 0 ? entry : -1 - entry
-      ends.inX[position] = entry >= 0 ? stops.entryX[stop] : stops.exitX[stop]
-      ends.inY[position] = entry >= 0 ? stops.entryY[stop] : stops.exitY[stop]
-      ends.outX[position] = entry >= 0 ? stops.exitX[stop] : stops.entryX[stop]
-      ends.outY[position] = entry >= 0 ? stops.exitY[stop] : stops.entryY[stop]
+      ends.inX[position] = entry >= 0 ? stops.entryX[stop]! : stops.exitX[stop]!
+      ends.inY[position] = entry >= 0 ? stops.entryY[stop]! : stops.exitY[stop]!
+      ends.outX[position] = entry >= 0 ? stops.exitX[stop]! : stops.entryX[stop]!
+      ends.outY[position] = entry >= 0 ? stops.exitY[stop]! : stops.entryY[stop]!
     }
     for (let position = 0; position + 1 < count; position++) ends.measureMove(position)
     return ends
@@ -271,45 +271,45 @@ class TourEnds {
 
   /** Where the head is before position `from`: the exit of the one before it, or the start for the first. */
   previousX(from: number): number {
-    return from > 0 ? this.outX[from - 1] : this.start[0]
+    return from > 0 ? this.outX[from - 1]! : this.start[0]!
   }
 
   previousY(from: number): number {
-    return from > 0 ? this.outY[from - 1] : this.start[1]
+    return from > 0 ? this.outY[from - 1]! : this.start[1]!
   }
 
   /** The move into position `from`. */
   moveInto(from: number): number {
-    return from > 0 ? this.moveMm[from - 1] : distance(this.inX[0] - this.start[0], this.inY[0] - this.start[1])
+    return from > 0 ? this.moveMm[from - 1]! : distance(this.inX[0]! - this.start[0]!, this.inY[0]! - this.start[1]!)
   }
 
   private measureMove(position: number): void {
-    this.moveMm[position] = distance(this.inX[position + 1] - this.outX[position], this.inY[position + 1] - this.outY[position])
+    this.moveMm[position] = distance(this.inX[position + 1]! - this.outX[position]!, this.inY[position + 1]! - this.outY[position]!)
   }
 
   /** Reverses positions from…to: their order flips and each stop there runs the other way. */
   reverseRun(order: Int32Array, from: number, to: number): void {
     const { inX, inY, outX, outY } = this
     for (let left = from, right = to; left <= right; left++, right--) {
-      const leftStop = order[left]
-      order[left] = -1 - order[right]
+      const leftStop = order[left]!
+      order[left] = -1 - order[right]!
       order[right] = -1 - leftStop
-      const leftInX = inX[left]
-      const leftInY = inY[left]
-      const leftOutX = outX[left]
-      const leftOutY = outY[left]
-      inX[left] = outX[right]
-      inY[left] = outY[right]
-      outX[left] = inX[right]
-      outY[left] = inY[right]
+      const leftInX = inX[left]!
+      const leftInY = inY[left]!
+      const leftOutX = outX[left]!
+      const leftOutY = outY[left]!
+      inX[left] = outX[right]!
+      inY[left] = outY[right]!
+      outX[left] = inX[right]!
+      outY[left] = inY[right]!
       inX[right] = leftOutX
       inY[right] = leftOutY
       outX[right] = leftInX
       outY[right] = leftInY
     }
     for (let left = from, right = to - 1; left < right; left++, right--) {
-      const leftMove = this.moveMm[left]
-      this.moveMm[left] = this.moveMm[right]
+      const leftMove = this.moveMm[left]!
+      this.moveMm[left] = this.moveMm[right]!
       this.moveMm[right] = leftMove
     }
     if (from > 0) this.measureMove(from - 1)
@@ -324,14 +324,14 @@ export function tourTravel(stops: TourStops, order: Int32Array, startX: number, 
   let y = startY
   let travelMm = 0
   for (let position = 0; position < order.length; position++) {
-    const entry = order[position]
+    const entry = order[position]!
     const stop = entry >= 0 ? entry : -1 - entry
-    const inX = entry >= 0 ? stops.entryX[stop] : stops.exitX[stop]
-    const inY = entry >= 0 ? stops.entryY[stop] : stops.exitY[stop]
+    const inX = entry >= 0 ? stops.entryX[stop]! : stops.exitX[stop]!
+    const inY = entry >= 0 ? stops.entryY[stop]! : stops.exitY[stop]!
     moveMm[position] = Math.hypot(inX - x, inY - y)
-    travelMm += moveMm[position]
-    x = entry >= 0 ? stops.exitX[stop] : stops.entryX[stop]
-    y = entry >= 0 ? stops.exitY[stop] : stops.entryY[stop]
+    travelMm += moveMm[position]!
+    x = entry >= 0 ? stops.exitX[stop]! : stops.entryX[stop]!
+    y = entry >= 0 ? stops.exitY[stop]! : stops.entryY[stop]!
   }
   return { travelMm, moveMm, endX: x, endY: y }
 }

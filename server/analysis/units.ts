@@ -29,7 +29,7 @@ export function parseAbsoluteLengthMm(value: string | undefined, attributeName: 
     throw new AnalysisInputError('badUnit', `The drawing's ${attributeName}="${shorten(value)}" is not a length Kerfbook understands (use mm, cm, in, pt, pc or px).`)
   }
   const number = parseNumberAttribute(match[1], attributeName, Number.NaN)
-  const unit = match[2].toLowerCase()
+  const unit = match[2]!.toLowerCase()
   if (unit === '%') return undefined
   if (unit === '' || unit === 'px') return number * mmPerPixel(dpi)
   const unitMm = ABSOLUTE_UNIT_MM[unit]
@@ -53,7 +53,7 @@ export function parseUserLength(value: string | undefined, attributeName: string
   if (value === undefined || value.trim() === '') return fallback
   const match = LENGTH_PATTERN.exec(value)
   if (!match) return parseNumberAttribute(value, attributeName, fallback)
-  const unit = match[2].toLowerCase()
+  const unit = match[2]!.toLowerCase()
   if (unit === '' || unit === 'px') return parseNumberAttribute(match[1], attributeName, fallback)
   const number = parseNumberAttribute(match[1], attributeName, fallback)
   if (unit === '%') return percentOf === undefined ? fallback : (number / 100) * percentOf

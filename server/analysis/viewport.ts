@@ -16,7 +16,7 @@ export function parseViewBox(value: string | undefined): ViewBox | undefined {
   if (numbers.length !== 4) {
     throw new AnalysisInputError('badSize', `The drawing's viewBox="${value.slice(0, 40)}" needs exactly four numbers.`)
   }
-  const [x, y, width, height] = numbers
+  const [x, y, width, height] = numbers as [number, number, number, number]
   if (width <= 0 || height <= 0) {
     throw new AnalysisInputError('badSize', 'The drawing\'s viewBox has a zero or negative width or height, so nothing in it can be drawn. Fix the document size in your drawing program.')
   }

@@ -73,7 +73,7 @@ export function parseXmlElements(input: string): XmlNode[] {
 /** svgson's last step: the one <svg> element, an array when there are several, or an XmlTreeError. */
 export function svgRoots(nodes: XmlNode[]): XmlNode | XmlNode[] {
   if (!(nodes.length > 0 && nodes.every((node) => node.name === 'svg'))) throw new XmlTreeError('nothing to parse')
-  return nodes.length === 1 ? nodes[0] : nodes
+  return nodes.length === 1 ? nodes[0]! : nodes
 }
 
 /** xml-lexer and xml-reader over the whole text; the reader's root once it closes. */

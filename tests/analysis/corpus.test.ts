@@ -55,7 +55,7 @@ const dxfBox = (minX: number, minY: number, maxX: number, maxY: number): Box => 
 /** A rectangle rotated by `deg` about its origin corner, then moved (SVG 1.1 §7.5: rotate(a) is [cos a, sin a, −sin a, cos a]). */
 function rotatedRectBox(width: number, height: number, deg: number, moveX: number, moveY: number): Box {
   const a = (deg * Math.PI) / 180
-  const corners = [[0, 0], [width, 0], [width, height], [0, height]].map(([x, y]) => [x * Math.cos(a) - y * Math.sin(a) + moveX, x * Math.sin(a) + y * Math.cos(a) + moveY])
+  const corners = ([[0, 0], [width, 0], [width, height], [0, height]] as const).map(([x, y]): [number, number] => [x * Math.cos(a) - y * Math.sin(a) + moveX, x * Math.sin(a) + y * Math.cos(a) + moveY])
   const xs = corners.map(([x]) => x)
   const ys = corners.map(([, y]) => y)
   return [Math.min(...xs), Math.min(...ys), Math.max(...xs) - Math.min(...xs), Math.max(...ys) - Math.min(...ys)]
@@ -173,14 +173,14 @@ function check(kind: 'svg' | 'dxf', expected: CorpusCase, params: AnalysisParams
   if (expected.box) {
     const boxSlack = expected.boxSlackMm ?? 0.02
     const { x, y, width, height } = result.bbox
-    ;[x, y, width, height].forEach((value, index) => expect(Math.abs(value - expected.box![index]), `box[${index}]: ${value} vs ${expected.box![index]}`).toBeLessThanOrEqual(boxSlack))
+    ;[x, y, width, height].forEach((value, index) => expect(Math.abs(value - expected.box![index]!), `box[${index}]: ${value} vs ${expected.box![index]}`).toBeLessThanOrEqual(boxSlack))
   }
   const codes = result.findingGroups.map((group) => group.code)
   for (const code of expected.codes ?? []) expect(codes).toContain(code)
   if (expected.smallHoleMm !== undefined) {
     const group = result.findingGroups.find((candidate) => candidate.code === 'small-hole')!
     expect(group.count).toBe(1)
-    expect(Math.abs(result.sites.value[group.firstSite] - expected.smallHoleMm)).toBeLessThan(1e-3 * expected.smallHoleMm)
+    expect(Math.abs(result.sites.value[group.firstSite]! - expected.smallHoleMm)).toBeLessThan(1e-3 * expected.smallHoleMm)
   }
 }
 

@@ -26,7 +26,7 @@ function lineCubicLength(v0: number, v1: number, v2: number, v3: number): number
   }
   const stops = [0, ...roots.filter((t) => t > 0 && t < 1).sort((x, y) => x - y), 1]
   let length = 0
-  for (let index = 1; index < stops.length; index++) length += Math.abs(value(stops[index]) - value(stops[index - 1]))
+  for (let index = 1; index < stops.length; index++) length += Math.abs(value(stops[index]!) - value(stops[index - 1]!))
   return length
 }
 
@@ -50,6 +50,9 @@ function parabolaLength(x0: number, y0: number, x1: number, y1: number, x2: numb
   return antiderivative(1) - antiderivative(0)
 }
 
+// x0, y0 … x3, y3 of a cubic.
+type CubicCoordinates = [number, number, number, number, number, number, number, number]
+
 const coordinate = fc.double({ min: -300, max: 300, noNaN: true })
 
 describe('curve length', () => {
@@ -65,8 +68,8 @@ describe('curve length', () => {
     fc.assert(
       fc.property(fc.array(coordinate, { minLength: 4, maxLength: 4 }), fc.double({ min: 0, max: 2 * Math.PI, noNaN: true }), coordinate, coordinate, (values, angle, originX, originY) => {
         const [ux, uy] = [Math.cos(angle), Math.sin(angle)]
-        const [x0, y0, x1, y1, x2, y2, x3, y3] = values.flatMap((value) => [originX + value * ux, originY + value * uy])
-        const expected = lineCubicLength(values[0], values[1], values[2], values[3])
+        const [x0, y0, x1, y1, x2, y2, x3, y3] = values.flatMap((value) => [originX + value * ux, originY + value * uy]) as CubicCoordinates
+        const expected = lineCubicLength(values[0]!, values[1]!, values[2]!, values[3]!)
         expect(Math.abs(cubicLengthMm(x0, y0, x1, y1, x2, y2, x3, y3) - expected)).toBeLessThanOrEqual(1e-9 * (1 + expected))
       }),
       { numRuns: 400 },
@@ -80,7 +83,8 @@ describe('curve length', () => {
 
   it('measures quadratics as the parabola length formula', () => {
     fc.assert(
-      fc.property(fc.array(coordinate, { minLength: 6, maxLength: 6 }), ([x0, y0, x1, y1, x2, y2]) => {
+      fc.property(fc.array(coordinate, { minLength: 6, maxLength: 6 }), (coordinates) => {
+        const [x0, y0, x1, y1, x2, y2] = coordinates as [number, number, number, number, number, number]
         // The formula needs a true parabola: control points well off one line.
         const twiceArea = Math.abs((x1 - x0) * (y2 - y0) - (x2 - x0) * (y1 - y0))
         fc.pre(twiceArea > 1e-3 * ((x2 - x0) ** 2 + (y2 - y0) ** 2 + (x1 - x0) ** 2 + (y1 - y0) ** 2) && twiceArea > 1)

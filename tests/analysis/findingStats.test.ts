@@ -18,8 +18,8 @@ function reference(values: number[]): FindingStats {
   const counts = new Array<number>(bins).fill(0)
   for (const value of values) {
     let bin = 0
-    while (bin < bins - 1 && value >= edges[bin + 1]) bin++
-    counts[bin]++
+    while (bin < bins - 1 && value >= edges[bin + 1]!) bin++
+    counts[bin]!++
   }
   return { min: low, median: median(values), max: high, histogram: { fromMm: low, toMm: high, counts } }
 }

@@ -43,7 +43,7 @@ describe('lengths and areas against closed forms', () => {
           .map(([angle, radius]) => [250 + radius * Math.cos(angle), 250 + radius * Math.sin(angle)] as const)
         let twiceArea = 0
         points.forEach(([x, y], index) => {
-          const [nextX, nextY] = points[(index + 1) % points.length]
+          const [nextX, nextY] = points[(index + 1) % points.length]!
           twiceArea += x * nextY - nextX * y
         })
         fc.pre(Math.abs(twiceArea) > 2)
@@ -102,9 +102,9 @@ describe('lengths and areas against closed forms', () => {
  */
 function cubicLengthBounds(c: number[], pieces: number): { lowerMm: number; upperMm: number } {
   const blossom = (u: number, v: number, w: number, axis: number) => {
-    let points = [c[axis], c[axis + 2], c[axis + 4], c[axis + 6]]
-    for (const t of [u, v, w]) points = points.slice(1).map((point, index) => (1 - t) * points[index] + t * point)
-    return points[0]
+    let points = [c[axis]!, c[axis + 2]!, c[axis + 4]!, c[axis + 6]!]
+    for (const t of [u, v, w]) points = points.slice(1).map((point, index) => (1 - t) * points[index]! + t * point)
+    return points[0]!
   }
   const point = (u: number, v: number, w: number) => [blossom(u, v, w, 0), blossom(u, v, w, 1)] as const
   let lowerMm = 0
@@ -112,8 +112,8 @@ function cubicLengthBounds(c: number[], pieces: number): { lowerMm: number; uppe
   for (let piece = 0; piece < pieces; piece++) {
     const [t0, t1] = [piece / pieces, (piece + 1) / pieces]
     const controls = [point(t0, t0, t0), point(t0, t0, t1), point(t0, t1, t1), point(t1, t1, t1)]
-    lowerMm += Math.hypot(controls[3][0] - controls[0][0], controls[3][1] - controls[0][1])
-    for (let side = 1; side < 4; side++) upperMm += Math.hypot(controls[side][0] - controls[side - 1][0], controls[side][1] - controls[side - 1][1])
+    lowerMm += Math.hypot(controls[3]![0] - controls[0]![0], controls[3]![1] - controls[0]![1])
+    for (let side = 1; side < 4; side++) upperMm += Math.hypot(controls[side]![0] - controls[side - 1]![0], controls[side]![1] - controls[side - 1]![1])
   }
   return { lowerMm, upperMm }
 }

@@ -47,8 +47,8 @@ function svgpathSteps(data: string, matrix?: number[]): Array<{ x: number; y: nu
       steps.push({ x, y, close: true })
       continue
     }
-    if (name === 'H') x = segment[1]
-    else if (name === 'V') y = segment[1]
+    if (name === 'H') x = segment[1]!
+    else if (name === 'V') y = segment[1]!
     else {
       x = segment[segment.length - 2] as number
       y = segment[segment.length - 1] as number
@@ -63,11 +63,11 @@ function svgpathSteps(data: string, matrix?: number[]): Array<{ x: number; y: nu
 }
 
 function scannedSteps(steps: PathSteps, matrix?: number[]): Array<{ x: number; y: number; curve?: Segment; close?: boolean }> {
-  const [a, b, c, d, e, f] = matrix ?? [1, 0, 0, 1, 0, 0]
+  const [a, b, c, d, e, f] = (matrix ?? [1, 0, 0, 1, 0, 0]) as [number, number, number, number, number, number]
   let curve = 0
   return Array.from({ length: steps.count }, (_, step) => {
-    const userX = steps.x[step]
-    const userY = steps.y[step]
+    const userX = steps.x[step]!
+    const userY = steps.y[step]!
     const x = matrix ? userX * a + userY * c + e : userX
     const y = matrix ? userX * b + userY * d + f : userY
     if (steps.kind[step] === STEP_CLOSE) return { x, y, close: true }
@@ -77,7 +77,7 @@ function scannedSteps(steps: PathSteps, matrix?: number[]): Array<{ x: number; y
 
 /** A curve of the scanner's flat storage in svgpath's segment form: the command, then its numbers. */
 function curveSegment(steps: PathSteps, curve: number): Segment {
-  const command = String.fromCharCode(steps.curveCommand[curve])
+  const command = String.fromCharCode(steps.curveCommand[curve]!)
   const count = { C: 6, Q: 4, A: 7 }[command]!
   const offset = curve * CURVE_STRIDE
   return [command, ...steps.curveNumbers.subarray(offset, offset + count)]
@@ -94,9 +94,9 @@ describe('the path data scanner reads what svgpath reads', () => {
         const scanned = scannedSteps(steps)
         expect(scanned.length).toBe(expected.length)
         scanned.forEach((step, index) => {
-          expect(step.x == expected[index].x && step.y == expected[index].y).toBe(true)
-          expect(step.close ?? false).toBe(expected[index].close ?? false)
-          expect(step.curve?.map(String)).toEqual(expected[index].curve?.map(String))
+          expect(step.x == expected[index]!.x && step.y == expected[index]!.y).toBe(true)
+          expect(step.close ?? false).toBe(expected[index]!.close ?? false)
+          expect(step.curve?.map(String)).toEqual(expected[index]!.curve?.map(String))
         })
       }),
       { numRuns: 400 },
@@ -113,7 +113,7 @@ describe('the path data scanner reads what svgpath reads', () => {
         const expected = svgpathSteps(data, values)
         const scanned = scannedSteps(steps, values)
         expect(scanned.length).toBe(expected.length)
-        scanned.forEach((step, index) => expect(step.x == expected[index].x && step.y == expected[index].y).toBe(true))
+        scanned.forEach((step, index) => expect(step.x == expected[index]!.x && step.y == expected[index]!.y).toBe(true))
       }),
       { numRuns: 400 },
     )

@@ -14,8 +14,8 @@ function exhaustiveNearestNeighbourTravel(stops: TourStops, count: number, start
     let bestSquared = Infinity
     for (let end = 0; end < 2 * count; end++) {
       if (toured[end >> 1]) continue
-      const endX = end & 1 ? stops.exitX[end >> 1] : stops.entryX[end >> 1]
-      const endY = end & 1 ? stops.exitY[end >> 1] : stops.entryY[end >> 1]
+      const endX = end & 1 ? stops.exitX[end >> 1]! : stops.entryX[end >> 1]!
+      const endY = end & 1 ? stops.exitY[end >> 1]! : stops.entryY[end >> 1]!
       const squared = (endX - x) ** 2 + (endY - y) ** 2
       if (squared < bestSquared) {
         best = end
@@ -24,8 +24,8 @@ function exhaustiveNearestNeighbourTravel(stops: TourStops, count: number, start
     }
     toured[best >> 1] = 1
     travelMm += Math.sqrt(bestSquared)
-    x = best & 1 ? stops.entryX[best >> 1] : stops.exitX[best >> 1]
-    y = best & 1 ? stops.entryY[best >> 1] : stops.exitY[best >> 1]
+    x = best & 1 ? stops.entryX[best >> 1]! : stops.exitX[best >> 1]!
+    y = best & 1 ? stops.entryY[best >> 1]! : stops.exitY[best >> 1]!
   }
   return travelMm
 }

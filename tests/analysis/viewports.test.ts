@@ -9,7 +9,7 @@ const TOLERANCE_MM = 1e-6
 
 function expectBox(svg: string, x: number, y: number, width: number, height: number, lengthMm: number) {
   const result = analyze(svg)
-  for (const [actual, expected] of [[result.bbox.x, x], [result.bbox.y, y], [result.bbox.width, width], [result.bbox.height, height], [result.cut.lengthMm, lengthMm]]) {
+  for (const [actual, expected] of [[result.bbox.x, x], [result.bbox.y, y], [result.bbox.width, width], [result.bbox.height, height], [result.cut.lengthMm, lengthMm]] as [number, number][]) {
     expect(Math.abs(actual - expected)).toBeLessThan(TOLERANCE_MM)
   }
 }

@@ -27,10 +27,10 @@ export class BoxGrid {
     let maxX = -Infinity
     let maxY = -Infinity
     for (let box = 0; box < count; box++) {
-      minX = Math.min(minX, boxes[4 * box])
-      minY = Math.min(minY, boxes[4 * box + 1])
-      maxX = Math.max(maxX, boxes[4 * box + 2])
-      maxY = Math.max(maxY, boxes[4 * box + 3])
+      minX = Math.min(minX, boxes[4 * box]!)
+      minY = Math.min(minY, boxes[4 * box + 1]!)
+      maxX = Math.max(maxX, boxes[4 * box + 2]!)
+      maxY = Math.max(maxY, boxes[4 * box + 3]!)
     }
     if (!Number.isFinite(maxX - minX) || !Number.isFinite(maxY - minY)) return null
     // A sparse drawing gets larger cells, so there are never many more cells than boxes.
@@ -65,12 +65,12 @@ export class BoxGrid {
     for (let row = this.row(minY); row <= lastRow; row++) {
       for (let column = firstColumn; column <= lastColumn; column++) {
         const cell = row * this.columns + column
-        for (let entry = cellStart[cell]; entry < cellStart[cell + 1]; entry++) {
-          const box = entries[entry]
+        for (let entry = cellStart[cell]!; entry < cellStart[cell + 1]!; entry++) {
+          const box = entries[entry]!
           if (lastQuery[box] === query) continue
           lastQuery[box] = query
           const b = 4 * box
-          if (boxes[b] <= maxX && boxes[b + 1] <= maxY && boxes[b + 2] >= minX && boxes[b + 3] >= minY) visit(box)
+          if (boxes[b]! <= maxX && boxes[b + 1]! <= maxY && boxes[b + 2]! >= minX && boxes[b + 3]! >= minY) visit(box)
         }
       }
     }
@@ -84,29 +84,29 @@ export class BoxGrid {
     const span = new Int32Array(4 * count)
     let total = 0
     for (let box = 0; box < count; box++) {
-      span[4 * box] = this.column(boxes[4 * box])
-      span[4 * box + 1] = this.row(boxes[4 * box + 1])
-      span[4 * box + 2] = this.column(boxes[4 * box + 2])
-      span[4 * box + 3] = this.row(boxes[4 * box + 3])
-      total += (span[4 * box + 2] - span[4 * box] + 1) * (span[4 * box + 3] - span[4 * box + 1] + 1)
+      span[4 * box] = this.column(boxes[4 * box]!)
+      span[4 * box + 1] = this.row(boxes[4 * box + 1]!)
+      span[4 * box + 2] = this.column(boxes[4 * box + 2]!)
+      span[4 * box + 3] = this.row(boxes[4 * box + 3]!)
+      total += (span[4 * box + 2]! - span[4 * box]! + 1) * (span[4 * box + 3]! - span[4 * box + 1]! + 1)
     }
     if (total > ENTRIES_PER_BOX * count) return false
     const cellOfEntry = new Uint32Array(total)
     const boxOfEntry = new Uint32Array(total)
     let entry = 0
     for (let box = 0; box < count; box++) {
-      for (let row = span[4 * box + 1]; row <= span[4 * box + 3]; row++) {
-        for (let column = span[4 * box]; column <= span[4 * box + 2]; column++, entry++) {
+      for (let row = span[4 * box + 1]!; row <= span[4 * box + 3]!; row++) {
+        for (let column = span[4 * box]!; column <= span[4 * box + 2]!; column++, entry++) {
           cellOfEntry[entry] = row * columns + column
           boxOfEntry[entry] = box
         }
       }
     }
-    for (entry = 0; entry < total; entry++) cellStart[cellOfEntry[entry] + 1]++
-    for (let cell = 0; cell < columns * this.rows; cell++) cellStart[cell + 1] += cellStart[cell]
+    for (entry = 0; entry < total; entry++) cellStart[cellOfEntry[entry]! + 1]!++
+    for (let cell = 0; cell < columns * this.rows; cell++) cellStart[cell + 1]! += cellStart[cell]!
     const filled = cellStart.slice(0, -1)
     this.entries = new Uint32Array(total)
-    for (entry = 0; entry < total; entry++) this.entries[filled[cellOfEntry[entry]]++] = boxOfEntry[entry]
+    for (entry = 0; entry < total; entry++) this.entries[filled[cellOfEntry[entry]!]!++] = boxOfEntry[entry]!
     return true
   }
 

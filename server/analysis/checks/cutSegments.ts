@@ -72,21 +72,21 @@ export class CutSegments {
       let chunkMinY = Infinity
       let chunkMaxX = -Infinity
       let chunkMaxY = -Infinity
-      for (let point = start[id]; point < start[id + 1] - 1; point++, segment++) {
+      for (let point = start[id]!; point < start[id + 1]! - 1; point++, segment++) {
         this.firstPoint[segment] = point
         this.contourOf[segment] = id
-        const minX = Math.min(xy[2 * point], xy[2 * point + 2])
-        const minY = Math.min(xy[2 * point + 1], xy[2 * point + 3])
-        const maxX = Math.max(xy[2 * point], xy[2 * point + 2])
-        const maxY = Math.max(xy[2 * point + 1], xy[2 * point + 3])
+        const minX = Math.min(xy[2 * point]!, xy[2 * point + 2]!)
+        const minY = Math.min(xy[2 * point + 1]!, xy[2 * point + 3]!)
+        const maxX = Math.max(xy[2 * point]!, xy[2 * point + 2]!)
+        const maxY = Math.max(xy[2 * point + 1]!, xy[2 * point + 3]!)
         this.box[4 * segment] = minX
         this.box[4 * segment + 1] = minY
         this.box[4 * segment + 2] = maxX
         this.box[4 * segment + 3] = maxY
-        this.alongMm[point + 1] = this.alongMm[point] + Math.hypot(xy[2 * point + 2] - xy[2 * point], xy[2 * point + 3] - xy[2 * point + 1])
+        this.alongMm[point + 1] = this.alongMm[point]! + Math.hypot(xy[2 * point + 2]! - xy[2 * point]!, xy[2 * point + 3]! - xy[2 * point + 1]!)
         const startsChunk =
           point === start[id] ||
-          segment - chunkStart[chunkCount - 1] >= SEGMENTS_PER_CHUNK ||
+          segment - chunkStart[chunkCount - 1]! >= SEGMENTS_PER_CHUNK ||
           Math.max(Math.max(chunkMaxX, maxX) - Math.min(chunkMinX, minX), Math.max(chunkMaxY, maxY) - Math.min(chunkMinY, minY)) > CHUNK_SIDE_MM
         if (startsChunk) {
           if (point !== start[id]) setBox(chunkBoxes, chunkCount - 1, chunkMinX, chunkMinY, chunkMaxX, chunkMaxY)
@@ -103,7 +103,7 @@ export class CutSegments {
         }
         this.chunkOf[segment] = chunkCount - 1
       }
-      if (start[id + 1] - start[id] > 1) setBox(chunkBoxes, chunkCount - 1, chunkMinX, chunkMinY, chunkMaxX, chunkMaxY)
+      if (start[id + 1]! - start[id]! > 1) setBox(chunkBoxes, chunkCount - 1, chunkMinX, chunkMinY, chunkMaxX, chunkMaxY)
     }
     chunkStart[chunkCount] = this.count
     this.chunkStart = chunkStart.subarray(0, chunkCount + 1)
@@ -145,9 +145,9 @@ export class CutSegments {
     for (let chunk = 0; chunk < this.chunkCount; chunk++) {
       from[chunk] = filled
       const near = grownBox(boxes, chunk, reachMm, nearBox)
-      if (grid === null) this.index()!.search(near[0], near[1], near[2], near[3], keep)
-      else grid.forEachMeeting(near[0], near[1], near[2], near[3], keep)
-      sortInPlace(chunks, from[chunk], filled)
+      if (grid === null) this.index()!.search(near[0]!, near[1]!, near[2]!, near[3]!, keep)
+      else grid.forEachMeeting(near[0]!, near[1]!, near[2]!, near[3]!, keep)
+      sortInPlace(chunks, from[chunk]!, filled)
     }
     from[this.chunkCount] = filled
     return { reachMm, from, chunks: chunks.subarray(0, filled) }
@@ -157,8 +157,8 @@ export class CutSegments {
   forEachNear(minX: number, minY: number, maxX: number, maxY: number, visit: (segment: number) => void): void {
     const { box, chunkStart } = this
     this.index()?.search(minX, minY, maxX, maxY, (chunk) => {
-      for (let segment = chunkStart[chunk]; segment < chunkStart[chunk + 1]; segment++) {
-        if (box[4 * segment] <= maxX && box[4 * segment + 1] <= maxY && box[4 * segment + 2] >= minX && box[4 * segment + 3] >= minY) visit(segment)
+      for (let segment = chunkStart[chunk]!; segment < chunkStart[chunk + 1]!; segment++) {
+        if (box[4 * segment]! <= maxX && box[4 * segment + 1]! <= maxY && box[4 * segment + 2]! >= minX && box[4 * segment + 3]! >= minY) visit(segment)
       }
       return false
     })
@@ -169,11 +169,11 @@ export class CutSegments {
     const { xy, start } = this.contours
     const closest = emptyClosestPoints()
     let found = false
-    for (let point = start[contour]; point < start[contour + 1] - 1 && !found; point++) {
-      const near = [Math.min(xy[2 * point], xy[2 * point + 2]) - reachMm, Math.min(xy[2 * point + 1], xy[2 * point + 3]) - reachMm, Math.max(xy[2 * point], xy[2 * point + 2]) + reachMm, Math.max(xy[2 * point + 1], xy[2 * point + 3]) + reachMm]
-      this.forEachNear(near[0], near[1], near[2], near[3], (segment) => {
-        if (found || !others(this.contourOf[segment])) return
-        found = closestPointsAt(xy, 2 * point, 2 * this.firstPoint[segment], closest).distanceMm <= reachMm
+    for (let point = start[contour]!; point < start[contour + 1]! - 1 && !found; point++) {
+      const near = [Math.min(xy[2 * point]!, xy[2 * point + 2]!) - reachMm, Math.min(xy[2 * point + 1]!, xy[2 * point + 3]!) - reachMm, Math.max(xy[2 * point]!, xy[2 * point + 2]!) + reachMm, Math.max(xy[2 * point + 1]!, xy[2 * point + 3]!) + reachMm]
+      this.forEachNear(near[0]!, near[1]!, near[2]!, near[3]!, (segment) => {
+        if (found || !others(this.contourOf[segment]!)) return
+        found = closestPointsAt(xy, 2 * point, 2 * this.firstPoint[segment]!, closest).distanceMm <= reachMm
       })
     }
     return found
@@ -181,9 +181,9 @@ export class CutSegments {
 
   /** [ax, ay, bx, by] of a segment. */
   ends(segment: number): [number, number, number, number] {
-    const offset = 2 * this.firstPoint[segment]
+    const offset = 2 * this.firstPoint[segment]!
     const { xy } = this.contours
-    return [xy[offset], xy[offset + 1], xy[offset + 2], xy[offset + 3]]
+    return [xy[offset]!, xy[offset + 1]!, xy[offset + 2]!, xy[offset + 3]!]
   }
 
   /** Segments of one contour that follow each other, including a closed contour's last and first. */
@@ -199,24 +199,24 @@ export class CutSegments {
    */
   alongBetweenMm(a: number, b: number, closest: ClosestPoints): number {
     const direct = Math.abs(this.alongAt(a, closest.u) - this.alongAt(b, closest.v))
-    const contour = this.contourOf[a]
+    const contour = this.contourOf[a]!
     if (this.contours.closed[contour] !== 1) return direct
-    const perimeter = this.alongMm[this.contours.start[contour + 1] - 1]
+    const perimeter = this.alongMm[this.contours.start[contour + 1]! - 1]!
     return Math.min(direct, perimeter - direct)
   }
 
   /** An upper bound of `alongBetweenMm` over all points of two segments of one contour, first < second. */
   farthestAlongMm(first: number, second: number): number {
-    const farthest = this.alongMm[this.firstPoint[second] + 1] - this.alongMm[this.firstPoint[first]]
-    const contour = this.contourOf[first]
+    const farthest = this.alongMm[this.firstPoint[second]! + 1]! - this.alongMm[this.firstPoint[first]!]!
+    const contour = this.contourOf[first]!
     if (this.contours.closed[contour] !== 1) return farthest
-    const nearest = this.alongMm[this.firstPoint[second]] - this.alongMm[this.firstPoint[first] + 1]
-    return Math.min(farthest, this.alongMm[this.contours.start[contour + 1] - 1] - nearest)
+    const nearest = this.alongMm[this.firstPoint[second]!]! - this.alongMm[this.firstPoint[first]! + 1]!
+    return Math.min(farthest, this.alongMm[this.contours.start[contour + 1]! - 1]! - nearest)
   }
 
   private alongAt(segment: number, parameter: number): number {
-    const point = this.firstPoint[segment]
-    return this.alongMm[point] + parameter * (this.alongMm[point + 1] - this.alongMm[point])
+    const point = this.firstPoint[segment]!
+    return this.alongMm[point]! + parameter * (this.alongMm[point + 1]! - this.alongMm[point]!)
   }
 
   /** A closed cut whose inside drops out. */
@@ -234,27 +234,27 @@ export class CutSegments {
    * reflex corner of either.
    */
   pointsIntoMaterial(segment: number, closest: ClosestPoints, isFirst: boolean): boolean {
-    const side = this.materialSide[this.contourOf[segment]]
+    const side = this.materialSide[this.contourOf[segment]!]!
     if (side === 0) return true
     const onThisSide = this.materialSideOf(segment, side, closest, isFirst)
     const t = isFirst ? closest.u : closest.v
-    const neighbour = t === 0 ? this.previousOf[segment] : t === 1 ? this.nextOf[segment] : -1
+    const neighbour = t === 0 ? this.previousOf[segment]! : t === 1 ? this.nextOf[segment]! : -1
     if (neighbour < 0) return onThisSide
     const onNeighbourSide = this.materialSideOf(neighbour, side, closest, isFirst)
-    const incoming = 2 * this.firstPoint[t === 0 ? neighbour : segment]
-    const outgoing = 2 * this.firstPoint[t === 0 ? segment : neighbour]
+    const incoming = 2 * this.firstPoint[t === 0 ? neighbour : segment]!
+    const outgoing = 2 * this.firstPoint[t === 0 ? segment : neighbour]!
     const { xy } = this.contours
-    const turn = (xy[incoming + 2] - xy[incoming]) * (xy[outgoing + 3] - xy[outgoing + 1]) - (xy[incoming + 3] - xy[incoming + 1]) * (xy[outgoing + 2] - xy[outgoing])
+    const turn = (xy[incoming + 2]! - xy[incoming]!) * (xy[outgoing + 3]! - xy[outgoing + 1]!) - (xy[incoming + 3]! - xy[incoming + 1]!) * (xy[outgoing + 2]! - xy[outgoing]!)
     return side * turn > 0 ? onThisSide && onNeighbourSide : onThisSide || onNeighbourSide
   }
 
   private materialSideOf(segment: number, side: number, closest: ClosestPoints, fromP: boolean): boolean {
     const dx = fromP ? closest.qx - closest.px : closest.px - closest.qx
     const dy = fromP ? closest.qy - closest.py : closest.py - closest.qy
-    const point = 2 * this.firstPoint[segment]
+    const point = 2 * this.firstPoint[segment]!
     const { xy } = this.contours
-    const alongX = xy[point + 2] - xy[point]
-    const alongY = xy[point + 3] - xy[point + 1]
+    const alongX = xy[point + 2]! - xy[point]!
+    const alongY = xy[point + 3]! - xy[point + 1]!
     const sideCross = side * (alongX * dy - alongY * dx)
     // The slack is never positive, so a non-negative cross product passes without the two lengths.
     return sideCross >= 0 || sideCross >= -ALONG_THE_CUT_RELATIVE * Math.hypot(alongX, alongY) * Math.hypot(dx, dy)
@@ -271,10 +271,10 @@ function sortInPlace(values: Uint32Array, from: number, to: number): void {
     return
   }
   for (let index = from + 1; index < to; index++) {
-    const value = values[index]
+    const value = values[index]!
     let slot = index
-    while (slot > from && values[slot - 1] > value) {
-      values[slot] = values[slot - 1]
+    while (slot > from && values[slot - 1]! > value) {
+      values[slot] = values[slot - 1]!
       slot--
     }
     values[slot] = value
@@ -309,7 +309,7 @@ function linkAlongContour(previousOf: Int32Array, nextOf: Int32Array, first: num
 
 function boxTree(boxes: Float64Array, count: number): Flatbush {
   const tree = new Flatbush(count)
-  for (let box = 0; box < count; box++) tree.add(boxes[4 * box], boxes[4 * box + 1], boxes[4 * box + 2], boxes[4 * box + 3])
+  for (let box = 0; box < count; box++) tree.add(boxes[4 * box]!, boxes[4 * box + 1]!, boxes[4 * box + 2], boxes[4 * box + 3])
   tree.finish()
   return tree
 }
@@ -323,10 +323,10 @@ function setBox(boxes: Float64Array, index: number, minX: number, minY: number, 
 
 /** Box `index` of a flat box array grown by `marginMm` on every side, written into `out` (the caller's, reused across a loop). */
 export function grownBox(boxes: Float64Array, index: number, marginMm: number, out: Float64Array): Float64Array {
-  out[0] = boxes[4 * index] - marginMm
-  out[1] = boxes[4 * index + 1] - marginMm
-  out[2] = boxes[4 * index + 2] + marginMm
-  out[3] = boxes[4 * index + 3] + marginMm
+  out[0] = boxes[4 * index]! - marginMm
+  out[1] = boxes[4 * index + 1]! - marginMm
+  out[2] = boxes[4 * index + 2]! + marginMm
+  out[3] = boxes[4 * index + 3]! + marginMm
   return out
 }
 
@@ -358,24 +358,24 @@ function materialSides(geometry: CheckGeometry, cutIds: number[], comesWithin: (
   const closedIds = cutIds.filter((id) => contours.closed[id] === 1)
   if (closedIds.length === 0) return sides
   const { parentOf, depth } = cutNesting(geometry)
-  const isLoose = (id: number) => contours.closed[id] === 0 && parentOf[id] < 0
+  const isLoose = (id: number) => contours.closed[id] === 0 && parentOf[id]! < 0
   const looseBox = boxOf(geometry, cutIds.filter(isLoose))
   const inUndrawnSheet = new Map<number, boolean>()
   const isInUndrawnSheet = (outermost: number): boolean => {
     if (looseBox === null) return false
     let inSheet = inUndrawnSheet.get(outermost)
     if (inSheet === undefined) {
-      const middleX = (bounds[4 * outermost] + bounds[4 * outermost + 2]) / 2
-      const middleY = (bounds[4 * outermost + 1] + bounds[4 * outermost + 3]) / 2
-      inSheet = (middleX >= looseBox[0] && middleY >= looseBox[1] && middleX <= looseBox[2] && middleY <= looseBox[3]) || comesWithin(outermost, isLoose)
+      const middleX = (bounds[4 * outermost]! + bounds[4 * outermost + 2]!) / 2
+      const middleY = (bounds[4 * outermost + 1]! + bounds[4 * outermost + 3]!) / 2
+      inSheet = (middleX >= looseBox[0]! && middleY >= looseBox[1]! && middleX <= looseBox[2]! && middleY <= looseBox[3]!) || comesWithin(outermost, isLoose)
       inUndrawnSheet.set(outermost, inSheet)
     }
     return inSheet
   }
   for (const id of closedIds) {
     let outermost = id
-    while (parentOf[outermost] >= 0) outermost = parentOf[outermost]
-    const insideIsMaterial = (depth[id] + (isInUndrawnSheet(outermost) ? 1 : 0)) % 2 === 0
+    while (parentOf[outermost]! >= 0) outermost = parentOf[outermost]!
+    const insideIsMaterial = (depth[id]! + (isInUndrawnSheet(outermost) ? 1 : 0)) % 2 === 0
     // A positive shoelace area means the inside is where cross(direction, offset) > 0.
     sides[id] = Math.sign(contours.signedArea(id)) * (insideIsMaterial ? 1 : -1)
   }
@@ -386,12 +386,12 @@ function materialSides(geometry: CheckGeometry, cutIds: number[], comesWithin: (
 function boxOf({ bounds }: CheckGeometry, ids: number[]): Float64Array | null {
   const box = new Float64Array([Infinity, Infinity, -Infinity, -Infinity])
   for (const id of ids) {
-    box[0] = Math.min(box[0], bounds[4 * id])
-    box[1] = Math.min(box[1], bounds[4 * id + 1])
-    box[2] = Math.max(box[2], bounds[4 * id + 2])
-    box[3] = Math.max(box[3], bounds[4 * id + 3])
+    box[0] = Math.min(box[0]!, bounds[4 * id]!)
+    box[1] = Math.min(box[1]!, bounds[4 * id + 1]!)
+    box[2] = Math.max(box[2]!, bounds[4 * id + 2]!)
+    box[3] = Math.max(box[3]!, bounds[4 * id + 3]!)
   }
-  return box[0] <= box[2] ? box : null
+  return box[0]! <= box[2]! ? box : null
 }
 
 /** How far apart two cuts may be and still leave too narrow a web between them. */

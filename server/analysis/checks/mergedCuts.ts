@@ -19,10 +19,10 @@ export function checkMergedCuts(geometry: CheckGeometry, params: AnalysisParams,
   const { touch, scrap } = NEAR_KIND
   const closestOfPair = new Map<number, number>()
   for (let slot = 0; slot < nearCuts.count; slot++) {
-    if (nearCuts.sameContour[slot] === 1 || !(kind[slot] === touch || (kind[slot] === scrap && distanceMm[slot] <= params.kerfMm))) continue
-    const key = contourPairKey(segments.contours, segments.contourOf[nearCuts.first[slot]], segments.contourOf[nearCuts.second[slot]])
+    if (nearCuts.sameContour[slot] === 1 || !(kind[slot] === touch || (kind[slot] === scrap && distanceMm[slot]! <= params.kerfMm))) continue
+    const key = contourPairKey(segments.contours, segments.contourOf[nearCuts.first[slot]!]!, segments.contourOf[nearCuts.second[slot]!]!)
     const best = closestOfPair.get(key)
-    if (best === undefined || distanceMm[slot] < distanceMm[best]) closestOfPair.set(key, slot)
+    if (best === undefined || distanceMm[slot]! < distanceMm[best]!) closestOfPair.set(key, slot)
   }
   const facts = { kerfMm: params.kerfMm }
   // Crossing or meeting centre lines, or within the kerf across the piece that drops out.
@@ -31,6 +31,6 @@ export function checkMergedCuts(geometry: CheckGeometry, params: AnalysisParams,
   for (const slot of closestOfPair.values()) {
     const { px, py, qx, qy } = nearCuts.closest(slot)
     const sites = kind[slot] === touch ? touching : withinKerf
-    sites.add((px + qx) / 2, (py + qy) / 2, distanceMm[slot] - params.kerfMm, segments.contourOf[nearCuts.first[slot]], segments.contourOf[nearCuts.second[slot]])
+    sites.add((px + qx) / 2, (py + qy) / 2, distanceMm[slot]! - params.kerfMm, segments.contourOf[nearCuts.first[slot]!], segments.contourOf[nearCuts.second[slot]!])
   }
 }

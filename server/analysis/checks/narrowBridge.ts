@@ -17,29 +17,29 @@ export function checkNarrowBridges(geometry: CheckGeometry, params: AnalysisPara
   const nearCuts = nearCutsOf(geometry, params)
   const { neighbours } = pairScanOf(geometry, params)
   const web = NEAR_KIND.web
-  const narrow = nearCuts.filter((slot) => nearCuts.kind[slot] === web && nearCuts.distanceMm[slot] - params.kerfMm < params.minBridgeMm)
+  const narrow = nearCuts.filter((slot) => nearCuts.kind[slot] === web && nearCuts.distanceMm[slot]! - params.kerfMm < params.minBridgeMm)
   const { distanceMm } = narrow
   const siteOf = bridgeSites(segments, narrow)
   // Sites in the order their first pair comes, each with its narrowest pair (the first of equally narrow ones).
   const sites: number[] = []
   const narrowestOfSite = new Int32Array(narrow.count).fill(-1)
   for (let slot = 0; slot < narrow.count; slot++) {
-    const site = siteOf[slot]
-    const best = narrowestOfSite[site]
+    const site = siteOf[slot]!
+    const best = narrowestOfSite[site]!
     if (best < 0) sites.push(site)
-    if (best < 0 || distanceMm[slot] < distanceMm[best]) narrowestOfSite[site] = slot
+    if (best < 0 || distanceMm[slot]! < distanceMm[best]!) narrowestOfSite[site] = slot
   }
   // Usually the narrowest pair of a site is unscreened; only sites where it is not need their other pairs, widest last.
   const screenedSite = new Uint8Array(narrow.count)
   let screenedCount = 0
   for (const site of sites) {
-    if (!isScreened(segments, neighbours, narrow, narrowestOfSite[site], params.chainToleranceMm)) continue
+    if (!isScreened(segments, neighbours, narrow, narrowestOfSite[site]!, params.chainToleranceMm)) continue
     screenedSite[site] = 1
     screenedCount++
   }
   const othersOfScreened = new Map<number, number[]>()
   for (let slot = 0; slot < narrow.count && screenedCount > 0; slot++) {
-    const site = siteOf[slot]
+    const site = siteOf[slot]!
     if (screenedSite[site] === 0) continue
     const others = othersOfScreened.get(site)
     if (others === undefined) othersOfScreened.set(site, [slot])
@@ -48,14 +48,14 @@ export function checkNarrowBridges(geometry: CheckGeometry, params: AnalysisPara
   const reported: number[] = []
   for (const site of sites) {
     if (screenedSite[site] === 0) {
-      reported.push(narrowestOfSite[site])
+      reported.push(narrowestOfSite[site]!)
       continue
     }
-    const unscreened = othersOfScreened.get(site)!.sort((a, b) => distanceMm[a] - distanceMm[b]).find((other) => !isScreened(segments, neighbours, narrow, other, params.chainToleranceMm))
+    const unscreened = othersOfScreened.get(site)!.sort((a, b) => distanceMm[a]! - distanceMm[b]!).find((other) => !isScreened(segments, neighbours, narrow, other, params.chainToleranceMm))
     if (unscreened !== undefined) reported.push(unscreened)
   }
   const groups = bridgeGroups(findings, params)
-  for (const slot of reported.sort((a, b) => distanceMm[a] - distanceMm[b])) addBridgeSite(narrow, slot, segments.contourOf, params, groups)
+  for (const slot of reported.sort((a, b) => distanceMm[a]! - distanceMm[b]!)) addBridgeSite(narrow, slot, segments.contourOf, params, groups)
 }
 
 /**
@@ -69,43 +69,43 @@ export function checkNarrowBridges(geometry: CheckGeometry, params: AnalysisPara
 function bridgeSites(segments: CutSegments, narrow: NearCutList): Int32Array {
   const { first: firstOf, second: secondOf } = narrow
   const rowStart = new Int32Array(segments.count + 1)
-  for (let slot = 0; slot < narrow.count; slot++) rowStart[firstOf[slot] + 1]++
-  for (let segment = 0; segment < segments.count; segment++) rowStart[segment + 1] += rowStart[segment]
+  for (let slot = 0; slot < narrow.count; slot++) rowStart[firstOf[slot]! + 1]!++
+  for (let segment = 0; segment < segments.count; segment++) rowStart[segment + 1]! += rowStart[segment]!
   const laterSlotOfPair = (slot: number, a: number, b: number) => {
     const first = Math.min(a, b)
     const second = Math.max(a, b)
-    if (first < firstOf[slot] || (first === firstOf[slot] && second <= secondOf[slot])) return -1
-    const end = rowStart[first + 1]
-    let low = rowStart[first]
-    while (low < end && secondOf[low] < second) low++
+    if (first < firstOf[slot]! || (first === firstOf[slot] && second <= secondOf[slot]!)) return -1
+    const end = rowStart[first + 1]!
+    let low = rowStart[first]!
+    while (low < end && secondOf[low]! < second) low++
     return low < end && secondOf[low] === second ? low : -1
   }
   const parent = new Int32Array(narrow.count)
   for (let slot = 0; slot < narrow.count; slot++) parent[slot] = slot
   const find = (slot: number): number => {
-    while (parent[slot] !== slot) slot = parent[slot] = parent[parent[slot]]
+    while (parent[slot] !== slot) slot = parent[slot] = parent[parent[slot]!]!
     return slot
   }
   const { previousOf, nextOf } = segments
   const firstSides = new Int32Array(3)
   const secondSides = new Int32Array(3)
   for (let slot = 0; slot < narrow.count; slot++) {
-    const first = firstOf[slot]
-    const second = secondOf[slot]
+    const first = firstOf[slot]!
+    const second = secondOf[slot]!
     firstSides[0] = first
-    firstSides[1] = previousOf[first]
-    firstSides[2] = nextOf[first]
+    firstSides[1] = previousOf[first]!
+    firstSides[2] = nextOf[first]!
     secondSides[0] = second
-    secondSides[1] = previousOf[second]
-    secondSides[2] = nextOf[second]
+    secondSides[1] = previousOf[second]!
+    secondSides[2] = nextOf[second]!
     // Found on the first join; it stays a root while this slot joins others (only their roots move).
     let root = -1
     // A pair with a side before this slot's first segment (or none, −1) comes earlier.
     for (let i = 0; i < 3; i++) {
-      if (firstSides[i] < first) continue
+      if (firstSides[i]! < first) continue
       for (let j = 0; j < 3; j++) {
-        if (secondSides[j] < first) continue
-        const other = laterSlotOfPair(slot, firstSides[i], secondSides[j])
+        if (secondSides[j]! < first) continue
+        const other = laterSlotOfPair(slot, firstSides[i]!, secondSides[j]!)
         if (other < 0) continue
         if (root < 0) root = find(slot)
         parent[find(other)] = root
@@ -132,9 +132,9 @@ function bridgeGroups(findings: FindingCollector, params: AnalysisParams): SiteL
 type BridgeCause = 'between-cuts' | 'neck'
 
 function addBridgeSite(narrow: NearCutList, slot: number, contourOf: Uint32Array, params: AnalysisParams, groups: SiteList[]): void {
-  const widthMm = narrow.distanceMm[slot] - params.kerfMm
+  const widthMm = narrow.distanceMm[slot]! - params.kerfMm
   const sameContour = narrow.sameContour[slot] === 1
   const { px, py, qx, qy } = narrow.closest(slot)
-  const first = contourOf[narrow.first[slot]]
-  groups[2 * Number(sameContour) + Number(widthMm <= 0)].add((px + qx) / 2, (py + qy) / 2, widthMm, first, sameContour ? -1 : contourOf[narrow.second[slot]])
+  const first = contourOf[narrow.first[slot]!]
+  groups[2 * Number(sameContour) + Number(widthMm <= 0)]!.add((px + qx) / 2, (py + qy) / 2, widthMm, first, sameContour ? -1 : contourOf[narrow.second[slot]!])
 }

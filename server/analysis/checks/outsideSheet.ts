@@ -34,12 +34,12 @@ function beyond(geometry: CheckGeometry, params: AnalysisParams, area: 'sheet' |
   const { bounds } = geometry
   // The lines that stick out: how many, and the box round them.
   let outside = 0
-  const box = [Infinity, Infinity, -Infinity, -Infinity]
+  const box: [number, number, number, number] = [Infinity, Infinity, -Infinity, -Infinity]
   for (let contour = 0; contour < geometry.contours.count; contour++) {
-    if (!(bounds[4 * contour + 2] - minX > usableWidthMm || bounds[4 * contour + 3] - minY > usableHeightMm)) continue
+    if (!(bounds[4 * contour + 2]! - minX > usableWidthMm || bounds[4 * contour + 3]! - minY > usableHeightMm)) continue
     outside++
-    for (let side = 0; side < 2; side++) box[side] = Math.min(box[side], bounds[4 * contour + side])
-    for (let side = 2; side < 4; side++) box[side] = Math.max(box[side], bounds[4 * contour + side])
+    for (let side = 0; side < 2; side++) box[side] = Math.min(box[side]!, bounds[4 * contour + side]!)
+    for (let side = 2; side < 4; side++) box[side] = Math.max(box[side]!, bounds[4 * contour + side]!)
   }
   const widthOverMm = maxX - minX - usableWidthMm
   const heightOverMm = maxY - minY - usableHeightMm

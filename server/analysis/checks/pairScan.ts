@@ -59,19 +59,19 @@ export class NearCutList {
     const kept = new NearCutList(this.segments, Math.max(1, keptCount))
     kept.count = keptCount
     for (let index = 0; index < keptCount; index++) {
-      const slot = keptSlots[index]
-      kept.kind[index] = this.kind[slot]
-      kept.sameContour[index] = this.sameContour[slot]
-      kept.first[index] = this.first[slot]
-      kept.second[index] = this.second[slot]
-      kept.distanceMm[index] = this.distanceMm[slot]
+      const slot = keptSlots[index]!
+      kept.kind[index] = this.kind[slot]!
+      kept.sameContour[index] = this.sameContour[slot]!
+      kept.first[index] = this.first[slot]!
+      kept.second[index] = this.second[slot]!
+      kept.distanceMm[index] = this.distanceMm[slot]!
     }
     return kept
   }
 
   /** Closest points P (on first) and Q (on second) of a slot's pair, in one scratch object: read it before the next call. */
   closest(slot: number): ClosestPoints {
-    return closestPointsOf(this.segments, this.first[slot], this.second[slot], this.scratch)
+    return closestPointsOf(this.segments, this.first[slot]!, this.second[slot]!, this.scratch)
   }
 
   private grow(capacity: number): void {
@@ -84,7 +84,7 @@ export class NearCutList {
 }
 
 function closestPointsOf(segments: CutSegments, first: number, second: number, out: ClosestPoints): ClosestPoints {
-  return closestPointsAt(segments.contours.xy, 2 * segments.firstPoint[first], 2 * segments.firstPoint[second], out)
+  return closestPointsAt(segments.contours.xy, 2 * segments.firstPoint[first]!, 2 * segments.firstPoint[second]!, out)
 }
 
 /** A stretch [from, to] (parameters) of a segment that runs along an earlier segment. */
@@ -150,8 +150,8 @@ function scanPairs(geometry: CheckGeometry, params: AnalysisParams): PairScan {
     const a = 4 * first
     const c = 4 * second
     // Boxes within the reach on each axis can still be farther apart than that diagonally, and then hold no points within it.
-    const gapX = Math.max(0, box[c] - box[a + 2], box[a] - box[c + 2])
-    const gapY = Math.max(0, box[c + 1] - box[a + 3], box[a + 1] - box[c + 3])
+    const gapX = Math.max(0, box[c]! - box[a + 2]!, box[a]! - box[c + 2]!)
+    const gapY = Math.max(0, box[c + 1]! - box[a + 3]!, box[a + 1]! - box[c + 3]!)
     if (gapX * gapX + gapY * gapY >= scanMm * scanMm) return
     const largerGap = Math.max(gapX, gapY)
     if (largerGap <= repeatMm && addRepeat(xy, firstPoint, first, second, repeatMm, scan.repeatsOf)) return
@@ -185,8 +185,8 @@ function scanPairs(geometry: CheckGeometry, params: AnalysisParams): PairScan {
   const isCornerOfOneContour = (first: number, second: number) => {
     const a = 4 * first
     const c = 4 * second
-    const gapX = Math.max(0, box[c] - box[a + 2], box[a] - box[c + 2])
-    const gapY = Math.max(0, box[c + 1] - box[a + 3], box[a + 1] - box[c + 3])
+    const gapX = Math.max(0, box[c]! - box[a + 2]!, box[a]! - box[c + 2]!)
+    const gapY = Math.max(0, box[c + 1]! - box[a + 3]!, box[a + 1]! - box[c + 3]!)
     // The repeat tolerance is at least the touch tolerance, so boxes farther apart than it can neither repeat nor touch.
     return Math.max(gapX, gapY) > repeatMm && (segments.adjacent(first, second) || segments.farthestAlongMm(first, second) <= 2 * reachMm)
   }
@@ -195,24 +195,24 @@ function scanPairs(geometry: CheckGeometry, params: AnalysisParams): PairScan {
   const { from, chunks } = neighbours
   const nearBox = new Float64Array(4)
   for (let chunk = 0; chunk < segments.chunkCount; chunk++) {
-    for (let first = chunkStart[chunk]; first < chunkStart[chunk + 1]; first++) {
+    for (let first = chunkStart[chunk]!; first < chunkStart[chunk + 1]!; first++) {
       const near = grownBox(box, first, scanMm, nearBox)
-      const minX = near[0]
-      const minY = near[1]
-      const maxX = near[2]
-      const maxY = near[3]
+      const minX = near[0]!
+      const minY = near[1]!
+      const maxX = near[2]!
+      const maxY = near[3]!
       const contour = contourOf[first]
-      for (let slot = from[chunk]; slot < from[chunk + 1]; slot++) {
-        const other = chunks[slot]
+      for (let slot = from[chunk]!; slot < from[chunk + 1]!; slot++) {
+        const other = chunks[slot]!
         if (other < chunk) continue
         // The other chunk came within the reach of this chunk, not necessarily of this segment: one box test can skip all its segments.
         const o = 4 * other
-        if (chunkBox[o] > maxX || chunkBox[o + 1] > maxY || chunkBox[o + 2] < minX || chunkBox[o + 3] < minY) continue
+        if (chunkBox[o]! > maxX || chunkBox[o + 1]! > maxY || chunkBox[o + 2]! < minX || chunkBox[o + 3]! < minY) continue
         // A chunk lies on one contour.
-        const sameContour = contourOf[chunkStart[other]] === contour
-        for (let second = Math.max(first + 1, chunkStart[other]); second < chunkStart[other + 1]; second++) {
+        const sameContour = contourOf[chunkStart[other]!] === contour
+        for (let second = Math.max(first + 1, chunkStart[other]!); second < chunkStart[other + 1]!; second++) {
           const c = 4 * second
-          if (box[c] > maxX || box[c + 1] > maxY || box[c + 2] < minX || box[c + 3] < minY) continue
+          if (box[c]! > maxX || box[c + 1]! > maxY || box[c + 2]! < minX || box[c + 3]! < minY) continue
           if (sameContour && isCornerOfOneContour(first, second)) continue
           visit(first, second)
         }
@@ -224,16 +224,16 @@ function scanPairs(geometry: CheckGeometry, params: AnalysisParams): PairScan {
 
 /** Records the stretch of `later` that runs along `earlier` within the tolerance, if there is one. */
 function addRepeat(xy: Float64Array, firstPoint: Uint32Array, earlier: number, later: number, toleranceMm: number, repeatsOf: Map<number, RepeatedStretch[]>): boolean {
-  const p = 2 * firstPoint[earlier]
-  const q = 2 * firstPoint[later]
-  const ax = xy[p]
-  const ay = xy[p + 1]
-  const bx = xy[p + 2]
-  const by = xy[p + 3]
-  const cx = xy[q]
-  const cy = xy[q + 1]
-  const dx = xy[q + 2]
-  const dy = xy[q + 3]
+  const p = 2 * firstPoint[earlier]!
+  const q = 2 * firstPoint[later]!
+  const ax = xy[p]!
+  const ay = xy[p + 1]!
+  const bx = xy[p + 2]!
+  const by = xy[p + 3]!
+  const cx = xy[q]!
+  const cy = xy[q + 1]!
+  const dx = xy[q + 2]!
+  const dy = xy[q + 3]!
   const cross = (bx - ax) * (dy - cy) - (by - ay) * (dx - cx)
   // Most pairs that get here are neighbours meeting at an angle: clearly not parallel by squares, before the two roots.
   if (cross * cross > PARALLEL_SINE_SQUARED_CLEARLY * ((bx - ax) ** 2 + (by - ay) ** 2) * ((dx - cx) ** 2 + (dy - cy) ** 2)) return false

@@ -23,7 +23,7 @@ function findRepeatedCuts(geometry: CheckGeometry, params: AnalysisParams): Repe
   for (const [later, stretches] of pairScanOf(geometry, params).repeatsOf) {
     const [cx, cy, dx, dy] = segments.ends(later)
     const lengthMm = unionLength(stretches) * Math.hypot(dx - cx, dy - cy)
-    const contours = [segments.contourOf[stretches[0].earlier], segments.contourOf[later]]
+    const contours: [number, number] = [segments.contourOf[stretches[0]!.earlier]!, segments.contourOf[later]!]
     const key = contourPairKey(segments.contours, contours[0], contours[1])
     result.repeatingPairs.add(key)
     const site = result.sites.get(key)
@@ -31,7 +31,7 @@ function findRepeatedCuts(geometry: CheckGeometry, params: AnalysisParams): Repe
       site.lengthMm += lengthMm
       continue
     }
-    const middle = (stretches[0].from + stretches[0].to) / 2
+    const middle = (stretches[0]!.from + stretches[0]!.to) / 2
     result.sites.set(key, { contours: contours[0] === contours[1] ? [contours[0]] : contours, lengthMm, x: cx + middle * (dx - cx), y: cy + middle * (dy - cy) })
   }
   return result
@@ -40,8 +40,8 @@ function findRepeatedCuts(geometry: CheckGeometry, params: AnalysisParams): Repe
 function unionLength(stretches: RepeatedStretch[]): number {
   const sorted = [...stretches].sort((a, b) => a.from - b.from)
   let total = 0
-  let runFrom = sorted[0].from
-  let runTo = sorted[0].to
+  let runFrom = sorted[0]!.from
+  let runTo = sorted[0]!.to
   for (const { from, to } of sorted.slice(1)) {
     if (from > runTo) {
       total += runTo - runFrom

@@ -33,8 +33,8 @@ export function closestPointsOfSegments(ax: number, ay: number, bx: number, by: 
 export function closestPointsAt(xy: Float64Array, first: number, second: number, out: ClosestPoints): ClosestPoints {
   if (crossesAt(xy, first, xy, second, out)) {
     const { u, v } = out
-    const x = xy[first] + u * (xy[first + 2] - xy[first])
-    const y = xy[first + 1] + u * (xy[first + 3] - xy[first + 1])
+    const x = xy[first]! + u * (xy[first + 2]! - xy[first]!)
+    const y = xy[first + 1]! + u * (xy[first + 3]! - xy[first + 1]!)
     return setClosest(out, 0, x, y, u, x, y, v)
   }
   out.distanceMm = Infinity
@@ -58,12 +58,12 @@ function setClosest(out: ClosestPoints, distanceMm: number, px: number, py: numb
 
 /** The end at xy[end] of one segment against the whole of the other segment at xy[segment], kept if nearer than the best so far. */
 function considerEnd(xy: Float64Array, end: number, segment: number, endIsOnSecond: boolean, endParameter: number, out: ClosestPoints): void {
-  const x = xy[end]
-  const y = xy[end + 1]
-  const sx = xy[segment]
-  const sy = xy[segment + 1]
-  const ex = xy[segment + 2]
-  const ey = xy[segment + 3]
+  const x = xy[end]!
+  const y = xy[end + 1]!
+  const sx = xy[segment]!
+  const sy = xy[segment + 1]!
+  const ex = xy[segment + 2]!
+  const ey = xy[segment + 3]!
   // Parameter of the point of the segment nearest to the end, clamped to the segment.
   const lengthSquared = (ex - sx) ** 2 + (ey - sy) ** 2
   const t = lengthSquared === 0 ? 0 : Math.min(1, Math.max(0, ((x - sx) * (ex - sx) + (y - sy) * (ey - sy)) / lengthSquared))
@@ -91,14 +91,14 @@ export function crossingParameters(ax: number, ay: number, bx: number, by: numbe
  * writes the parameters into `out.u` and `out.v` (the caller's object, so the hot loops allocate nothing).
  */
 function crossesAt(first: Float64Array, a: number, second: Float64Array, c: number, out: ClosestPoints): boolean {
-  const ax = first[a]
-  const ay = first[a + 1]
-  const cx = second[c]
-  const cy = second[c + 1]
-  const rx = first[a + 2] - ax
-  const ry = first[a + 3] - ay
-  const sx = second[c + 2] - cx
-  const sy = second[c + 3] - cy
+  const ax = first[a]!
+  const ay = first[a + 1]!
+  const cx = second[c]!
+  const cy = second[c + 1]!
+  const rx = first[a + 2]! - ax
+  const ry = first[a + 3]! - ay
+  const sx = second[c + 2]! - cx
+  const sy = second[c + 3]! - cy
   const denominator = rx * sy - ry * sx
   if (denominator === 0) return false
   const acx = cx - ax

@@ -13,7 +13,7 @@ export function checkSelfIntersections(geometry: CheckGeometry, params: Analysis
   const reported = new Set<number>()
   const crossings = findings.group({ code: 'self-intersection', severity: 'warning' })
   for (let slot = 0; slot < nearCuts.count; slot++) {
-    const contour = segments.contourOf[nearCuts.first[slot]]
+    const contour = segments.contourOf[nearCuts.first[slot]!]!
     if (nearCuts.sameContour[slot] !== 1 || nearCuts.kind[slot] !== touch || reported.has(contour)) continue
     reported.add(contour)
     const { px, py } = nearCuts.closest(slot)

@@ -16,7 +16,7 @@ export function checkSmallHoles(geometry: CheckGeometry, params: AnalysisParams,
     if (segments.materialSide[contour] === 0 || !segments.isHole(contour)) continue
     const sizeMm = holeSizeMm(geometry, contour, params.chordToleranceMm)
     if (sizeMm >= params.minHoleMm) continue
-    holes.add((bounds[4 * contour] + bounds[4 * contour + 2]) / 2, (bounds[4 * contour + 1] + bounds[4 * contour + 3]) / 2, sizeMm, contour)
+    holes.add((bounds[4 * contour]! + bounds[4 * contour + 2]!) / 2, (bounds[4 * contour + 1]! + bounds[4 * contour + 3]!) / 2, sizeMm, contour)
   }
 }
 
@@ -37,7 +37,7 @@ const ON_CIRCLE_ABSOLUTE_MM = 1e-6
  */
 function holeSizeMm(geometry: CheckGeometry, contour: number, chordToleranceMm: number): number {
   const { contours, bounds } = geometry
-  const boxSideMm = Math.min(bounds[4 * contour + 2] - bounds[4 * contour], bounds[4 * contour + 3] - bounds[4 * contour + 1])
+  const boxSideMm = Math.min(bounds[4 * contour + 2]! - bounds[4 * contour]!, bounds[4 * contour + 3]! - bounds[4 * contour + 1]!)
   const circle = fittedCircle(contours, contour)
   if (circle === null) return boxSideMm
   const slackMm = ON_CIRCLE_RELATIVE * circle.radiusMm + ON_CIRCLE_ABSOLUTE_MM
@@ -45,11 +45,11 @@ function holeSizeMm(geometry: CheckGeometry, contour: number, chordToleranceMm: 
   // Flattened curves keep their ends on the circle and bulge out between them (a cubic's arc lies outside the
   // circle): the nearest point is the drawn radius, which the least-squares radius overshoots by up to ~1e-4·r.
   let nearestMm = Infinity
-  for (let point = contours.start[contour]; point < contours.start[contour + 1] - 1; point++) {
-    const x = xy[2 * point]
-    const y = xy[2 * point + 1]
-    const nextX = xy[2 * point + 2]
-    const nextY = xy[2 * point + 3]
+  for (let point = contours.start[contour]!; point < contours.start[contour + 1]! - 1; point++) {
+    const x = xy[2 * point]!
+    const y = xy[2 * point + 1]!
+    const nextX = xy[2 * point + 2]!
+    const nextY = xy[2 * point + 3]!
     const distanceMm = Math.hypot(x - circle.x, y - circle.y)
     if (Math.abs(distanceMm - circle.radiusMm) > slackMm) return boxSideMm
     if (distanceMm < nearestMm) nearestMm = distanceMm
@@ -64,22 +64,22 @@ function holeSizeMm(geometry: CheckGeometry, contour: number, chordToleranceMm: 
  * lie on a circle. Coordinates are taken about their mean for precision.
  */
 function fittedCircle(contours: CheckGeometry['contours'], contour: number): { x: number; y: number; radiusMm: number } | null {
-  const first = contours.start[contour]
-  const end = contours.start[contour + 1] - 1
+  const first = contours.start[contour]!
+  const end = contours.start[contour + 1]! - 1
   const count = end - first
   if (count < 3) return null
   const { xy } = contours
   let meanX = 0
   let meanY = 0
   for (let point = first; point < end; point++) {
-    meanX += xy[2 * point] / count
-    meanY += xy[2 * point + 1] / count
+    meanX += xy[2 * point]! / count
+    meanY += xy[2 * point + 1]! / count
   }
   // Normal equations of Σ (u² + v² + D·u + E·v + F)² for centred u, v.
   let suu = 0, svv = 0, suv = 0, suuu = 0, svvv = 0, suvv = 0, svuu = 0
   for (let point = first; point < end; point++) {
-    const u = xy[2 * point] - meanX
-    const v = xy[2 * point + 1] - meanY
+    const u = xy[2 * point]! - meanX
+    const v = xy[2 * point + 1]! - meanY
     suu += u * u
     svv += v * v
     suv += u * v

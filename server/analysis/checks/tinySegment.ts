@@ -17,7 +17,9 @@ export function checkTinySegments(geometry: CheckGeometry, params: AnalysisParam
   const limitMm = tinySegmentLimitMm(params)
   const dots = findings.group({ code: 'tiny-segment', severity: 'warning', limitMm, facts: { kerfMm: params.kerfMm }, worstFirst: 'smallest' })
   for (let contour = 0; contour < contours.count; contour++) {
-    if (contours.operation[contour] === OPERATION_CODES.engrave || contours.lengthMm[contour] >= limitMm) continue
-    dots.add((bounds[4 * contour] + bounds[4 * contour + 2]) / 2, (bounds[4 * contour + 1] + bounds[4 * contour + 3]) / 2, contours.lengthMm[contour], contour)
+    if (contours.operation[contour] === OPERATION_CODES.engrave || contours.lengthMm[contour]! >= limitMm) continue
+    const middleX = (bounds[4 * contour]! + bounds[4 * contour + 2]!) / 2
+    const middleY = (bounds[4 * contour + 1]! + bounds[4 * contour + 3]!) / 2
+    dots.add(middleX, middleY, contours.lengthMm[contour], contour)
   }
 }

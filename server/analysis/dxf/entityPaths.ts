@@ -75,10 +75,10 @@ function counterClockwiseSweep(startRad: number, endRad: number): number {
 /** A polyline's vertices; each vertex's bulge shapes the segment to the next one (the last one's, the closing segment). */
 function drawVertices(vertices: ReadonlyArray<Point2 & { bulge?: number }>, closed: boolean, path: PathDataWriter): void {
   if (vertices.length === 0) return
-  path.moveTo(vertices[0].x, vertices[0].y)
-  for (let index = 1; index < vertices.length; index++) path.bulgeTo(vertices[index], vertices[index - 1].bulge ?? 0)
+  path.moveTo(vertices[0]!.x, vertices[0]!.y)
+  for (let index = 1; index < vertices.length; index++) path.bulgeTo(vertices[index]!, vertices[index - 1]!.bulge ?? 0)
   if (!closed) return
-  path.bulgeTo(vertices[0], vertices[vertices.length - 1].bulge ?? 0)
+  path.bulgeTo(vertices[0]!, vertices[vertices.length - 1]!.bulge ?? 0)
   path.close()
 }
 
@@ -98,9 +98,9 @@ function splinePath(entity: RawGroupEntity, toleranceUnits: number, path: PathDa
     else if (code === 40) spline.knots.push(number)
     else if (code === 41) spline.weights.push(number)
     else if (code === 10) spline.controlPoints.push({ x: number, y: 0 })
-    else if (code === 20 && spline.controlPoints.length > 0) spline.controlPoints[spline.controlPoints.length - 1].y = number
+    else if (code === 20 && spline.controlPoints.length > 0) spline.controlPoints[spline.controlPoints.length - 1]!.y = number
     else if (code === 11) fit.fitPoints.push({ x: number, y: 0 })
-    else if (code === 21 && fit.fitPoints.length > 0) fit.fitPoints[fit.fitPoints.length - 1].y = number
+    else if (code === 21 && fit.fitPoints.length > 0) fit.fitPoints[fit.fitPoints.length - 1]!.y = number
     else if (code === 12) fit.startTangent = { x: number, y: 0 }
     else if (code === 22 && fit.startTangent) fit.startTangent.y = number
     else if (code === 13) fit.endTangent = { x: number, y: 0 }

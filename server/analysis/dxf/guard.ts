@@ -26,14 +26,14 @@ const inRanges = (code: number, ranges: ReadonlyArray<readonly [number, number]>
  */
 export function assertReadableDxf(lines: readonly string[]): void {
   let lastGroupLine = lines.length - 1
-  while (lastGroupLine >= 0 && lines[lastGroupLine].trim() === '') lastGroupLine--
-  if (lastGroupLine < 1 || lines[lastGroupLine - 1].trim() !== '0' || lines[lastGroupLine].trim() !== 'EOF') {
+  while (lastGroupLine >= 0 && lines[lastGroupLine]!.trim() === '') lastGroupLine--
+  if (lastGroupLine < 1 || lines[lastGroupLine - 1]!.trim() !== '0' || lines[lastGroupLine]!.trim() !== 'EOF') {
     throw damaged('it does not end with the end-of-file marker, so it is probably cut short')
   }
   const structure = new StructureCheck()
   for (let line = 0; line + 1 <= lastGroupLine; line += 2) {
-    const codeText = lines[line].trim()
-    const value = lines[line + 1].trim()
+    const codeText = lines[line]!.trim()
+    const value = lines[line + 1]!.trim()
     if (!GROUP_CODE_PATTERN.test(codeText) || Number(codeText) > LARGEST_GROUP_CODE) {
       throw damaged(`line ${line + 1} should hold a group code but holds "${shorten(codeText)}"`)
     }

@@ -5,7 +5,7 @@ import { ACI_RGB } from './aciColours'
 const BY_BLOCK = 0
 const BY_LAYER = 256
 // Colour 7 is drawn black or white against the background; an absent layer or a top-level BYBLOCK gets it.
-const DEFAULT_COLOUR = ACI_RGB[7]
+const DEFAULT_COLOUR = ACI_RGB[7]!
 const DEFAULT_LAYER = '0'
 
 /** Frozen and off layers are not drawn, so not cut; a frozen layer also hides the blocks inserted on it. */

@@ -57,7 +57,7 @@ export function rawGroupHandler(entityName: (typeof RAW_GROUP_ENTITY_NAMES)[numb
 
 /** The last value of a numeric group, as dxf-parser keeps the last one it reads. */
 function numberOf(groups: RawGroupEntity['groups'], code: number): number | undefined {
-  for (let index = groups.length - 1; index >= 0; index--) if (groups[index][0] === code && typeof groups[index][1] === 'number') return groups[index][1] as number
+  for (let index = groups.length - 1; index >= 0; index--) if (groups[index]![0] === code && typeof groups[index]![1] === 'number') return groups[index]![1] as number
   return undefined
 }
 

@@ -62,7 +62,7 @@ export function readDxfDocument(dxf: IDxf, params: AnalysisParams, findings: Fin
   const reportedMappings = new Map<string, SiteList>()
   const stack: Pending[] = []
   const pushEntities = (entities: IEntity[] | undefined, matrix: Matrix, context: Omit<Pending, 'entity' | 'matrix'>) => {
-    for (let index = (entities?.length ?? 0) - 1; index >= 0; index--) stack.push({ entity: entities![index], matrix, ...context })
+    for (let index = (entities?.length ?? 0) - 1; index >= 0; index--) stack.push({ entity: entities![index]!, matrix, ...context })
   }
   pushEntities(dxf.entities, scaling(units.mmPerUnit, -units.mmPerUnit), { blockChain: undefined })
   let visited = 0

@@ -17,9 +17,9 @@ export function splineProblem({ degree, knots, controlPoints, weights }: SplineD
   if (!Number.isInteger(degree) || degree < 1 || degree > 25) return `its degree is ${degree}`
   if (controlPoints.length < degree + 1) return `it has ${controlPoints.length} control points for degree ${degree}`
   if (knots.length !== controlPoints.length + degree + 1) return `it has ${knots.length} knots for ${controlPoints.length} control points of degree ${degree}`
-  if (knots.some((knot, index) => index > 0 && knot < knots[index - 1])) return 'its knots are not in order'
+  if (knots.some((knot, index) => index > 0 && knot < knots[index - 1]!)) return 'its knots are not in order'
   if (weights.length > 0 && (weights.length !== controlPoints.length || weights.some((weight) => !(weight > 0)))) return 'its weights are not one positive number per control point'
-  if (!(knots[controlPoints.length] > knots[degree])) return 'its knots leave it no length'
+  if (!(knots[controlPoints.length]! > knots[degree]!)) return 'its knots leave it no length'
   return undefined
 }
 
@@ -34,11 +34,11 @@ export function splineProblem({ degree, knots, controlPoints, weights }: SplineD
 export function drawSpline(spline: SplineDefinition, toleranceUnits: number, path: PathDataWriter): void {
   const { degree, knots, controlPoints } = spline
   const evaluate = splineEvaluator(spline)
-  const first = evaluate(knots[degree], degree)
+  const first = evaluate(knots[degree]!, degree)
   path.moveTo(first.x, first.y)
   for (let span = degree; span < controlPoints.length; span++) {
-    const from = knots[span]
-    const to = knots[span + 1]
+    const from = knots[span]!
+    const to = knots[span + 1]!
     if (!(to > from)) continue
     const atSpan = (t: number) => evaluate(t, span)
     addChords(atSpan, from, atSpan(from), to, atSpan(to), toleranceUnits, 0, path)
@@ -63,23 +63,23 @@ function splineEvaluator({ degree, knots, controlPoints, weights }: SplineDefini
   const ws = new Float64Array(degree + 1)
   return (t, span) => {
     for (let j = 0; j <= degree; j++) {
-      const point = controlPoints[span - degree + j]
-      const weight = weights.length > 0 ? weights[span - degree + j] : 1
+      const point = controlPoints[span - degree + j]!
+      const weight = weights.length > 0 ? weights[span - degree + j]! : 1
       xs[j] = point.x * weight
       ys[j] = point.y * weight
       ws[j] = weight
     }
     for (let level = 1; level <= degree; level++) {
       for (let j = degree; j >= level; j--) {
-        const low = knots[span - degree + j]
-        const high = knots[span + 1 + j - level]
+        const low = knots[span - degree + j]!
+        const high = knots[span + 1 + j - level]!
         const alpha = high > low ? (t - low) / (high - low) : 0
-        xs[j] = (1 - alpha) * xs[j - 1] + alpha * xs[j]
-        ys[j] = (1 - alpha) * ys[j - 1] + alpha * ys[j]
-        ws[j] = (1 - alpha) * ws[j - 1] + alpha * ws[j]
+        xs[j] = (1 - alpha) * xs[j - 1]! + alpha * xs[j]!
+        ys[j] = (1 - alpha) * ys[j - 1]! + alpha * ys[j]!
+        ws[j] = (1 - alpha) * ws[j - 1]! + alpha * ws[j]!
       }
     }
-    return { x: xs[degree] / ws[degree], y: ys[degree] / ws[degree] }
+    return { x: xs[degree]! / ws[degree]!, y: ys[degree]! / ws[degree]! }
   }
 }
 
@@ -111,26 +111,26 @@ export interface FitPointSpline {
  * (group 44) is not applied: the curve runs through the points exactly.
  */
 export function drawFitPointSpline({ fitPoints, startTangent, endTangent, closed }: FitPointSpline, path: PathDataWriter): void {
-  const points = fitPoints.filter((point, index) => index === 0 || point.x !== fitPoints[index - 1].x || point.y !== fitPoints[index - 1].y)
-  if (closed && points.length > 1 && points[0].x === points[points.length - 1].x && points[0].y === points[points.length - 1].y) points.pop()
-  path.moveTo(points[0].x, points[0].y)
+  const points = fitPoints.filter((point, index) => index === 0 || point.x !== fitPoints[index - 1]!.x || point.y !== fitPoints[index - 1]!.y)
+  if (closed && points.length > 1 && points[0]!.x === points[points.length - 1]!.x && points[0]!.y === points[points.length - 1]!.y) points.pop()
+  path.moveTo(points[0]!.x, points[0]!.y)
   if (points.length < 2) return
   const periodic = closed && points.length >= 3
   const count = points.length
   const segments = periodic ? count : count - 1
   const chord = new Float64Array(segments)
   for (let i = 0; i < segments; i++) {
-    const next = points[(i + 1) % count]
-    chord[i] = Math.hypot(next.x - points[i].x, next.y - points[i].y)
+    const next = points[(i + 1) % count]!
+    chord[i] = Math.hypot(next.x - points[i]!.x, next.y - points[i]!.y)
   }
   const derivatives = periodic ? periodicDerivatives(points, chord) : clampedOrNaturalDerivatives(points, chord, unit(startTangent), unit(endTangent))
   for (let i = 0; i < segments; i++) {
     const j = (i + 1) % count
-    const third = chord[i] / 3
+    const third = chord[i]! / 3
     path.cubicTo(
-      { x: points[i].x + third * derivatives.x[i], y: points[i].y + third * derivatives.y[i] },
-      { x: points[j].x - third * derivatives.x[j], y: points[j].y - third * derivatives.y[j] },
-      points[j],
+      { x: points[i]!.x + third * derivatives.x[i]!, y: points[i]!.y + third * derivatives.y[i]! },
+      { x: points[j]!.x - third * derivatives.x[j]!, y: points[j]!.y - third * derivatives.y[j]! },
+      points[j]!,
     )
   }
   if (closed) path.close()
@@ -153,8 +153,8 @@ function clampedOrNaturalDerivatives(points: Point2[], h: Float64Array, start: P
   const upper = new Float64Array(n)
   const rightX = new Float64Array(n)
   const rightY = new Float64Array(n)
-  const deltaX = (i: number) => points[i + 1].x - points[i].x
-  const deltaY = (i: number) => points[i + 1].y - points[i].y
+  const deltaX = (i: number) => points[i + 1]!.x - points[i]!.x
+  const deltaY = (i: number) => points[i + 1]!.y - points[i]!.y
   if (start) {
     diagonal[0] = 1
     rightX[0] = start.x
@@ -162,15 +162,15 @@ function clampedOrNaturalDerivatives(points: Point2[], h: Float64Array, start: P
   } else {
     diagonal[0] = 2
     upper[0] = 1
-    rightX[0] = (3 * deltaX(0)) / h[0]
-    rightY[0] = (3 * deltaY(0)) / h[0]
+    rightX[0] = (3 * deltaX(0)) / h[0]!
+    rightY[0] = (3 * deltaY(0)) / h[0]!
   }
   for (let i = 1; i < n - 1; i++) {
-    lower[i] = h[i]
-    diagonal[i] = 2 * (h[i - 1] + h[i])
-    upper[i] = h[i - 1]
-    rightX[i] = 3 * ((h[i] * deltaX(i - 1)) / h[i - 1] + (h[i - 1] * deltaX(i)) / h[i])
-    rightY[i] = 3 * ((h[i] * deltaY(i - 1)) / h[i - 1] + (h[i - 1] * deltaY(i)) / h[i])
+    lower[i] = h[i]!
+    diagonal[i] = 2 * (h[i - 1]! + h[i]!)
+    upper[i] = h[i - 1]!
+    rightX[i] = 3 * ((h[i]! * deltaX(i - 1)) / h[i - 1]! + (h[i - 1]! * deltaX(i)) / h[i]!)
+    rightY[i] = 3 * ((h[i]! * deltaY(i - 1)) / h[i - 1]! + (h[i - 1]! * deltaY(i)) / h[i]!)
   }
   if (end) {
     diagonal[n - 1] = 1
@@ -179,8 +179,8 @@ function clampedOrNaturalDerivatives(points: Point2[], h: Float64Array, start: P
   } else {
     lower[n - 1] = 1
     diagonal[n - 1] = 2
-    rightX[n - 1] = (3 * deltaX(n - 2)) / h[n - 2]
-    rightY[n - 1] = (3 * deltaY(n - 2)) / h[n - 2]
+    rightX[n - 1] = (3 * deltaX(n - 2)) / h[n - 2]!
+    rightY[n - 1] = (3 * deltaY(n - 2)) / h[n - 2]!
   }
   return { x: solveTridiagonal(lower, diagonal, upper, rightX), y: solveTridiagonal(lower, diagonal, upper, rightY) }
 }
@@ -196,12 +196,12 @@ function periodicDerivatives(points: Point2[], h: Float64Array): { x: Float64Arr
   for (let i = 0; i < n; i++) {
     const before = (i + n - 1) % n
     const after = (i + 1) % n
-    const hBefore = h[before]
-    lower[i] = h[i]
-    diagonal[i] = 2 * (hBefore + h[i])
+    const hBefore = h[before]!
+    lower[i] = h[i]!
+    diagonal[i] = 2 * (hBefore + h[i]!)
     upper[i] = hBefore
-    rightX[i] = 3 * ((h[i] * (points[i].x - points[before].x)) / hBefore + (hBefore * (points[after].x - points[i].x)) / h[i])
-    rightY[i] = 3 * ((h[i] * (points[i].y - points[before].y)) / hBefore + (hBefore * (points[after].y - points[i].y)) / h[i])
+    rightX[i] = 3 * ((h[i]! * (points[i]!.x - points[before]!.x)) / hBefore + (hBefore * (points[after]!.x - points[i]!.x)) / h[i]!)
+    rightY[i] = 3 * ((h[i]! * (points[i]!.y - points[before]!.y)) / hBefore + (hBefore * (points[after]!.y - points[i]!.y)) / h[i]!)
   }
   return { x: solveCyclicTridiagonal(lower, diagonal, upper, rightX), y: solveCyclicTridiagonal(lower, diagonal, upper, rightY) }
 }
@@ -211,27 +211,27 @@ function solveTridiagonal(lower: Float64Array, diagonal: Float64Array, upper: Fl
   const n = diagonal.length
   const c = new Float64Array(n)
   const x = new Float64Array(n)
-  let pivot = diagonal[0]
-  c[0] = upper[0] / pivot
-  x[0] = right[0] / pivot
+  let pivot = diagonal[0]!
+  c[0] = upper[0]! / pivot
+  x[0] = right[0]! / pivot
   for (let i = 1; i < n; i++) {
-    pivot = diagonal[i] - lower[i] * c[i - 1]
-    c[i] = upper[i] / pivot
-    x[i] = (right[i] - lower[i] * x[i - 1]) / pivot
+    pivot = diagonal[i]! - lower[i]! * c[i - 1]!
+    c[i] = upper[i]! / pivot
+    x[i] = (right[i]! - lower[i]! * x[i - 1]!) / pivot
   }
-  for (let i = n - 2; i >= 0; i--) x[i] -= c[i] * x[i + 1]
+  for (let i = n - 2; i >= 0; i--) x[i]! -= c[i]! * x[i + 1]!
   return x
 }
 
 /** A tridiagonal system with corners lower[0] (row 0, column n−1) and upper[n−1] (row n−1, column 0): Numerical Recipes' cyclic method. */
 function solveCyclicTridiagonal(lower: Float64Array, diagonal: Float64Array, upper: Float64Array, right: Float64Array): Float64Array {
   const n = diagonal.length
-  const cornerTopRight = lower[0]
-  const cornerBottomLeft = upper[n - 1]
-  const gamma = -diagonal[0]
+  const cornerTopRight = lower[0]!
+  const cornerBottomLeft = upper[n - 1]!
+  const gamma = -diagonal[0]!
   const modified = Float64Array.from(diagonal)
-  modified[0] = diagonal[0] - gamma
-  modified[n - 1] = diagonal[n - 1] - (cornerBottomLeft * cornerTopRight) / gamma
+  modified[0] = diagonal[0]! - gamma
+  modified[n - 1] = diagonal[n - 1]! - (cornerBottomLeft * cornerTopRight) / gamma
   const innerLower = Float64Array.from(lower)
   const innerUpper = Float64Array.from(upper)
   innerLower[0] = 0
@@ -241,7 +241,7 @@ function solveCyclicTridiagonal(lower: Float64Array, diagonal: Float64Array, upp
   u[0] = gamma
   u[n - 1] = cornerBottomLeft
   const z = solveTridiagonal(innerLower, modified, innerUpper, u)
-  const factor = (x[0] + (cornerTopRight * x[n - 1]) / gamma) / (1 + z[0] + (cornerTopRight * z[n - 1]) / gamma)
-  for (let i = 0; i < n; i++) x[i] -= factor * z[i]
+  const factor = (x[0]! + (cornerTopRight * x[n - 1]!) / gamma) / (1 + z[0]! + (cornerTopRight * z[n - 1]!) / gamma)
+  for (let i = 0; i < n; i++) x[i]! -= factor * z[i]!
   return x
 }

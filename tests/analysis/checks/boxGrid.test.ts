@@ -16,7 +16,7 @@ function meetingInOrder(grid: BoxGrid, query: [number, number, number, number]):
 function meetingByBruteForce(boxes: Float64Array, query: [number, number, number, number]): number[] {
   const met: number[] = []
   for (let box = 0; 4 * box < boxes.length; box++) {
-    if (boxes[4 * box] <= query[2] && boxes[4 * box + 1] <= query[3] && boxes[4 * box + 2] >= query[0] && boxes[4 * box + 3] >= query[1]) met.push(box)
+    if (boxes[4 * box]! <= query[2] && boxes[4 * box + 1]! <= query[3] && boxes[4 * box + 2]! >= query[0] && boxes[4 * box + 3]! >= query[1]) met.push(box)
   }
   return met
 }

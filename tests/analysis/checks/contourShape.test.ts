@@ -6,7 +6,7 @@ describe('open-contour', () => {
     expect(findingsOf('open-contour', ['M0 0H20'])).toMatchObject([{ severity: 'info', cause: 'slit', contours: [0] }])
     const [nearlyClosed] = findingsOf('open-contour', ['M0 0H20V20H0V0.1'])
     expect(nearlyClosed).toMatchObject({ severity: 'warning', cause: 'nearly-closed', limitMm: 0.2 })
-    expect(nearlyClosed.valueMm).toBeCloseTo(0.1, 6)
+    expect(nearlyClosed!.valueMm).toBeCloseTo(0.1, 6)
   })
 
   it('says nothing about closed outlines', () => {
@@ -24,8 +24,8 @@ describe('self-intersection', () => {
   it('flags a bow tie that crosses itself at (10, 10), not a square or a star-free polygon', () => {
     const [finding, ...rest] = findingsOf('self-intersection', ['M0 0L20 20H0L20 0Z'])
     expect(rest).toEqual([])
-    expect(finding.x).toBeCloseTo(10, 6)
-    expect(finding.y).toBeCloseTo(10, 6)
+    expect(finding!.x).toBeCloseTo(10, 6)
+    expect(finding!.y).toBeCloseTo(10, 6)
     expect(findingsOf('self-intersection', [rectanglePath(0, 0, 20, 20), 'M40 0L60 0L70 10L50 20Z'])).toEqual([])
   })
 })

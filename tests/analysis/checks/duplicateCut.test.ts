@@ -10,10 +10,10 @@ describe('duplicate-cut', () => {
     const { result } = analyse([rectanglePath(0, 0, 100, 100), rectanglePath(0, 0, 100, 100)], cutSpeed)
     const duplicates = sitesOf(result, 'duplicate-cut')
     expect(duplicates).toHaveLength(1)
-    expect(duplicates[0].facts.lengthMm).toBeCloseTo(400, 6)
-    expect(duplicates[0].facts.seconds).toBeCloseTo(40, 6)
-    expect(duplicates[0].valueMm).toBeCloseTo(400, 6)
-    expect(duplicates[0].contours).toEqual([0, 1])
+    expect(duplicates[0]!.facts.lengthMm).toBeCloseTo(400, 6)
+    expect(duplicates[0]!.facts.seconds).toBeCloseTo(40, 6)
+    expect(duplicates[0]!.valueMm).toBeCloseTo(400, 6)
+    expect(duplicates[0]!.contours).toEqual([0, 1])
     expect(result.checks.duplicateCutLengthMm).toBeCloseTo(400, 6)
     expect(result.checks.duplicateCutTimeS).toBeCloseTo(40, 6)
     // The copies touch everywhere; that is the repeat, not two cuts running into each other.
@@ -22,7 +22,7 @@ describe('duplicate-cut', () => {
 
   it('counts a line drawn three times as two extra passes', () => {
     const [finding] = findingsOf('duplicate-cut', ['M0 0H50', 'M0 0H50', 'M50 0H0'], cutSpeed)
-    expect(finding.valueMm).toBeCloseTo(100, 6)
+    expect(finding!.valueMm).toBeCloseTo(100, 6)
   })
 
   it('finds the shared side of two rectangles drawn edge to edge (30 mm), and a line that goes back over itself', () => {

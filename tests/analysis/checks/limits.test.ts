@@ -7,7 +7,7 @@ describe('limits of the contour checks, at their edges', () => {
   it('flags cuts just under twice the kerf and not just over', () => {
     const sites = findingsOf('tiny-segment', ['M10 10h0.3', 'M20 10h0.45'], { kerfMm: 0.2 })
     expect(sites).toMatchObject([{ limitMm: 0.4, contours: [0] }])
-    expect(sites[0].valueMm).toBeCloseTo(0.3, 6)
+    expect(sites[0]!.valueMm).toBeCloseTo(0.3, 6)
   })
 
   // A hole that is a circle is measured by its diameter (minimum hole of one thickness: common practice, no source).
@@ -22,9 +22,9 @@ describe('limits of the contour checks, at their edges', () => {
     })
     const [hole, ...rest] = findingsOf('small-hole', [SHEET_OUTLINE, `M${points.join('L')}Z`], { thicknessMm: 3, kerfMm: 0.2 })
     expect(rest).toEqual([])
-    expect(hole.valueMm).toBeCloseTo(2 * radiusMm, 6)
+    expect(hole!.valueMm).toBeCloseTo(2 * radiusMm, 6)
     // Not a circle: a 2 × 0.8 mm slot is measured by the smaller side of its box.
     const [slot] = findingsOf('small-hole', [SHEET_OUTLINE, rectanglePath(40, 40, 2, 0.8)], { thicknessMm: 3, kerfMm: 0.2 })
-    expect(slot.valueMm).toBeCloseTo(0.8, 6)
+    expect(slot!.valueMm).toBeCloseTo(0.8, 6)
   })
 })

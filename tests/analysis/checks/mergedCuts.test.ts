@@ -18,7 +18,7 @@ describe('merged-cuts', () => {
     const [finding, ...rest] = findingsOf('merged-cuts', [rectanglePath(0, 0, 20, 20), rectanglePath(20.1, 0, 20, 20)])
     expect(rest).toEqual([])
     expect(finding).toMatchObject({ cause: 'within-kerf', limitMm: 0 })
-    expect(finding.valueMm).toBeCloseTo(-0.1, 6)
+    expect(finding!.valueMm).toBeCloseTo(-0.1, 6)
   })
 
   it('leaves parts 0.5 mm apart alone (the gap between parts is not a bridge), and does not also report a burnt-away bridge', () => {

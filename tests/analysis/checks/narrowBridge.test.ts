@@ -9,28 +9,28 @@ describe('narrow-bridge, hand-worked', () => {
     const [site, ...rest] = findingsOf('narrow-bridge', ['M10 10H60', 'M10 11H60'])
     expect(rest).toEqual([])
     expect(site).toMatchObject({ severity: 'warning', cause: 'between-cuts', limitMm: 1, key: 'narrow-bridge:between-cuts:1' })
-    expect(site.valueMm).toBeCloseTo(0.8, 6)
-    expect(site.y).toBeCloseTo(10.5, 6)
-    expect(site.contours).toHaveLength(2)
+    expect(site!.valueMm).toBeCloseTo(0.8, 6)
+    expect(site!.y).toBeCloseTo(10.5, 6)
+    expect(site!.contours).toHaveLength(2)
   })
 
   it('leaves 0.5 − 0.2 = 0.3 mm between a slit and a circle it ends 0.5 mm short of', () => {
     const [site, ...rest] = findingsOf('narrow-bridge', ['M10 50H44.5', circlePath(50, 50, 5)])
     expect(rest).toEqual([])
-    expect(site.valueMm).toBeCloseTo(0.3, 6)
-    expect(site.x).toBeCloseTo(44.75, 6)
+    expect(site!.valueMm).toBeCloseTo(0.3, 6)
+    expect(site!.x).toBeCloseTo(44.75, 6)
   })
 
   it('is an error when the kerf eats the whole web (0.15 mm apart, 0.2 mm kerf)', () => {
     const [site] = findingsOf('narrow-bridge', ['M10 10H60', 'M10 10.15H60'])
     expect(site).toMatchObject({ severity: 'error', cause: 'between-cuts', limitMm: 0 })
-    expect(site.valueMm).toBeCloseTo(-0.05, 6)
+    expect(site!.valueMm).toBeCloseTo(-0.05, 6)
   })
 
   it('finds a neck of one outline: two 20 mm squares joined by a 1 mm wide strip leave 0.8 mm', () => {
     const [site, ...rest] = findingsOf('narrow-bridge', ['M0 0H20V9.5H25V0H45V20H25V10.5H20V20H0Z'])
     expect(rest).toEqual([])
-    expect(site.valueMm).toBeCloseTo(0.8, 6)
+    expect(site!.valueMm).toBeCloseTo(0.8, 6)
     expect(site).toMatchObject({ cause: 'neck', contours: [0] })
   })
 

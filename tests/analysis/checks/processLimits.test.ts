@@ -8,13 +8,13 @@ describe('outside-sheet', () => {
     const [finding, ...rest] = findingsOf('outside-sheet', [rectanglePath(0, 0, 800, 100)])
     expect(rest).toEqual([])
     expect(finding).toMatchObject({ severity: 'warning', cause: 'beyond-sheet', valueMm: 800, limitMm: 590, contours: [] })
-    expect(finding.facts).toMatchObject({ drawingWidthMm: 800, drawingHeightMm: 100, usableWidthMm: 590, usableHeightMm: 390, marginMm: 5, linesOutside: 1 })
+    expect(finding!.facts).toMatchObject({ drawingWidthMm: 800, drawingHeightMm: 100, usableWidthMm: 590, usableHeightMm: 390, marginMm: 5, linesOutside: 1 })
   })
 
   it('is an error beyond the bed (1200 × 100 mm) and counts and boxes only the lines that stick out', () => {
     const [finding] = findingsOf('outside-sheet', [rectanglePath(0, 0, 10, 10), 'M0 50H1200'])
     expect(finding).toMatchObject({ severity: 'error', cause: 'beyond-bed', limitMm: 990, contours: [] })
-    expect(finding.facts).toMatchObject({ linesOutside: 1, outsideMinXMm: 0, outsideMinYMm: 50, outsideMaxXMm: 1200, outsideMaxYMm: 50 })
+    expect(finding!.facts).toMatchObject({ linesOutside: 1, outsideMinXMm: 0, outsideMinYMm: 50, outsideMaxXMm: 1200, outsideMaxYMm: 50 })
   })
 
   it('accepts a drawing that fits as drawn or turned (300 × 550 mm)', () => {
@@ -27,8 +27,8 @@ describe('material-not-allowed and too-thick', () => {
   const reason = 'This plastic gives off a corrosive gas when heated.'
   it('reports a material the cutter kind may not cut, with the reason', () => {
     const [finding] = findingsOf('material-not-allowed', ['M0 0H10'], { materialAllowed: { allowed: false, reason } })
-    expect(finding.severity).toBe('error')
-    expect(finding.facts.reason).toBe(reason)
+    expect(finding!.severity).toBe('error')
+    expect(finding!.facts.reason).toBe(reason)
     expect(findingsOf('material-not-allowed', ['M0 0H10'], { materialAllowed: { allowed: true, reason: '' } })).toEqual([])
     expect(findingsOf('material-not-allowed', ['M0 0H10'], {})).toEqual([])
   })

@@ -14,8 +14,8 @@ const segment = fc.tuple(coordinate, coordinate, coordinate, coordinate).filter(
 const referenceSegment = ([ax, ay, bx, by]: number[]) => new Flatten.Segment(new Flatten.Point(ax, ay), new Flatten.Point(bx, by))
 
 function sineBetween(first: readonly number[], second: readonly number[]): number {
-  const cross = (first[2] - first[0]) * (second[3] - second[1]) - (first[3] - first[1]) * (second[2] - second[0])
-  return Math.abs(cross) / (Math.hypot(first[2] - first[0], first[3] - first[1]) * Math.hypot(second[2] - second[0], second[3] - second[1]))
+  const cross = (first[2]! - first[0]!) * (second[3]! - second[1]!) - (first[3]! - first[1]!) * (second[2]! - second[0]!)
+  return Math.abs(cross) / (Math.hypot(first[2]! - first[0]!, first[3]! - first[1]!) * Math.hypot(second[2]! - second[0]!, second[3]! - second[1]!))
 }
 
 /** Neither end of `ends` lies within a few reference tolerances of `other` (an end touching the other segment is a tie). */
@@ -71,8 +71,8 @@ describe('segment geometry against @flatten-js/core on random segments', () => {
         expect(crossing !== null).toBe(referencePoints.length > 0)
         if (crossing === null) return
         const [u] = crossing
-        expect(first[0] + u * (first[2] - first[0])).toBeCloseTo(referencePoints[0].x, 6)
-        expect(first[1] + u * (first[3] - first[1])).toBeCloseTo(referencePoints[0].y, 6)
+        expect(first[0] + u * (first[2] - first[0])).toBeCloseTo(referencePoints[0]!.x, 6)
+        expect(first[1] + u * (first[3] - first[1])).toBeCloseTo(referencePoints[0]!.y, 6)
       }),
       { numRuns: 2000 },
     )
@@ -82,7 +82,7 @@ describe('segment geometry against @flatten-js/core on random segments', () => {
     fc.assert(
       fc.property(coordinate, coordinate, segment, segment, fc.double({ min: 0.01, max: 0.99, noNaN: true }), fc.double({ min: 0.01, max: 0.99, noNaN: true }), (x, y, a, b, u, v) => {
         // Shift each random segment so the point at parameter u (v) is (x, y).
-        const through = ([ax, ay, bx, by]: number[], t: number) => {
+        const through = ([ax, ay, bx, by]: readonly [number, number, number, number], t: number) => {
           const dx = x - (ax + t * (bx - ax))
           const dy = y - (ay + t * (by - ay))
           return [ax + dx, ay + dy, bx + dx, by + dy] as const
@@ -115,10 +115,10 @@ describe('segment geometry against @flatten-js/core on random segments', () => {
           return
         }
         expect(stretch).not.toBeNull()
-        expect(stretch![0]).toBeLessThanOrEqual(inside[0] + 1e-9)
-        expect(stretch![0]).toBeGreaterThan(inside[0] - 1 / samples - 1e-9)
-        expect(stretch![1]).toBeGreaterThanOrEqual(inside[inside.length - 1] - 1e-9)
-        expect(stretch![1]).toBeLessThan(inside[inside.length - 1] + 1 / samples + 1e-9)
+        expect(stretch![0]).toBeLessThanOrEqual(inside[0]! + 1e-9)
+        expect(stretch![0]).toBeGreaterThan(inside[0]! - 1 / samples - 1e-9)
+        expect(stretch![1]).toBeGreaterThanOrEqual(inside[inside.length - 1]! - 1e-9)
+        expect(stretch![1]).toBeLessThan(inside[inside.length - 1]! + 1 / samples + 1e-9)
       }),
       { numRuns: 1000 },
     )

@@ -9,7 +9,7 @@ describe('small-hole', () => {
     const [finding, ...rest] = findingsOf('small-hole', [SHEET_OUTLINE, circlePath(50, 50, 0.5)], steel3mm)
     expect(rest).toEqual([])
     expect(finding).toMatchObject({ severity: 'warning', limitMm: 3, x: 50, y: 50, contours: [1] })
-    expect(finding.valueMm).toBeCloseTo(1, 9)
+    expect(finding!.valueMm).toBeCloseTo(1, 9)
   })
 
   it('leaves an 8 mm circle in 3 mm steel alone', () => {
@@ -18,7 +18,7 @@ describe('small-hole', () => {
 
   it('measures a hole that is not a circle by the smaller side of its box (2 × 6 mm: 2 mm)', () => {
     const [finding] = findingsOf('small-hole', [SHEET_OUTLINE, rectanglePath(40, 40, 2, 6)], steel3mm)
-    expect(finding.valueMm).toBeCloseTo(2, 9)
+    expect(finding!.valueMm).toBeCloseTo(2, 9)
   })
 
   it('does not call a small part (nothing around it) a hole', () => {

@@ -7,7 +7,7 @@ const steel3mm = { thicknessMm: 3, kerfMm: 0.2 }
 const sizeOf = (d: string) => {
   const [finding, ...rest] = findingsOf('small-hole', [SHEET_OUTLINE, d], steel3mm)
   expect(rest).toEqual([])
-  return finding.valueMm!
+  return finding!.valueMm!
 }
 
 /** n points on a circle, the first half a step past 0°, so no point sits on the box: the box side is 2r·cos(π/n). */

@@ -21,14 +21,14 @@ describe('a stray open line outside a part', () => {
     expect(bridges).toHaveLength(1)
     // Closed form: the hole's edge is centre x − r = 1 mm from the line x = 0; the web is that minus the kerf.
     // The flattened circle's chords lie inside the circle, so the web can only grow, by at most the chord tolerance.
-    expect(bridges[0].valueMm!).toBeGreaterThan(1 - 0.2 - 1e-6)
-    expect(bridges[0].valueMm!).toBeLessThan(1 - 0.2 + CHORD_TOLERANCE_MM)
-    expect(bridges[0].contours.sort()).toEqual([0, 1])
+    expect(bridges[0]!.valueMm!).toBeGreaterThan(1 - 0.2 - 1e-6)
+    expect(bridges[0]!.valueMm!).toBeLessThan(1 - 0.2 + CHORD_TOLERANCE_MM)
+    expect(bridges[0]!.contours.sort()).toEqual([0, 1])
     const holes = findingsOf('small-hole', paths, steel3mm)
     expect(holes).toHaveLength(1)
     // Closed form: the diameter 2r.
-    expect(holes[0].valueMm!).toBeCloseTo(2 * HOLE_RADIUS_MM, 5)
-    expect(holes[0].contours).toEqual([1])
+    expect(holes[0]!.valueMm!).toBeCloseTo(2 * HOLE_RADIUS_MM, 5)
+    expect(holes[0]!.contours).toEqual([1])
   })
 
   it('a long diagonal line past a corner leaves it a part too', () => {
@@ -52,7 +52,7 @@ describe('a stray open line outside a part', () => {
     // A Ø1 relief hole between two rows of slits: no outline, so the sheet's edge is undrawn and the circle drops out.
     const holes = findingsOf('small-hole', ['M0 0H100', 'M0 20H100', circlePath(50, 10, 0.5)], steel3mm)
     expect(holes).toHaveLength(1)
-    expect(holes[0].valueMm!).toBeCloseTo(1, 5)
+    expect(holes[0]!.valueMm!).toBeCloseTo(1, 5)
   })
 
   it('keeps a part drawn beside a fold pattern a part', () => {

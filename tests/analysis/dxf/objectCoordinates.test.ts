@@ -63,9 +63,9 @@ describe('DXF entities with extrusion (0, 0, −1)', () => {
     const [hole, ...rest] = sitesOf(result, 'small-hole')
     expect(rest).toEqual([])
     // The hole's middle: OCS (10, 15) → world (−10, 15) → engine (−10, −15); its diameter 2r.
-    expect(hole.x).toBeCloseTo(-10, 3)
-    expect(hole.y).toBeCloseTo(-15, 3)
-    expect(hole.valueMm!).toBeCloseTo(2, 3)
+    expect(hole!.x).toBeCloseTo(-10, 3)
+    expect(hole!.y).toBeCloseTo(-15, 3)
+    expect(hole!.valueMm!).toBeCloseTo(2, 3)
   })
 
   it('runs a half ELLIPSE about its extrusion: t from 0 to π goes below the major axis for −Z, above it for +Z', () => {

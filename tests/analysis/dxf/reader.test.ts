@@ -1,5 +1,5 @@
 import DxfParser from 'dxf-parser'
-import Drawing from 'dxf-writer'
+import Drawing, { type Point2D } from 'dxf-writer'
 import { describe, expect, it } from 'vitest'
 import { ACI_RGB } from '../../../server/analysis/dxf/aciColours'
 import { analyzeCutFile, analyzeDxf, analyzeSvg, withDefaults } from '../../../server/analysis/index'
@@ -106,7 +106,8 @@ describe('a DXF written by an independent writer (dxf-writer 1.18.4) round-trips
     drawing.drawLine(0, 0, 4, 0)
     drawing.drawCircle(2, 2, 0.5)
     drawing.drawArc(0, 0, 1, 0, 90)
-    drawing.drawPolyline([[0, 3, 1], [2, 3]], false)
+    // dxf-writer reads a third number as the bulge (its Polyline.js says so), though its types allow only [x, y].
+    drawing.drawPolyline([[0, 3, 1], [2, 3]] as unknown as Point2D[], false)
     const result = analyzeDxf(drawing.toDxfString(), params)
     const inches = 4 + 2 * Math.PI * 0.5 + Math.PI / 2 + Math.PI
     expect(Math.abs(result.cut.lengthMm / (inches * 25.4) - 1)).toBeLessThan(1e-5)
