@@ -133,7 +133,7 @@ describe('process settings', () => {
     expect(anvil.materials.find((m: any) => m.name === 'Galvanised steel').cautions.map((c: any) => c.code)).toContain('coated-steel-fume')
   })
 
-  it('marks a material thicker than the cutter takes, with the cutter's limit for the page to state in the reader's unit', async () => {
+  it("marks a material thicker than the cutter takes, with the cutter's limit for the page to state in the reader's unit", async () => {
     const admin = await signedIn('admin@example.test')
     const thin = await admin.post('/api/catalog/cutters', { ...newCutter(`Thin-stock laser ${Date.now()}`), maxThicknessMm: 2 })
     expect(thin.status).toBe(201)
