@@ -14,3 +14,6 @@ export type ApiPageItem<Route extends keyof InternalApi> = Extract<ApiResponse<R
 export type JobDetail = ApiResponse<'/api/jobs/:id'>
 /** One warning group of a job, with its acknowledgement if there is one. */
 export type WarningGroupView = JobDetail['warningGroups'][number]
+
+/** A route that answers in pages when asked with `limit`, as its plain list without: `ApiFullList<'/api/jobs'>`. */
+export type ApiFullList<Route extends keyof InternalApi> = Extract<ApiResponse<Route>, unknown[]>
