@@ -145,12 +145,12 @@ export type EstimatePointReport = Report<EstimatePointRow>
 
 /** What each report route answers (as JSON), by report name. */
 export interface ReportByName {
-  'utilisation': UtilisationReport
-  'revenue': RevenueReport
+  utilisation: UtilisationReport
+  revenue: RevenueReport
   'minutes-by-member': MemberMinutesReport
-  'materials': MaterialUseReport
+  materials: MaterialUseReport
   'jobs-by-state': JobStateReport
-  'turnaround': TurnaroundReport
+  turnaround: TurnaroundReport
   'estimate-accuracy': EstimateAccuracyReport
   'estimate-points': EstimatePointReport
 }
