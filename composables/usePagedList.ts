@@ -5,7 +5,10 @@ import type { Page } from '#shared/schemas/paging'
  * server and refetches when the query changes), further pages are appended by `loadMore`. The server pages by
  * keyset, so a row written meanwhile never repeats or pushes another out.
  */
-export async function usePagedList<Item, Extra extends object = object>(url: string, options: { query?: MaybeRefOrGetter<Record<string, string | number | undefined>>; pageSize?: number } = {}) {
+export async function usePagedList<Item, Extra extends object = object>(
+  url: string,
+  options: { query?: MaybeRefOrGetter<Record<string, string | number | undefined>>; pageSize?: number } = {},
+) {
   const query = computed(() => ({ ...toValue(options.query), limit: options.pageSize ?? 50 }))
   const first = await useFetch<Page<Item> & Partial<Extra>>(url, { query })
   // useFetch's `pick` typing can't resolve over a type parameter; without `pick` the data is the page itself.
