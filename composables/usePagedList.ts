@@ -5,12 +5,17 @@ import type { Page } from '#shared/schemas/paging'
  * server and refetches when the query changes), further pages are appended by `loadMore`. The server pages by
  * keyset, so a row written meanwhile never repeats or pushes another out.
  */
-export async function usePagedList<Item, Extra extends object = object>(url: string, options: { query?: MaybeRefOrGetter<Record<string, string | number | undefined>>; pageSize?: number } = {}) {
+export async function usePagedList<Item, Extra extends object = object>(
+  url: string,
+  options: { query?: MaybeRefOrGetter<Record<string, string | number | undefined>>; pageSize?: number } = {},
+) {
   const query = computed(() => ({ ...toValue(options.query), limit: options.pageSize ?? 50 }))
-  const first = await useFetch<Page<Item> & Partial<Extra>>(url, { query, default: () => ({ items: [], nextCursor: null }) as Page<Item> & Partial<Extra> })
+  const first = await useFetch<Page<Item> & Partial<Extra>>(url, { query })
+  // useFetch's `pick` typing can't resolve over a type parameter; without `pick` the data is the page itself.
+  const firstPage = first.data as Ref<(Page<Item> & Partial<Extra>) | undefined>
   const more = ref<Item[]>([]) as Ref<Item[]>
   const cursor = ref<string | null>(null)
-  watch(first.data, (page) => {
+  watch(firstPage, (page) => {
     more.value = []
     cursor.value = page?.nextCursor ?? null
   }, { immediate: true })
@@ -33,9 +38,9 @@ export async function usePagedList<Item, Extra extends object = object>(url: str
   }
 
   return {
-    items: computed(() => [...(first.data.value?.items ?? []), ...more.value]),
+    items: computed(() => [...(firstPage.value?.items ?? []), ...more.value]),
     /** The first page's answer, for what a route adds beside the rows (totals). */
-    firstPage: first.data,
+    firstPage,
     status: first.status,
     error: first.error,
     refresh: first.refresh,

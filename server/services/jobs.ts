@@ -135,14 +135,23 @@ async function estimateFor(lookups: ReturnType<typeof estimateLookups>, choice: 
   return estimateJob(files, cutter, sheet, setting?.kerfMm ?? 0, await lookups.correction(choice.cutterId, material.family))
 }
 
+interface JobEventRow {
+  created_at: string
+  actor_name: string | null
+  from_state: JobState | null
+  to_state: JobState
+  comment: string
+  finding_ref_json: string | null
+}
+
 export async function jobDetail(db: Knex, viewer: SessionUser, jobId: number) {
   const job = await jobForViewer(db, viewer, jobId)
   const [files, member, cutter, material, events] = await Promise.all([
     currentFiles(db, jobId),
-    db('users').where({ id: job.member_id }).first('id', 'name', 'email'),
+    db('users').where({ id: job.member_id }).first<{ id: number; name: string; email: string } | undefined>('id', 'name', 'email'),
     getCutter(db, job.cutter_id),
     getMaterial(db, job.material_id),
-    db('job_events as e').leftJoin('users as u', 'u.id', 'e.actor_id').where('e.job_id', jobId).orderBy('e.id').select('e.*', 'u.name as actor_name'),
+    db('job_events as e').leftJoin('users as u', 'u.id', 'e.actor_id').where('e.job_id', jobId).orderBy('e.id').select<JobEventRow[]>('e.*', 'u.name as actor_name'),
   ])
   const sheet = material.sheets.find((s) => s.id === job.sheet_id) ?? material.sheets[0]!
   const findingGroups = await currentFindingGroups(db, files)
@@ -215,8 +224,8 @@ async function jobSummaries(db: Knex, rows: (JobRow & Record<string, any>)[]) {
       id: row.id,
       title: row.title,
       state: row.state as JobState,
-      memberName: row.member_name,
-      cutterName: row.cutter_name,
+      memberName: row.member_name as string,
+      cutterName: row.cutter_name as string,
       materialName: row.material_name as string,
       thicknessMm: row.thickness_mm as number,
       fileCount: files.length,

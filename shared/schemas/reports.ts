@@ -142,3 +142,15 @@ export type JobStateReport = Report<JobStateRow>
 export type TurnaroundReport = Report<TurnaroundRow, TurnaroundSummary>
 export type EstimateAccuracyReport = Report<EstimateAccuracyRow, ErrorSummary>
 export type EstimatePointReport = Report<EstimatePointRow>
+
+/** What each report route answers (as JSON), by report name. */
+export interface ReportByName {
+  utilisation: UtilisationReport
+  revenue: RevenueReport
+  'minutes-by-member': MemberMinutesReport
+  materials: MaterialUseReport
+  'jobs-by-state': JobStateReport
+  turnaround: TurnaroundReport
+  'estimate-accuracy': EstimateAccuracyReport
+  'estimate-points': EstimatePointReport
+}
