@@ -1,5 +1,6 @@
 import type { Knex } from 'knex'
 import type { SessionUser } from '#shared/roles'
+import type { JobState } from '#shared/job-states'
 import type { Page } from '#shared/schemas/paging'
 import { keysetPage, mapPage } from '../utils/paging'
 import { findingRefLabel } from './job-revisions'
@@ -9,8 +10,8 @@ export interface JobEventView {
   id: number
   at: string
   actorName: string
-  from: string | null
-  to: string
+  from: JobState | null
+  to: JobState
   comment: string
   /** The finding group a staff comment points at, in words. */
   finding: string | null
@@ -30,8 +31,8 @@ export async function jobEventView(db: Knex, jobId: number, e: Record<string, an
     id: e.id,
     at: e.created_at,
     actorName: e.actor_name ?? 'Kerfbook',
-    from: e.from_state,
-    to: e.to_state,
+    from: e.from_state as JobState | null,
+    to: e.to_state as JobState,
     comment: e.comment,
     finding: await findingRefLabel(db, jobId, e.finding_ref_json ? JSON.parse(e.finding_ref_json) : null),
   }
