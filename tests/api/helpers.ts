@@ -103,3 +103,19 @@ export function linkToken(mail: SinkMessage, path: string): string {
 export function uniqueEmail(prefix: string): string {
   return `${prefix}-${Date.now()}-${Math.floor(Math.random() * 1e6)}@example.test`
 }
+
+/**
+ * A new job of `member` on the demo's CO₂ laser in 3 mm birch plywood with one SVG file uploaded and analysed:
+ * the set-up most journeys start from.
+ */
+export async function laserPlywoodJob(member: ReturnType<typeof client>, title: string, svg: string, fileName: string): Promise<{ jobId: number; fileId: number }> {
+  const overview = (await member.get('/api/catalog/overview')).body as { name: string; cutterId: number; materials: { name: string; materialId: number }[] }[]
+  const heron = overview.find((c) => c.name.startsWith('Heron'))!
+  const created = await member.post('/api/jobs', { title, cutterId: heron.cutterId, materialId: heron.materials.find((m) => m.name === 'Birch plywood')!.materialId })
+  if (created.status !== 201) throw new Error(`creating the job answered ${created.status}`)
+  const form = new FormData()
+  form.set('file', new Blob([svg], { type: 'image/svg+xml' }), fileName)
+  const added = await member.form(`/api/jobs/${created.body.id}/files`, form)
+  if (added.status !== 201) throw new Error(`uploading ${fileName} answered ${added.status}: ${JSON.stringify(added.body).slice(0, 300)}`)
+  return { jobId: created.body.id as number, fileId: added.body.fileId as number }
+}

@@ -143,32 +143,25 @@ async function waitForHydration(page: Page): Promise<void> {
   })
 }
 
-/** A vitest test with a fresh `browser` that must end without unexpected console errors or failed requests. */
-export const browserTest = test.extend<{ browser: BrowserSession }>({
+/** A fixture with a fresh browser session that must end without unexpected console errors or failed requests. */
+function checkedSession(which: string) {
   // The empty pattern is required: vitest reads a fixture's dependencies from its first parameter.
-  browser: async ({}, use) => {
-    const browser = await BrowserSession.launch()
+  return async ({}, use: (session: BrowserSession) => Promise<void>) => {
+    const session = await BrowserSession.launch()
     try {
-      await use(browser)
-      expect(browser.unexpectedProblems(), 'console errors or failed requests in the browser').toEqual([])
+      await use(session)
+      expect(session.unexpectedProblems(), `console errors or failed requests in ${which}`).toEqual([])
     } finally {
-      await browser.close()
+      await session.close()
     }
-  },
-})
+  }
+}
+
+/** A vitest test with a fresh `browser`, checked for problems when it ends. */
+export const browserTest = test.extend<{ browser: BrowserSession }>({ browser: checkedSession('the browser') })
 
 /** browserTest with a second browser, `staff`, for the people at the desk; it is checked for problems like the first. */
-export const browserTestWithStaff = browserTest.extend<{ staff: BrowserSession }>({
-  staff: async ({}, use) => {
-    const staff = await BrowserSession.launch()
-    try {
-      await use(staff)
-      expect(staff.unexpectedProblems(), 'console errors or failed requests in the staff browser').toEqual([])
-    } finally {
-      await staff.close()
-    }
-  },
-})
+export const browserTestWithStaff = browserTest.extend<{ staff: BrowserSession }>({ staff: checkedSession('the staff browser') })
 
 /** Saves a full-page screenshot as tests/artifacts/screenshots/<name>.png once the page is quiet. */
 export async function screenshot(page: Page, name: string): Promise<void> {

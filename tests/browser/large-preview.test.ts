@@ -5,7 +5,7 @@ import type { Page } from 'playwright-core'
 import { describe, expect } from 'vitest'
 import { formatCount } from '../../shared/finding-messages'
 import { decodeSites } from '../../shared/packed-analysis'
-import { signedIn } from '../api/helpers'
+import { laserPlywoodJob, signedIn } from '../api/helpers'
 import { foldPanel, NARROW_PINCH_MM } from '../fixtures/fold-panel'
 import { svgDocument } from '../fixtures/svg'
 import { browserTest, checkAccessibility, screenshot, signInThroughForm } from './browser'
@@ -34,16 +34,7 @@ function largeFoldPattern(): string {
 }
 
 async function laserJobWithPattern(): Promise<{ jobId: number; fileId: number }> {
-  const member = await signedIn('member@example.test')
-  const overview = (await member.get('/api/catalog/overview')).body as { name: string; cutterId: number; materials: { name: string; materialId: number }[] }[]
-  const heron = overview.find((c) => c.name.startsWith('Heron'))!
-  const created = await member.post('/api/jobs', { title: 'Large pleated screen', cutterId: heron.cutterId, materialId: heron.materials.find((m) => m.name === 'Birch plywood')!.materialId })
-  expect(created.status).toBe(201)
-  const form = new FormData()
-  form.set('file', new Blob([largeFoldPattern()], { type: 'image/svg+xml' }), 'pleated-screen.svg')
-  const added = await member.form(`/api/jobs/${created.body.id}/files`, form)
-  expect(added.status, JSON.stringify(added.body).slice(0, 300)).toBe(201)
-  return { jobId: created.body.id as number, fileId: added.body.fileId as number }
+  return laserPlywoodJob(await signedIn('member@example.test'), 'Large pleated screen', largeFoldPattern(), 'pleated-screen.svg')
 }
 
 type View = [number, number, number, number]

@@ -2,7 +2,7 @@
 // inches, converted from the engine's millimetres at 25.4 mm to the inch exactly (NIST Special Publication 811,
 // appendix B.8). The drawing is sized so the expected readings are whole figures in inches.
 import { describe, expect } from 'vitest'
-import { client, DEMO_PASSWORD, linkToken, signedIn, uniqueEmail, waitForMail } from '../api/helpers'
+import { client, DEMO_PASSWORD, laserPlywoodJob, linkToken, signedIn, uniqueEmail, waitForMail } from '../api/helpers'
 import { svgDocument } from '../fixtures/svg'
 import { browserTest, checkAccessibility, screenshot, signInThroughForm } from './browser'
 
@@ -68,18 +68,12 @@ describe('the check page in inches', () => {
   browserTest('the job page names the material, the sheet, the cut length and the warning group in inches', { timeout: 120_000 }, async ({ browser }) => {
     const email = await memberReadingInches()
     const member = await signedIn(email)
-    const overview = (await member.get('/api/catalog/overview')).body as { name: string; cutterId: number; materials: { name: string; materialId: number }[] }[]
-    const heron = overview.find((c) => c.name.startsWith('Heron'))!
-    const created = await member.post('/api/jobs', { title: 'Inch panel', cutterId: heron.cutterId, materialId: heron.materials.find((m) => m.name === 'Birch plywood')!.materialId })
-    expect(created.status).toBe(201)
-    const form = new FormData()
-    form.set('file', new Blob([inchPanel()], { type: 'image/svg+xml' }), 'inch-panel.svg')
-    expect((await member.form(`/api/jobs/${created.body.id}/files`, form)).status).toBe(201)
-    const job = (await member.get(`/api/jobs/${created.body.id}`)).body as { sheet: { widthMm: number; heightMm: number } }
+    const { jobId } = await laserPlywoodJob(member, 'Inch panel', inchPanel(), 'inch-panel.svg')
+    const job = (await member.get(`/api/jobs/${jobId}`)).body as { sheet: { widthMm: number; heightMm: number } }
 
     const { page } = browser
     await signInThroughForm(browser, email)
-    await browser.open(`/jobs/${created.body.id}`)
+    await browser.open(`/jobs/${jobId}`)
     const heading = page.locator('h1 + p')
     // 3 mm = 0.118 in; the sheet's sides at 25.4 mm to the inch, to the hundredth.
     const inches = (mm: number) => Number((mm / 25.4).toFixed(2))
