@@ -29,9 +29,8 @@ const migrations: Record<string, Knex.Migration> = {
   '0010_revision_summaries': revisionSummaries,
   '0011_money_mail': moneyMail,
   '0012_user_sessions': userSessions,
-  '0014_cutter_outages': cutterOutages,
-  // 0013 landed after 0014; on a new database it runs after it too, and writes the overlap triggers again with their lower bound.
   '0013_history_indexes': historyIndexes,
+  '0014_cutter_outages': cutterOutages,
 }
 
 export const migrationSource: Knex.MigrationSource<string> = {
