@@ -1,11 +1,12 @@
 import { rmSync } from 'node:fs'
 import knex, { type Knex } from 'knex'
-import { databasePath, knexConfig } from './knexfile'
+import { databaseLocation, databasePath, isPostgresUrl, knexConfig } from './knexfile'
 import { seedDemo } from './seeds/demo'
 import { hashPasswordOffline } from './password-hash'
 
-export function openDatabase(filename = databasePath()): Knex {
-  return knex(knexConfig(filename))
+/** Opens the database at `location`: a SQLite file (the default) or a postgres:// URL (db/knexfile.ts). */
+export function openDatabase(location = databaseLocation()): Knex {
+  return knex(knexConfig(location))
 }
 
 export async function migrateLatest(db: Knex): Promise<void> {
@@ -20,6 +21,8 @@ export async function seedDemoIfEmpty(db: Knex, options: { history?: boolean } =
   return true
 }
 
+/** Deletes the SQLite file and its journals (a PostgreSQL database is dropped by its owner, not here). */
 export function removeDatabaseFiles(filename = databasePath()): void {
+  if (isPostgresUrl(filename)) throw new Error('removeDatabaseFiles is for SQLite files')
   for (const suffix of ['', '-wal', '-shm']) rmSync(filename + suffix, { force: true })
 }

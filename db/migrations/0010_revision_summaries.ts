@@ -2,6 +2,7 @@ import { gzipSync } from 'node:zlib'
 import type { Knex } from 'knex'
 import { encodeGeometry, encodeSites } from '../../shared/packed-analysis'
 import { summaryColumns } from '../../server/services/revision-summary'
+import { utcNowDefault } from '../schema-helpers'
 import { contoursV1, groupFindingsV1, type ContourV1, type FindingV1 } from '../legacy/analysis-v1'
 
 // Lists and estimates read a revision's figures and finding counts from columns written once; the
@@ -29,7 +30,7 @@ export async function up(knex: Knex): Promise<void> {
     t.string('group_key').notNullable()
     t.text('reason').notNullable()
     t.integer('acknowledged_by').notNullable().references('users.id')
-    t.string('created_at').notNullable().defaultTo(knex.raw("(strftime('%Y-%m-%dT%H:%M:%fZ','now'))"))
+    t.string('created_at').notNullable().defaultTo(utcNowDefault(knex))
     t.unique(['file_revision_id', 'group_key'])
   })
   await convertStoredRevisions(knex)
