@@ -23,7 +23,7 @@ export default defineNuxtConfig({
   },
   nitro: {
     // Native and dialect-probing packages stay outside the bundle; Nitro copies them into .output.
-    externals: { external: ['knex', 'better-sqlite3', 'piscina'] },
+    externals: { external: ['knex', 'better-sqlite3', 'pg', 'piscina'] },
   },
   // Development helpers (the dev SMTP sink's messages, reset links among them) are not even built into production.
   $production: { nitro: { ignore: ['api/dev/**'] } },

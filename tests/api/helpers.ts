@@ -1,9 +1,36 @@
 // Shared helpers for API tests: a cookie-keeping client per actor, and the mail sink.
 /* eslint-disable @typescript-eslint/no-explicit-any -- a test reads whatever JSON a route answers */
-import Database from 'better-sqlite3'
-import { inject } from 'vitest'
+import type { Knex } from 'knex'
+import { afterAll, inject } from 'vitest'
+import { isPostgres } from '../../db/dialect'
+import { openDatabase } from '../../db/index'
 
 export const DEMO_PASSWORD = 'kerfbook-demo'
+
+const openDatabases = new Map<string, Knex>()
+afterAll(async () => {
+  for (const db of openDatabases.values()) await db.destroy()
+  openDatabases.clear()
+})
+
+/** The app's database as the test run set it up (SQLite file or PostgreSQL), opened once per test file. */
+export function appDb(location = inject('databaseLocation')): Knex {
+  let db = openDatabases.get(location)
+  if (!db) openDatabases.set(location, (db = openDatabase(location)))
+  return db
+}
+
+/** Rows of one SQL statement (`?` placeholders) on the app's database, whichever it is. */
+export async function sqlRows<T = any>(sql: string, params: readonly unknown[] = [], location = inject('databaseLocation')): Promise<T[]> {
+  const db = appDb(location)
+  const result = await db.raw(sql, params as Knex.RawBinding[])
+  return (isPostgres(db) ? result.rows : result) as T[]
+}
+
+/** The first row of one SQL statement, or undefined. */
+export async function sqlRow<T = any>(sql: string, params: readonly unknown[] = [], location = inject('databaseLocation')): Promise<T | undefined> {
+  return (await sqlRows<T>(sql, params, location))[0]
+}
 
 export interface ApiResponse<T = unknown> {
   status: number
@@ -72,9 +99,7 @@ export interface SinkMessage {
 export async function outboxDrained(timeoutMs = 10_000): Promise<void> {
   const deadline = Date.now() + timeoutMs
   while (Date.now() < deadline) {
-    const db = new Database(inject('databasePath'), { readonly: true })
-    const { n } = db.prepare("select count(*) as n from mail_outbox where status in ('pending', 'sending')").get() as { n: number }
-    db.close()
+    const { n } = (await sqlRow<{ n: number }>("select count(*) as n from mail_outbox where status in ('pending', 'sending')"))!
     if (n === 0) return
     await new Promise((r) => setTimeout(r, 50))
   }

@@ -3,12 +3,11 @@
 // This file starts a server of its own (the built app), pointed at a mail server the test controls.
 import { createHash } from 'node:crypto'
 import { createServer, type Server, type Socket } from 'node:net'
-import Database from 'better-sqlite3'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { startBuiltApp, type BuiltApp } from '../../scripts/lib/built-app'
 import { freePort } from '../../scripts/lib/free-port'
 import { startSmtpSink, type SmtpSink } from '../../scripts/lib/smtp-sink'
-import { DEMO_PASSWORD } from './helpers'
+import { DEMO_PASSWORD, sqlRow, sqlRows } from './helpers'
 
 // The sender's deadline for each SMTP stage. A request that waited for the silent mail server could not answer
 // before it; every request here must.
@@ -63,6 +62,7 @@ beforeAll(async () => {
   silent = await startSilentServer(smtpPort)
   app = await startBuiltApp({
     name: 'kerfbook-mail-outbox',
+    postgresUrl: inject('postgresUrl'),
     env: { SMTP_URL: `smtp://127.0.0.1:${smtpPort}`, TRUST_PROXY: '1', MAIL_TIMEOUT_MS: String(SMTP_DEADLINE_MS), MAIL_RETRY_BASE_MS: '200', MAIL_RETRY_MAX_MS: '500', MAIL_MAX_ATTEMPTS: '1000', MAIL_OUTBOX_INTERVAL_MS: '100' },
   })
 })
@@ -87,9 +87,7 @@ describe('the mail outbox', () => {
     expect(known.body.message.replace('member@example.test', '')).toBe(unknown.body.message.replace(nobody, ''))
     expect(Math.max(known.ms, unknown.ms)).toBeLessThan(SMTP_DEADLINE_MS)
     // The same work for both: one outbox row each, written by the request; the sender decides what becomes of it.
-    const outbox = new Database(app.databasePath, { readonly: true })
-    const rows = outbox.prepare("select recipient, subject from mail_outbox where recipient in ('member@example.test', ?) and subject = 'Reset your password'").all(nobody)
-    outbox.close()
+    const rows = await sqlRows("select recipient, subject from mail_outbox where recipient in ('member@example.test', ?) and subject = 'Reset your password'", [nobody], app.databaseLocation)
     expect(rows).toHaveLength(2)
 
     // Staff see the mails the silent server holds up, with the reason.
@@ -127,10 +125,9 @@ describe('the mail outbox', () => {
 
     // The new link replaced the first (the older mail may arrive second: it waited out a back-off); only the new one confirms.
     const tokens = confirmations.map((m) => m.text.match(/\/verify\?token=([A-Za-z0-9_-]+)/)![1]!)
-    const db = new Database(app.databasePath, { readonly: true })
-    const replaced = (token: string) => (db.prepare('select used_at from auth_tokens where token_hash = ?').get(createHash('sha256').update(token).digest('hex')) as { used_at: string | null }).used_at !== null
-    const [older, newer] = replaced(tokens[0]!) ? [tokens[0]!, tokens[1]!] : [tokens[1]!, tokens[0]!]
-    db.close()
+    const replaced = async (token: string) =>
+      (await sqlRow<{ used_at: string | null }>('select used_at from auth_tokens where token_hash = ?', [createHash('sha256').update(token).digest('hex')], app.databaseLocation))!.used_at !== null
+    const [older, newer] = (await replaced(tokens[0]!)) ? [tokens[0]!, tokens[1]!] : [tokens[1]!, tokens[0]!]
     expect((await call('/api/auth/verify', { token: older })).status).toBe(400)
     expect((await call('/api/auth/verify', { token: newer })).status).toBe(200)
   })
