@@ -32,6 +32,7 @@ export interface BuiltApp {
   stripeFakeUrl: string
   stripeWebhookSecret: string
   pid: number
+  sessionPassword: string
   stop(): Promise<void>
   /** Kills the server at once (SIGKILL, as a crash would) and starts it again on the same database, mail sink and Stripe fake. */
   restartAfterCrash(): Promise<void>
@@ -52,6 +53,8 @@ export interface BuiltAppOptions {
   postgresUrl?: string
   /** A database already migrated and seeded (its location): a second app server on the same data. */
   sharedDatabase?: string
+  /** The key sealing session cookies; app servers behind one address share it. A new random one by default. */
+  sessionPassword?: string
 }
 
 /** Creates an empty database named after the app on the PostgreSQL server; answers its URL. */
@@ -99,7 +102,7 @@ export async function startBuiltApp(options: BuiltAppOptions): Promise<BuiltApp>
   const stripeWebhookSecret = `whsec_${options.name}_${randomBytes(8).toString('hex')}`
   const stripeFake = await startStripeFake({ webhook: { url: `${baseUrl}/api/webhooks/stripe`, secret: stripeWebhookSecret } })
   const outboxUrl = `http://127.0.0.1:${sink.httpPort}`
-  const sessionPassword = randomBytes(32).toString('hex')
+  const sessionPassword = options.sessionPassword ?? randomBytes(32).toString('hex')
   const spawnServer = () => spawn('node', [join(options.outputDir ?? '.output', 'server/index.mjs')], {
     stdio: ['ignore', options.showOutput ? 'inherit' : 'ignore', 'inherit'],
     env: {
@@ -141,5 +144,5 @@ export async function startBuiltApp(options: BuiltAppOptions): Promise<BuiltApp>
     server = spawnServer()
     await waitForServer(`${baseUrl}/api/me`, server)
   }
-  return { baseUrl, outboxUrl, databaseLocation, uploadsDir, workDir, stripeFakeUrl: stripeFake.url, stripeWebhookSecret, pid: server.pid!, stop, restartAfterCrash }
+  return { baseUrl, outboxUrl, databaseLocation, uploadsDir, workDir, stripeFakeUrl: stripeFake.url, stripeWebhookSecret, pid: server.pid!, sessionPassword, stop, restartAfterCrash }
 }

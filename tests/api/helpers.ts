@@ -72,6 +72,11 @@ export function client(ip = `10.0.${Math.floor(Math.random() * 250)}.${++address
     /** multipart/form-data, as a browser upload sends it. */
     form: <T = any>(path: string, form: FormData) => request<T>('POST', path, undefined, form),
     hasCookie: () => cookie !== '',
+    /** The session cookie (name=value), to carry the session to another app server. */
+    cookie: () => cookie,
+    useCookie: (value: string) => {
+      cookie = value
+    },
     /** A binary answer; fetch undoes a Content-Encoding as a browser does. */
     bytes: async (path: string, headers: Record<string, string> = {}) => {
       const response = await fetch(baseUrl + path, { headers: { 'x-forwarded-for': ip, ...(cookie ? { cookie } : {}), ...headers } })

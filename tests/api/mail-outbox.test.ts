@@ -3,7 +3,7 @@
 // This file starts a server of its own (the built app), pointed at a mail server the test controls.
 import { createHash } from 'node:crypto'
 import { createServer, type Server, type Socket } from 'node:net'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import { startBuiltApp, type BuiltApp } from '../../scripts/lib/built-app'
 import { freePort } from '../../scripts/lib/free-port'
 import { startSmtpSink, type SmtpSink } from '../../scripts/lib/smtp-sink'

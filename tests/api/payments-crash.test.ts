@@ -4,7 +4,7 @@
 // and starts it again on the same database. What the app wrote before the capture is all it has to go on.
 import { createServer, request as httpRequest, type IncomingMessage, type Server, type ServerResponse } from 'node:http'
 import Stripe from 'stripe'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import { startBuiltApp, type BuiltApp } from '../../scripts/lib/built-app'
 import { freePort } from '../../scripts/lib/free-port'
 import { waitForPaymentState } from './payment-helpers'

@@ -5,6 +5,7 @@
 // server started here (scripts/lib/postgres-server.ts), a new database on it for every app a test starts.
 import { spawnSync } from 'node:child_process'
 import type { TestProject } from 'vitest/node'
+import { describeLocation } from '../../db/knexfile'
 import { startBuiltApp } from '../../scripts/lib/built-app'
 import { startPostgres, type PostgresServer } from '../../scripts/lib/postgres-server'
 import { requireChromium } from './chromium'
@@ -47,6 +48,7 @@ export default async function setup(project: TestProject) {
     postgres?.stop()
     throw error
   })
+  console.log(`App database: ${describeLocation(app.databaseLocation)}`)
   project.provide('baseUrl', app.baseUrl)
   project.provide('outboxUrl', app.outboxUrl)
   project.provide('databaseLocation', app.databaseLocation)
