@@ -21,8 +21,11 @@ async function job(values: Record<string, unknown>): Promise<number> {
   return id!
 }
 
-async function build(name: keyof typeof REPORTS, cutter?: number) {
-  return REPORTS[name].build(db, await resolveRange(db, { ...RANGE, cutter }))
+// Each report's own row type, which a call through the union of all reports would lose.
+type Built<Name extends keyof typeof REPORTS> = Awaited<ReturnType<(typeof REPORTS)[Name]['build']>>
+
+async function build<Name extends keyof typeof REPORTS>(name: Name, cutter?: number): Promise<Built<Name>> {
+  return (await REPORTS[name].build(db, await resolveRange(db, { ...RANGE, cutter }))) as Built<Name>
 }
 
 beforeAll(async () => {
