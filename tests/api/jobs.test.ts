@@ -4,7 +4,8 @@ import Database from 'better-sqlite3'
 import { describe, expect, inject, it } from 'vitest'
 import { crossingCuts, plainPart, slitPair } from '../fixtures/svg'
 import { decodeGeometry } from '../../shared/packed-analysis'
-import { client, signedIn, waitForMail } from './helpers'
+import type { client } from './helpers'
+import { signedIn, waitForMail } from './helpers'
 
 function fileForm(svg: string, name: string, quantity = 1) {
   const form = new FormData()
