@@ -28,7 +28,8 @@ export default defineNitroPlugin((nitro) => {
         .catch((error) => console.error('[analysis worker] heartbeat failed:', error))
     }, HEARTBEAT_MS)
     try {
-      const packed = await analyzeInWorker(task.input.text, task.input.params, { ownerKey, format: task.input.format, label: task.label, signal: controller.signal })
+      const options = { ownerKey, format: task.input.format, label: task.label, signal: controller.signal }
+      const packed = await analyzeInWorker(task.input.text, task.input.params, options)
       await finishTask(db, task.id, { ok: packed })
     } catch (error) {
       if (!controller.signal.aborted) await finishTask(db, task.id, { error })

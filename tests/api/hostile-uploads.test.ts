@@ -2,7 +2,7 @@
 // message, leave no rows and no stored file behind, and leave the server answering with its memory
 // back near where it was. The corpus is tests/fixtures/hostile/; the big cases are made here.
 import { readdirSync, readFileSync } from 'node:fs'
-import { dirname, join } from 'node:path'
+import { join } from 'node:path'
 import { fileURLToPath } from 'node:url'
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import { plainPart } from '../fixtures/svg'

@@ -2,7 +2,7 @@
 // this file's own, then every report's totals recomputed straight from the database, and every CSV read back.
 import { DateTime } from 'luxon'
 import Papa from 'papaparse'
-import { beforeAll, describe, expect, inject, it } from 'vitest'
+import { beforeAll, describe, expect, it } from 'vitest'
 import { median, nearestRankPercentile } from '../../server/services/reports/statistics'
 import { plainPart } from '../fixtures/svg'
 import { signedIn, sqlRows } from './helpers'
