@@ -2,6 +2,7 @@ import { sendDueReminders } from '../services/booking-mail'
 import { reconcileUnfinishedCuts } from '../services/operations'
 import { releaseExpiredHolds } from '../services/payments'
 import { sendPickupReminders } from '../services/pickup-reminders'
+import { sweepAbandonedTasks } from '../utils/analysis-remote'
 import { runAlone } from '../utils/duty-lock'
 
 // Background duties: unpaid holds released and finishes cut off between capture and commit completed every minute,
@@ -27,4 +28,5 @@ export default defineNitroPlugin((nitro) => {
   every(HOLD_SWEEP_MS, 'reconcile', () => reconcileUnfinishedCuts(useDb()))
   every(REMINDER_MS, 'reminders', () => sendDueReminders(useDb()))
   every(REMINDER_MS, 'pickups', () => sendPickupReminders(useDb()))
+  every(REMINDER_MS, 'analysis-tasks', () => sweepAbandonedTasks(useDb()))
 })

@@ -125,6 +125,14 @@ export async function finishTask(db: Knex, id: number, outcome: { ok: PackedAnal
     .update({ ...written, updated_at: nowIso() })
 }
 
+/** Tasks no app server waits for any more (it stopped while waiting): older than any analysis may run. */
+export const ABANDONED_TASK_MS = 10 * 60_000
+
+/** Deletes abandoned tasks (a background duty); answers how many. */
+export async function sweepAbandonedTasks(db: Knex, now = Date.now()): Promise<number> {
+  return db('analysis_tasks').where('created_at', '<', new Date(now - ABANDONED_TASK_MS).toISOString()).del()
+}
+
 /** What the member is told: the engine's own refusal, or a plain failure without the worker's internals. */
 function refusalOf(error: unknown): { message: string; status: number; details?: Record<string, unknown> } {
   if (error instanceof DomainError) return { message: error.message, status: error.status, details: error.details }
