@@ -126,7 +126,12 @@ export async function startBuiltApp(options: BuiltAppOptions): Promise<BuiltApp>
   })
   let server = spawnServer()
   const stop = async () => {
+    // A graceful stop first; a server still running after ten seconds is killed, so no test run leaves one behind.
+    const exited = server.exitCode !== null || server.signalCode !== null ? Promise.resolve() : new Promise((resolve) => server.once('exit', resolve))
     server.kill('SIGTERM')
+    const killer = setTimeout(() => server.kill('SIGKILL'), 10_000)
+    await exited
+    clearTimeout(killer)
     await sink.close()
     await stripeFake.close()
     rmSync(workDir, { recursive: true, force: true })
