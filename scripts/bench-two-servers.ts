@@ -7,7 +7,7 @@
 // reference, the same reads against one server on SQLite. Prints req/s, p50/p99 latency, status counts and how
 // busy each process and the machine were. Stops every server and deletes every temporary folder, also on error.
 import { execSync } from 'node:child_process'
-import { cpSync, existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs'
+import { cpSync, existsSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs'
 import { cpus, loadavg, tmpdir, totalmem } from 'node:os'
 import { join } from 'node:path'
 import { parseArgs } from 'node:util'
@@ -66,15 +66,43 @@ async function signIn(baseUrl: string, email: string): Promise<string> {
   return response.headers.getSetCookie()[0]!.split(';')[0]!
 }
 
-/** CPU seconds a process has used so far (user + system), from /proc; 0 once it is gone. */
-function processCpuSeconds(pid: number): number {
-  try {
-    // Fields after the command name (which may hold spaces): state is field 3, utime and stime fields 14 and 15.
-    const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1]!.split(' ')
-    return (Number(fields[11]) + Number(fields[12])) / 100
-  } catch {
-    return 0
+// /proc counts CPU time in clock ticks of 1/100 s (USER_HZ, 100 on Linux).
+const TICKS_PER_S = 100
+
+/** CPU seconds each process has used so far (user + system), from /proc; processes gone meanwhile are left out. */
+function processCpuSeconds(pids: number[]): Map<number, number> {
+  const used = new Map<number, number>()
+  for (const pid of pids) {
+    try {
+      // The fields after the command name (which may hold spaces) start at field 3; utime and stime are fields 14 and 15.
+      const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1]!.split(' ')
+      used.set(pid, (Number(fields[11]) + Number(fields[12])) / TICKS_PER_S)
+    } catch {
+      // The process ended between listing and reading.
+    }
   }
+  return used
+}
+
+/** The PostgreSQL server listening on `port`: its postmaster and every process it started (backends, writers). */
+function postgresPids(port: number): number[] {
+  const all = readdirSync('/proc').filter((name) => /^\d+$/.test(name)).map(Number)
+  const postmaster = all.find((pid) => {
+    try {
+      const args = readFileSync(`/proc/${pid}/cmdline`, 'utf8').split('\0')
+      return args[0]!.endsWith('/postgres') && args.includes(`port=${port}`)
+    } catch {
+      return false
+    }
+  })
+  if (postmaster === undefined) return []
+  return [postmaster, ...all.filter((pid) => {
+    try {
+      return Number(readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1]!.split(' ')[1]) === postmaster
+    } catch {
+      return false
+    }
+  })]
 }
 
 /** The machine's busy and total CPU seconds so far, over all cores, from /proc/stat. */
@@ -83,20 +111,27 @@ function machineCpuSeconds(): { busy: number; total: number } {
   const numbers = ticks.slice(0, 8).map(Number)
   const total = numbers.reduce((sum, n) => sum + n, 0)
   const idle = numbers[3]! + numbers[4]!
-  return { busy: (total - idle) / 100, total: total / 100 }
+  return { busy: (total - idle) / TICKS_PER_S, total: total / TICKS_PER_S }
 }
 
-/** Measures how busy the servers, this process (the load generator) and the whole machine were while `run` ran. */
-async function withCpu<T>(servers: BuiltApp[], run: () => Promise<T>): Promise<{ result: T; cpu: string }> {
+/** Named processes whose CPU use is shown beside each phase. */
+type ProcessGroup = { name: string; pids: () => number[] }
+
+/** Measures how busy each group, this process (the load generator) and the whole machine were while `run` ran. */
+async function withCpu<T>(groups: ProcessGroup[], run: () => Promise<T>): Promise<{ result: T; cpu: string }> {
   const startedMs = performance.now()
-  const before = { servers: servers.map((s) => processCpuSeconds(s.pid)), self: process.cpuUsage(), machine: machineCpuSeconds() }
+  const before = { groups: groups.map((g) => processCpuSeconds(g.pids())), self: process.cpuUsage(), machine: machineCpuSeconds() }
   const result = await run()
   const wallS = (performance.now() - startedMs) / 1000
   const self = process.cpuUsage(before.self)
   const machine = machineCpuSeconds()
   const percent = (seconds: number) => `${Math.round((100 * seconds) / wallS)}%`
-  const names = servers.length > 1 ? ['A', 'B'] : ['app']
-  const parts = servers.map((s, i) => `${names[i]} ${percent(processCpuSeconds(s.pid) - before.servers[i]!)}`)
+  const parts = groups.map((g, i) => {
+    let seconds = 0
+    // A process started during the run (a new pooled connection's backend) counts from zero.
+    for (const [pid, used] of processCpuSeconds(g.pids())) seconds += used - (before.groups[i]!.get(pid) ?? 0)
+    return `${g.name} ${percent(seconds)}`
+  })
   parts.push(`load ${percent((self.user + self.system) / 1e6)}`)
   const machineBusy = (machine.busy - before.machine.busy) / (machine.total - before.machine.total)
   parts.push(`machine ${Math.round(machineBusy * 100)}% of ${cpus().length}`)
@@ -147,7 +182,8 @@ function targets(servers: BuiltApp[], path = ''): string {
 }
 
 /** A fixed load of GET requests on `path`; with several servers the connections are dealt out among them in turn. */
-function readLoad(servers: BuiltApp[], cookie: string, path: string, bounds: { duration: number } | { amount: number } = { duration: DURATION_S }): Promise<autocannon.Result> {
+type LoadBounds = { duration: number } | { amount: number }
+function readLoad(servers: BuiltApp[], cookie: string, path: string, bounds: LoadBounds = { duration: DURATION_S }): Promise<autocannon.Result> {
   return autocannon({ url: targets(servers, path), connections: CONNECTIONS, headers: { cookie }, ...bounds })
 }
 
@@ -176,6 +212,7 @@ async function main(): Promise<void> {
   const second = await startBuiltApp({ name: 'kerfbook-bench-two-b', outputDir: copyDir, sharedDatabase: first.databaseLocation, sessionPassword: first.sessionPassword, env: SERVER_ENV })
   cleanups.push(() => second.stop())
   const both = [first, second]
+  const measured: ProcessGroup[] = [{ name: 'A', pids: () => [first.pid] }, { name: 'B', pids: () => [second.pid] }, { name: 'PG', pids: () => postgresPids(postgres.port) }]
   const { memberEmail, cutterId } = seeded.targets!
   console.log(`History: ${Object.entries(seeded.counts!).map(([k, v]) => `${v} ${k}`).join(', ')} over ${values.days} days (seeded in ${seeded.seconds!.toFixed(1)} s)`)
 
@@ -209,18 +246,18 @@ async function main(): Promise<void> {
   const paths = readPaths(cutterId)
   await warmUp(both, member, [paths.calendar, paths.jobs])
   console.log(`\n${CONNECTIONS} connections, ${DURATION_S} s a read phase (two servers: connections dealt out in turn, ${CONNECTIONS / 2} each)`)
-  console.log(`"load" is this process, which generates the requests; the rest of "machine" is PostgreSQL and anything else running.\n`)
+  console.log(`CPU: % of one core for A, B, PostgreSQL (PG) and this process ("load", which sends the requests); "machine" is every core's use by anything.\n`)
   console.log(HEADER)
   for (const [name, path] of [['calendar, 4 weeks', paths.calendar], ['member job list, first 50', paths.jobs]] as const) {
-    const alone = await withCpu(both, () => readLoad([first], member, path))
+    const alone = await withCpu(measured, () => readLoad([first], member, path))
     report(`PG, A alone: ${name}`, alone.result, alone.cpu)
-    const spread = await withCpu(both, () => readLoad(both, member, path))
+    const spread = await withCpu(measured, () => readLoad(both, member, path))
     report(`PG, A + B: ${name}`, spread.result, spread.cpu)
   }
 
   // Every connection sends one booking for the same slot with a job of its own, alternately to A and B.
   let nextJob = 0
-  const storm = await withCpu(both, () =>
+  const storm = await withCpu(measured, () =>
     autocannon({
       url: targets(both),
       connections: STORM_JOBS,
@@ -266,7 +303,7 @@ async function main(): Promise<void> {
     const sqlitePaths = readPaths(reference.targets!.cutterId)
     await warmUp([single], sqliteMember, [sqlitePaths.calendar, sqlitePaths.jobs])
     for (const [name, path] of [['calendar, 4 weeks', sqlitePaths.calendar], ['member job list, first 50', sqlitePaths.jobs]] as const) {
-      const alone = await withCpu([single], () => readLoad([single], sqliteMember, path))
+      const alone = await withCpu([{ name: 'app', pids: () => [single.pid] }], () => readLoad([single], sqliteMember, path))
       report(`SQLite, one server: ${name}`, alone.result, alone.cpu)
     }
   }
