@@ -181,8 +181,9 @@ function targets(servers: BuiltApp[], path = ''): string {
   return servers.map((s) => s.baseUrl + path) as unknown as string
 }
 
-/** A fixed load of GET requests on `path`; with several servers the connections are dealt out among them in turn. */
 type LoadBounds = { duration: number } | { amount: number }
+
+/** A fixed load of GET requests on `path`; with several servers the connections are dealt out among them in turn. */
 function readLoad(servers: BuiltApp[], cookie: string, path: string, bounds: LoadBounds = { duration: DURATION_S }): Promise<autocannon.Result> {
   return autocannon({ url: targets(servers, path), connections: CONNECTIONS, headers: { cookie }, ...bounds })
 }
