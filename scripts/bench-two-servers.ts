@@ -310,7 +310,7 @@ async function main(): Promise<void> {
   }
 
   console.log(`\n${HEADER}\n${rows.join('\n')}`)
-  if (created !== 1) throw new Error(`The race gave ${created} bookings, not exactly one`)
+  if (created !== 1 || booked !== 1 || clashes !== 0) throw new Error(`The race booked ${created} times (${booked} in the database, ${clashes} overlaps), not exactly once`)
 }
 
 let exitCode = 0
