@@ -1,17 +1,9 @@
 import type { Knex } from 'knex'
 import { cautionsFor, type Caution } from '#shared/safety'
 import { gunzipSync } from 'node:zlib'
-import svgpath from 'svgpath'
 import { decodeSites } from '#shared/packed-analysis'
 import type { CutFileFormat } from '../analysis/dxf/format'
-import { parseDxf } from '../analysis/dxf/parseDxf'
-import { readDxfDocument } from '../analysis/dxf/readDxf'
-import { FindingCollector } from '../analysis/findings'
-import type { Matrix } from '../analysis/matrix'
-import type { AnalysisParams } from '../analysis/params'
-import { parseSvgXml } from '../analysis/parseXml'
-import type { DrawnOperation } from '../analysis/polylines'
-import { type DrawnElement, readSvgDocument } from '../analysis/readSvg'
+import { drawSheetInWorker } from '../utils/analysis-pool'
 import { NotFound } from '../utils/errors'
 import { readUpload } from '../utils/upload-store'
 import { analysisParamsFor } from './analysis-profile'
@@ -182,60 +174,6 @@ export async function runSheet(db: Knex, choice: { cutterId?: number; preferredC
   }
 }
 
-/** A part as the sheet SVG draws it: the engine's drawn elements of its stored original, and the box its placement refers to. */
-export interface SheetPart {
-  bbox: { x: number; y: number; width: number; height: number }
-  elements: readonly DrawnElement[]
-}
-
-/** What the sheet SVG draws: the sheet's size, its placed copies, and the workshop's colour for each operation. */
-export interface SheetDrawing {
-  widthMm: number
-  heightMm: number
-  placements: readonly { fileId: number; x: number; y: number; rotated: boolean }[]
-  parts: ReadonlyMap<number, SheetPart>
-  colourOf: (operation: DrawnOperation) => string
-}
-
-/**
- * The engine's reader alone (parse and read, no flattening): each drawn element keeps its exact path data,
- * curves and arcs as drawn, its matrix into mm at full double precision, its operation and fill rule.
- */
-export function drawnElementsOf(text: string, format: CutFileFormat, params: AnalysisParams): DrawnElement[] {
-  const findings = new FindingCollector()
-  return (format === 'dxf' ? readDxfDocument(parseDxf(text), params, findings) : readSvgDocument(parseSvgXml(text), params, findings)).elements
-}
-
-/** Where a placed copy goes on the sheet, as an SVG matrix [a b c d e f] from the part's own mm. */
-function placementMatrix(bbox: SheetPart['bbox'], placement: SheetDrawing['placements'][number]): Matrix {
-  // Turned a quarter: the part's y runs along the sheet's x, its x back along the sheet's y.
-  return placement.rotated
-    ? [0, -1, 1, 0, placement.x - bbox.y, placement.y + bbox.x + bbox.width]
-    : [1, 0, 0, 1, placement.x - bbox.x, placement.y - bbox.y]
-}
-
-/**
- * The sheet as SVG text, 1 user unit = 1 mm. Path data is the drawn element's own, carried through its matrix and
- * the placement by svgpath (arcs stay arcs, numbers are not rounded); an engrave area is a filled path with its fill
- * rule and no stroke, a cut or score line a stroke with no fill.
- */
-export function sheetSvgText(drawing: SheetDrawing): string {
-  const paths: string[] = []
-  for (const placement of drawing.placements) {
-    const part = drawing.parts.get(placement.fileId)!
-    const place = placementMatrix(part.bbox, placement)
-    for (const element of part.elements) {
-      const d = svgpath(element.pathData).matrix([...element.matrix]).matrix([...place]).toString()
-      const colour = drawing.colourOf(element.operation)
-      paths.push(element.filled
-        ? `<path d="${d}" fill="${colour}" fill-rule="${element.fillRule}" stroke="none"/>`
-        : `<path d="${d}" fill="none" stroke="${colour}" stroke-width="0.1"/>`)
-    }
-  }
-  const { widthMm: w, heightMm: h } = drawing
-  return `<?xml version="1.0" encoding="UTF-8"?>\n<svg xmlns="http://www.w3.org/2000/svg" width="${w}mm" height="${h}mm" viewBox="0 0 ${w} ${h}">\n<g>\n${paths.join('\n')}\n</g>\n</svg>\n`
-}
-
 /**
  * One stock sheet of a job as an SVG to load on the cutter: every placed copy's drawn elements, read again from the
  * stored original by the engine's reader with the job's process (never the uploaded markup, never the preview's
@@ -251,12 +189,14 @@ export async function sheetSvg(db: Knex, job: JobRow, sheetIndex: number): Promi
   const originals: { id: number; sha256: string; content_type: string }[] = await db('file_revisions')
     .whereIn('id', files.filter((f) => placed.has(f.id)).map((f) => f.current.id))
     .select('id', 'sha256', 'content_type')
-  const parts = new Map<number, SheetPart>()
-  for (const file of files.filter((f) => placed.has(f.id))) {
-    const original = originals.find((o) => o.id === file.current.id)!
-    const format: CutFileFormat = original.content_type === 'image/vnd.dxf' ? 'dxf' : 'svg'
-    parts.set(file.id, { bbox: file.current.bbox, elements: drawnElementsOf(readUpload(original.sha256).toString('utf8'), format, params) })
-  }
-  const colourOf = (operation: DrawnOperation) => params.colourMapping.find((c) => c.operation === operation)?.hex ?? '#000000'
-  return sheetSvgText({ widthMm: estimate.layout.sheetWidthMm, heightMm: estimate.layout.sheetHeightMm, placements: sheet.placements, parts, colourOf })
+  const originalsToDraw = files
+    .filter((f) => placed.has(f.id))
+    .map((file) => {
+      const original = originals.find((o) => o.id === file.current.id)!
+      const format: CutFileFormat = original.content_type === 'image/vnd.dxf' ? 'dxf' : 'svg'
+      return { fileId: file.id, bbox: file.current.bbox, text: readUpload(original.sha256).toString('utf8'), format }
+    })
+  // Reading a large original takes a good part of a second: on a worker thread, so other requests go on meanwhile.
+  const { sheetWidthMm: widthMm, sheetHeightMm: heightMm } = estimate.layout
+  return drawSheetInWorker({ widthMm, heightMm, placements: sheet.placements, originals: originalsToDraw, params })
 }

@@ -5,6 +5,7 @@ import { pathToFileURL } from 'node:url'
 import { MessageChannel } from 'node:worker_threads'
 import Piscina from 'piscina'
 import type { AnalysisParams, AnalysisResult, CutFileFormat } from '../analysis/index'
+import type { SheetTask } from '../analysis/sheetSvg'
 import type { AnalysisTask, WorkerMessage } from '../workers/analysis.worker'
 import { runInQueue, sendsToQueue } from './analysis-remote'
 import { useDb } from './db'
@@ -292,6 +293,15 @@ export function analyzeInWorker(
     heavy: text.length >= HEAVY_TEXT_CHARS,
     signal: options.signal,
   })
+}
+
+/**
+ * A stock sheet of a job as SVG for the cutter (server/analysis/sheetSvg.ts), drawn on a worker thread: reading a
+ * large original takes a good part of a second. Staff ask for it one sheet at a time, so it goes straight to the
+ * pool rather than through the members' turn order.
+ */
+export function drawSheetInWorker(task: SheetTask): Promise<string> {
+  return analysisPool().run(task, { name: 'drawSheetSvg' }) as Promise<string>
 }
 
 /** The owner's own waiting and running analyses, for the upload page. */

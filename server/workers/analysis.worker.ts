@@ -5,6 +5,7 @@
 import type { MessagePort } from 'node:worker_threads'
 import { gzipSync } from 'node:zlib'
 import { encodeGeometry, encodeSites } from '#shared/packed-analysis'
+import { drawSheet, type SheetTask } from '../analysis/sheetSvg'
 import { AnalysisInputError, analyzeCutFileWithGeometry, type AnalysisParams, type AnalysisResult, type AnalysisStage, type CutFileFormat } from '../analysis/index'
 
 export interface AnalysisTask {
@@ -67,4 +68,9 @@ export default function runAnalysis(task: AnalysisTask): void {
   const outcome = analyse(task)
   const transfer = outcome.ok ? [outcome.geometryGz.buffer as ArrayBuffer, outcome.sitesGz.buffer as ArrayBuffer] : []
   task.port.postMessage({ outcome } satisfies WorkerMessage, transfer)
+}
+
+/** One stock sheet as SVG for the cutter (piscina's `name: 'drawSheetSvg'`). */
+export function drawSheetSvg(task: SheetTask): string {
+  return drawSheet(task)
 }

@@ -6,7 +6,7 @@ import { describe, expect, it } from 'vitest'
 import { analyzeCutFileWithGeometry, analyzeSvgWithGeometry, withDefaults, type AnalysisParams, type CutFileFormat } from '../../server/analysis/index'
 import type { DrawnOperation } from '../../server/analysis/polylines'
 import { arc, circle, dxfDocument } from '../analysis/dxf/dxfText'
-import { drawnElementsOf, sheetSvgText, type SheetDrawing } from '../../server/services/run-sheet'
+import { drawnElementsOf, sheetSvgText, type SheetDrawing } from '../../server/analysis/sheetSvg'
 
 const params: AnalysisParams = withDefaults({ sheetWidthMm: 600, sheetHeightMm: 400 })
 const colourOf = (operation: DrawnOperation) => params.colourMapping.find((c) => c.operation === operation)!.hex
