@@ -7,6 +7,7 @@ import { fileURLToPath } from 'node:url'
 import Database from 'better-sqlite3'
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import { plainPart } from '../fixtures/svg'
+import type { CatalogOverview } from './answers'
 import { signedIn } from './helpers'
 
 const CORPUS = fileURLToPath(new URL('../fixtures/hostile/', import.meta.url))
@@ -90,9 +91,9 @@ describe('hostile uploads', () => {
 
   beforeAll(async () => {
     member = await signedIn('member@example.test')
-    const overview = (await member.get('/api/catalog/overview')).body as any[]
-    const heron = overview.find((c) => c.name.startsWith('Heron'))
-    const created = await member.post('/api/jobs', { title: 'Hostile corpus', cutterId: heron.cutterId, materialId: heron.materials.find((m: any) => m.name === 'Birch plywood').materialId })
+    const overview = (await member.get<CatalogOverview>('/api/catalog/overview')).body
+    const heron = overview.find((c) => c.name.startsWith('Heron'))!
+    const created = await member.post('/api/jobs', { title: 'Hostile corpus', cutterId: heron.cutterId, materialId: heron.materials.find((m) => m.name === 'Birch plywood')!.materialId })
     jobId = created.body.id
     // One good upload first, so the routes' code paths are warm and the baseline includes them.
     const good = new FormData()
@@ -174,9 +175,9 @@ describe('honest files and hostile names', () => {
 
   it('stores a file name without control or direction characters and at most 120 characters long', async () => {
     const member = await signedIn('member@example.test')
-    const overview = (await member.get('/api/catalog/overview')).body as any[]
-    const heron = overview.find((c) => c.name.startsWith('Heron'))
-    const job = await member.post('/api/jobs', { title: 'Names', cutterId: heron.cutterId, materialId: heron.materials.find((m: any) => m.name === 'Birch plywood').materialId })
+    const overview = (await member.get<CatalogOverview>('/api/catalog/overview')).body
+    const heron = overview.find((c) => c.name.startsWith('Heron'))!
+    const job = await member.post('/api/jobs', { title: 'Names', cutterId: heron.cutterId, materialId: heron.materials.find((m) => m.name === 'Birch plywood')!.materialId })
     for (const [sent, check] of [
       ['\u202Egvs.exe\u0000 😀 façade.svg', (name: string) => expect(name).toBe('gvs.exe 😀 façade')],
       [`${'ш'.repeat(10_000)}.svg`, (name: string) => expect([...name].length).toBeLessThanOrEqual(120)],
