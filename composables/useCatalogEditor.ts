@@ -56,6 +56,15 @@ export function useCatalogEditor<Row extends { id: number }>(options: {
     }
   }
 
+  /** Asks before removing `row`; `cancelRemoval` drops the question. */
+  function askRemoval(row: Row) {
+    pendingRemoval.value = row
+  }
+
+  function cancelRemoval() {
+    pendingRemoval.value = null
+  }
+
   async function remove() {
     const row = pendingRemoval.value
     if (!row) return
@@ -73,5 +82,8 @@ export function useCatalogEditor<Row extends { id: number }>(options: {
     }
   }
 
-  return { list, rows: list.data, draft, editingId, saving, notice, errors, pendingRemoval, startNew, startEdit, cancel, save, remove }
+  return {
+    list, rows: list.data, draft, editingId, saving, notice, errors, pendingRemoval,
+    startNew, startEdit, cancel, save, askRemoval, cancelRemoval, remove,
+  }
 }
