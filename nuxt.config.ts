@@ -22,7 +22,7 @@ export default defineNuxtConfig({
   compatibilityDate: '2026-11-01',
   nitro: {
     // Native and dialect-probing packages stay outside the bundle; Nitro copies them into .output.
-    externals: { external: ['knex', 'better-sqlite3', 'piscina'] },
+    externals: { external: ['knex', 'better-sqlite3', 'pg', 'piscina'] },
   },
   typescript: { strict: true },
   telemetry: false,

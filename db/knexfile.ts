@@ -2,18 +2,47 @@ import { mkdirSync } from 'node:fs'
 import { dirname, resolve } from 'node:path'
 import type { Knex } from 'knex'
 import { migrationSource } from './migrations'
+import { PostgresClient } from './postgres-client'
 
 /** The database file: DATABASE_PATH, or data/kerfbook.sqlite under the working directory. */
 export function databasePath(): string {
   return resolve(process.env.DATABASE_PATH || 'data/kerfbook.sqlite')
 }
 
-/** One Knex config for the server and the CLI, so both open the database the same way. */
-export function knexConfig(filename = databasePath()): Knex.Config {
-  if (filename !== ':memory:') mkdirSync(dirname(filename), { recursive: true })
+/** Where the data lives: DATABASE_URL when it names a PostgreSQL server, else the SQLite file (databasePath). */
+export function databaseLocation(): string {
+  const url = process.env.DATABASE_URL
+  return url && isPostgresUrl(url) ? url : databasePath()
+}
+
+export function isPostgresUrl(location: string): boolean {
+  return /^postgres(ql)?:\/\//.test(location)
+}
+
+/** A location as people may read it: the file, or the server and database without the password. */
+export function describeLocation(location = databaseLocation()): string {
+  if (!isPostgresUrl(location)) return location
+  const url = new URL(location)
+  url.password = url.password ? '***' : ''
+  return url.toString()
+}
+
+/** One Knex config for the server and the CLI, so both open the database the same way: a SQLite file or a postgres:// URL. */
+export function knexConfig(location = databaseLocation()): Knex.Config {
+  const migrations = { migrationSource, tableName: 'knex_migrations' }
+  if (isPostgresUrl(location)) {
+    return {
+      client: PostgresClient as unknown as typeof Knex.Client,
+      connection: { connectionString: location },
+      // Each app server holds a few connections; background duties hold one for their lock (server/utils/duty-lock.ts).
+      pool: { min: 0, max: Number(process.env.DATABASE_POOL_MAX || 10) },
+      migrations,
+    }
+  }
+  if (location !== ':memory:') mkdirSync(dirname(location), { recursive: true })
   return {
     client: 'better-sqlite3',
-    connection: { filename },
+    connection: { filename: location },
     useNullAsDefault: true,
     // better-sqlite3 is synchronous: one connection serialises writers without SQLITE_BUSY surprises.
     pool: {
@@ -26,6 +55,6 @@ export function knexConfig(filename = databasePath()): Knex.Config {
         done(null, connection)
       },
     },
-    migrations: { migrationSource, tableName: 'knex_migrations' },
+    migrations,
   }
 }

@@ -431,13 +431,13 @@ async function uploadPart(context: Context): Promise<void> {
     return
   }
   figure('upload answered', `HTTP ${answer.status} after ${seconds(answer.ms)}`)
-  const revision = await step('analysis stored', () => waitForAnalysis(app.databasePath, job.id, Date.now() + options.uploadMs))
+  const revision = await step('analysis stored', () => waitForAnalysis(app.databaseLocation, job.id, Date.now() + options.uploadMs))
   if (!revision) return
   context.revision = revision
   figure('upload + analysis', revision.storedWithAnswer ? `${seconds(answer.ms)} (stored when the upload answered)` : seconds(performance.now() - started))
-  const stored = storedBytes(app.databasePath, revision)
+  const stored = storedBytes(app.databaseLocation, revision)
   figure('stored analysis (this revision)', `${megabytes(stored.total)}: ${stored.parts.map(([name, bytes]) => `${name} ${megabytes(bytes)}`).join(', ')}`)
-  const databaseBytes = ['', '-wal'].reduce((sum, suffix) => sum + (existsSync(app.databasePath + suffix) ? statSync(app.databasePath + suffix).size : 0), 0)
+  const databaseBytes = ['', '-wal'].reduce((sum, suffix) => sum + (existsSync(app.databaseLocation + suffix) ? statSync(app.databaseLocation + suffix).size : 0), 0)
   figure('server RSS after the upload', rssText(rssKb(app.pid)))
   figure('database file (+ WAL), uploads folder', `${megabytes(databaseBytes)}, ${megabytes(folderBytes(join(app.workDir, 'uploads')))}`)
 }
@@ -639,7 +639,7 @@ async function loadPart(context: Context): Promise<void> {
         const answer = await member.upload(`/api/jobs/${jobIds[i]}/files`, context.svg, context.filename, options.uploadMs)
         const answered = performance.now() - started
         if (answer.status >= 400) return `HTTP ${answer.status}`
-        const revision = await waitForAnalysis(app.databasePath, jobIds[i]!, Date.now() + options.uploadMs)
+        const revision = await waitForAnalysis(app.databaseLocation, jobIds[i]!, Date.now() + options.uploadMs)
         return revision.storedWithAnswer ? answered : performance.now() - started
       } catch (error) {
         return error instanceof StepTimeout ? `> ${error.limitMs / 1000} s` : `failed: ${(error as Error).message.slice(0, 100)}`

@@ -1,8 +1,8 @@
-// npm run db:seed-history -- --jobs 10000 [--days 731] [--seed 1] [--members 200] [--bookings 50000] [--database file.sqlite]
+// npm run db:seed-history -- --jobs 10000 [--days 731] [--seed 1] [--members 200] [--bookings 50000] [--database file.sqlite | postgres://…]
 // Adds years of invented history to the demo workshop (migrated and seeded first if the database is new); run again, it adds more.
 import { parseArgs } from 'node:util'
 import { migrateLatest, openDatabase, seedDemoIfEmpty } from '../db/index'
-import { databasePath } from '../db/knexfile'
+import { databaseLocation } from '../db/knexfile'
 import { seedHistory } from '../db/seeds/history'
 
 const { values } = parseArgs({
@@ -25,7 +25,7 @@ const count = (name: string, value: string | undefined) => {
   return n
 }
 
-const db = openDatabase(values.database ?? databasePath())
+const db = openDatabase(values.database ?? databaseLocation())
 try {
   await migrateLatest(db)
   await seedDemoIfEmpty(db)

@@ -1,4 +1,6 @@
 import type { Knex } from 'knex'
+import { isPostgres } from '../dialect'
+import { postgresOverlapGuard } from './0004_bookings'
 
 // Years of history: the reports find their rows by time through indexes, and every read of a cutter's
 // bookings round a time (the calendar, the clash check, the overlap trigger) gets a lower bound on
@@ -55,6 +57,42 @@ BEGIN
 END;`
 }
 
+// PostgreSQL: the same keepers as trigger functions; instants are the same ISO text, turned into timestamps to
+// subtract and back into text to compare.
+// The same whole seconds as SQLite's: the length's whole seconds and one more, so never short of it.
+const spanSecondsPg = (row: string) => `(floor(extract(epoch FROM (${row}.ends_at::timestamptz - ${row}.starts_at::timestamptz)))::integer + 1)`
+const postgresKeepers = `
+CREATE FUNCTION bookings_span() RETURNS trigger LANGUAGE plpgsql AS $$
+BEGIN
+  INSERT INTO booking_spans (cutter_id, longest_s) VALUES (NEW.cutter_id, ${spanSecondsPg('NEW')})
+  ON CONFLICT (cutter_id) DO UPDATE SET longest_s = greatest(booking_spans.longest_s, excluded.longest_s);
+  RETURN NULL;
+END $$;
+CREATE TRIGGER bookings_span AFTER INSERT OR UPDATE OF cutter_id, starts_at, ends_at ON bookings FOR EACH ROW EXECUTE FUNCTION bookings_span();
+CREATE FUNCTION payment_ledger_state() RETURNS trigger LANGUAGE plpgsql AS $$
+DECLARE target integer;
+BEGIN
+  IF TG_OP = 'DELETE' THEN target := OLD.booking_id; ELSE target := NEW.booking_id; END IF;
+  IF target IS NOT NULL THEN
+    UPDATE bookings SET payment_state = ${paymentStateOf('target')} WHERE id = target;
+  END IF;
+  RETURN NULL;
+END $$;
+CREATE TRIGGER payment_ledger_state AFTER INSERT OR UPDATE OR DELETE ON payment_ledger FOR EACH ROW EXECUTE FUNCTION payment_ledger_state();`
+const postgresLowerBound = `
+      AND b.starts_at > to_char((NEW.starts_at::timestamptz - make_interval(secs => coalesce((SELECT s.longest_s FROM booking_spans s WHERE s.cutter_id = NEW.cutter_id), 0))) AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"')`
+
+async function upPostgres(knex: Knex): Promise<void> {
+  await knex.raw(`INSERT INTO booking_spans (cutter_id, longest_s) SELECT cutter_id, max(${spanSecondsPg('bookings')}) FROM bookings GROUP BY cutter_id`)
+  await knex.raw(postgresOverlapGuard(postgresLowerBound))
+  await knex.schema.alterTable('bookings', (t) => {
+    t.string('payment_state').notNullable().defaultTo('awaiting')
+    t.index(['payment_state', 'starts_at'])
+  })
+  await knex.raw(`UPDATE bookings SET payment_state = ${paymentStateOf('bookings.id')} WHERE id IN (SELECT booking_id FROM payment_ledger)`)
+  await knex.raw(postgresKeepers)
+}
+
 export async function up(knex: Knex): Promise<void> {
   await knex.schema.alterTable('payment_ledger', (t) => t.index(['created_at']))
   // Reports read every booking of a range and keep the live ones: the index holds what they test and read.
@@ -65,6 +103,7 @@ export async function up(knex: Knex): Promise<void> {
     t.integer('cutter_id').primary().references('cutters.id')
     t.integer('longest_s').notNullable()
   })
+  if (isPostgres(knex)) return upPostgres(knex)
   await knex.raw(`INSERT INTO booking_spans (cutter_id, longest_s) SELECT cutter_id, max(${spanSeconds('bookings')}) FROM bookings GROUP BY cutter_id`)
   await knex.raw(spanKeeper('INSERT'))
   await knex.raw(spanKeeper('UPDATE'))
@@ -81,6 +120,15 @@ export async function up(knex: Knex): Promise<void> {
 }
 
 export async function down(knex: Knex): Promise<void> {
+  if (isPostgres(knex)) {
+    await knex.raw('DROP TRIGGER IF EXISTS payment_ledger_state ON payment_ledger; DROP FUNCTION IF EXISTS payment_ledger_state()')
+    await knex.raw('DROP TRIGGER IF EXISTS bookings_span ON bookings; DROP FUNCTION IF EXISTS bookings_span()')
+    await knex.schema.alterTable('bookings', (t) => t.dropColumn('payment_state'))
+    await knex.raw(postgresOverlapGuard(''))
+    await knex.schema.dropTable('booking_spans')
+    for (const index of ['job_events_to_state_created_at_index', 'jobs_cut_finished_at_index', 'bookings_starts_at_index', 'payment_ledger_created_at_index']) await knex.raw(`DROP INDEX IF EXISTS ${index}`)
+    return
+  }
   for (const event of ['INSERT', 'UPDATE', 'DELETE'] as const) await knex.raw(`DROP TRIGGER IF EXISTS payment_ledger_state_${event.toLowerCase()}`)
   await knex.raw('DROP INDEX IF EXISTS bookings_payment_state_starts_at_index')
   // Dropping a column rebuilds the table without its triggers; the overlap guard is written again below.

@@ -1,4 +1,5 @@
 import type { Knex } from 'knex'
+import { isPostgres } from '../dialect'
 import { timestamps } from '../schema-helpers'
 
 // A cutter out of service for a period: booking refuses the period, and the bookings it called off point at it,
@@ -20,7 +21,7 @@ export async function up(knex: Knex): Promise<void> {
   // SQLite: a plain ADD COLUMN. Knex adds a column with a foreign key by rebuilding the table, which drops the
   // table's triggers (the bookings' overlap guard among them); SQLite accepts REFERENCES on an added column whose
   // default is NULL, so no rebuild is needed.
-  if (knex.client.config.client === 'better-sqlite3') {
+  if (!isPostgres(knex)) {
     await knex.raw('ALTER TABLE bookings ADD COLUMN outage_id INTEGER REFERENCES cutter_outages(id)')
   } else {
     await knex.schema.alterTable('bookings', (t) => {

@@ -1,4 +1,5 @@
 import type { Knex } from 'knex'
+import { insertedId } from '../dialect'
 
 // Demo catalog of the invented Wrenfield Sheetworks. The machine and process values are in the
 // range the trade uses, written from memory as demo data: they are not machine-maker figures.
@@ -136,12 +137,12 @@ const daysFromNow = (days: number, hourUtc: number) => {
 
 export async function seedDemoCatalog(trx: Knex): Promise<void> {
   const cutterIds: number[] = []
-  for (const cutter of demoCutters) cutterIds.push((await trx('cutters').insert(cutter))[0]!)
+  for (const cutter of demoCutters) cutterIds.push(await insertedId(trx('cutters').insert(cutter)))
 
   const materialIds = new Map<string, number>()
   for (const m of demoMaterials) {
-    const [id] = await trx('materials').insert({ name: m.name, family: m.family, thickness_mm: m.thickness_mm, hazard_note: m.hazard_note })
-    materialIds.set(`${m.name}@${m.thickness_mm}`, id!)
+    const id = await insertedId(trx('materials').insert({ name: m.name, family: m.family, thickness_mm: m.thickness_mm, hazard_note: m.hazard_note }))
+    materialIds.set(`${m.name}@${m.thickness_mm}`, id)
     await trx('material_sheets').insert(m.sheets.map(([w, h, price]) => ({ material_id: id, width_mm: w, height_mm: h, price_minor: price, currency: 'EUR' })))
     await trx('material_cutter_rules').insert(m.disallowed.map(([kind, reason]) => ({ material_id: id, cutter_kind: kind, allowed: false, reason })))
   }

@@ -1,6 +1,7 @@
 import { gzipSync } from 'node:zlib'
 import type { Knex } from 'knex'
 import { DateTime } from 'luxon'
+import { syncIdSequences } from '../dialect'
 import { encodeGeometry, encodeSites } from '../../shared/packed-analysis'
 import { seededRandom } from '../../scripts/lib/seeded-random'
 
@@ -322,6 +323,8 @@ export async function seedHistory(knex: Knex, options: HistoryOptions): Promise<
     await insertAll(trx, 'cut_timer_events', rows.timer)
     await insertAll(trx, 'cut_problems', rows.problems)
     await insertAll(trx, 'mail_outbox', rows.mail.sort((a, b) => String(a.created_at).localeCompare(String(b.created_at))))
+    // The rows above carry their ids; PostgreSQL's sequences must move past them.
+    await syncIdSequences(trx)
     return { members: members.length, jobs: rows.jobs.length, revisions: rows.revisions.length, jobEvents: rows.events.length, bookings: allBookings.length, ledger: rows.ledger.length, mail: rows.mail.length }
   })
 }

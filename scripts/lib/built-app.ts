@@ -1,13 +1,15 @@
-// Starts the built server (.output) on loopback with everything it talks to: a fresh seeded database in a
-// temporary folder, the SMTP sink and the Stripe fake with its webhooks pointed at the app. The tests'
-// global setup and the load benchmark both run the app this way.
+// Starts the built server (.output) on loopback with everything it talks to: a fresh seeded database (a SQLite
+// file in a temporary folder, or a new database on a PostgreSQL server), the SMTP sink and the Stripe fake with its
+// webhooks pointed at the app. The tests' global setup and the load benchmarks run the app this way.
 import { spawn, type ChildProcess } from 'node:child_process'
 import { randomBytes } from 'node:crypto'
 import { mkdtempSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import type { Knex } from 'knex'
+import pg from 'pg'
 import { migrateLatest, openDatabase, seedDemoIfEmpty } from '../../db/index'
+import { isPostgresUrl } from '../../db/knexfile'
 import { freePort } from './free-port'
 import { startSmtpSink } from './smtp-sink'
 import { startStripeFake } from './stripe-fake/index'
@@ -22,11 +24,15 @@ export const SERVER_MALLOC_ENV = { MALLOC_ARENA_MAX: '2', MALLOC_MMAP_THRESHOLD_
 export interface BuiltApp {
   baseUrl: string
   outboxUrl: string
-  databasePath: string
+  /** The SQLite file, or the postgres:// URL of the app's own database (openDatabase takes either). */
+  databaseLocation: string
+  /** Where the app stores uploaded originals. */
+  uploadsDir: string
   workDir: string
   stripeFakeUrl: string
   stripeWebhookSecret: string
   pid: number
+  sessionPassword: string
   stop(): Promise<void>
   /** Kills the server at once (SIGKILL, as a crash would) and starts it again on the same database, mail sink and Stripe fake. */
   restartAfterCrash(): Promise<void>
@@ -43,6 +49,27 @@ export interface BuiltAppOptions {
   showOutput?: boolean
   /** Writes more into the seeded database before the server starts (e.g. years of history). */
   prepare?: (db: Knex) => Promise<void>
+  /** A PostgreSQL server's maintenance URL (postgres://…/postgres): the app gets a new database there instead of a SQLite file. */
+  postgresUrl?: string
+  /** A database already migrated and seeded (its location): a second app server on the same data. */
+  sharedDatabase?: string
+  /** The key sealing session cookies; app servers behind one address share it. A new random one by default. */
+  sessionPassword?: string
+}
+
+/** Creates an empty database named after the app on the PostgreSQL server; answers its URL. */
+async function createPostgresDatabase(serverUrl: string, name: string): Promise<string> {
+  const database = `${name.replace(/[^a-z0-9]+/gi, '_').toLowerCase()}_${randomBytes(4).toString('hex')}`
+  const client = new pg.Client({ connectionString: serverUrl })
+  await client.connect()
+  try {
+    await client.query(`CREATE DATABASE ${database}`)
+  } finally {
+    await client.end()
+  }
+  const url = new URL(serverUrl)
+  url.pathname = `/${database}`
+  return url.toString()
 }
 
 async function waitForServer(url: string, child: ChildProcess, timeoutMs = 60_000): Promise<void> {
@@ -58,12 +85,16 @@ async function waitForServer(url: string, child: ChildProcess, timeoutMs = 60_00
 
 export async function startBuiltApp(options: BuiltAppOptions): Promise<BuiltApp> {
   const workDir = mkdtempSync(join(tmpdir(), `${options.name}-`))
-  const databasePath = join(workDir, 'app.sqlite')
-  const db = openDatabase(databasePath)
-  await migrateLatest(db)
-  await seedDemoIfEmpty(db)
-  await options.prepare?.(db)
-  await db.destroy()
+  const uploadsDir = join(workDir, 'uploads')
+  const newLocation = async () => (options.postgresUrl ? createPostgresDatabase(options.postgresUrl, options.name) : join(workDir, 'app.sqlite'))
+  const databaseLocation = options.sharedDatabase ?? (await newLocation())
+  if (!options.sharedDatabase) {
+    const db = openDatabase(databaseLocation)
+    await migrateLatest(db)
+    await seedDemoIfEmpty(db)
+    await options.prepare?.(db)
+    await db.destroy()
+  }
 
   const sink = await startSmtpSink()
   const port = await freePort()
@@ -71,7 +102,7 @@ export async function startBuiltApp(options: BuiltAppOptions): Promise<BuiltApp>
   const stripeWebhookSecret = `whsec_${options.name}_${randomBytes(8).toString('hex')}`
   const stripeFake = await startStripeFake({ webhook: { url: `${baseUrl}/api/webhooks/stripe`, secret: stripeWebhookSecret } })
   const outboxUrl = `http://127.0.0.1:${sink.httpPort}`
-  const sessionPassword = randomBytes(32).toString('hex')
+  const sessionPassword = options.sessionPassword ?? randomBytes(32).toString('hex')
   const spawnServer = () => spawn('node', [join(options.outputDir ?? '.output', 'server/index.mjs')], {
     stdio: ['ignore', options.showOutput ? 'inherit' : 'ignore', 'inherit'],
     env: {
@@ -79,7 +110,8 @@ export async function startBuiltApp(options: BuiltAppOptions): Promise<BuiltApp>
       NODE_ENV: 'production',
       HOST: '127.0.0.1',
       PORT: String(port),
-      DATABASE_PATH: databasePath,
+      ...(isPostgresUrl(databaseLocation) ? { DATABASE_URL: databaseLocation } : { DATABASE_PATH: databaseLocation }),
+      UPLOADS_PATH: uploadsDir,
       SMTP_URL: `smtp://127.0.0.1:${sink.smtpPort}`,
       OUTBOX_URL: outboxUrl,
       APP_URL: baseUrl,
@@ -94,7 +126,12 @@ export async function startBuiltApp(options: BuiltAppOptions): Promise<BuiltApp>
   })
   let server = spawnServer()
   const stop = async () => {
+    // A graceful stop first; a server still running after ten seconds is killed, so no test run leaves one behind.
+    const exited = server.exitCode !== null || server.signalCode !== null ? Promise.resolve() : new Promise((resolve) => server.once('exit', resolve))
     server.kill('SIGTERM')
+    const killer = setTimeout(() => server.kill('SIGKILL'), 10_000)
+    await exited
+    clearTimeout(killer)
     await sink.close()
     await stripeFake.close()
     rmSync(workDir, { recursive: true, force: true })
@@ -112,5 +149,17 @@ export async function startBuiltApp(options: BuiltAppOptions): Promise<BuiltApp>
     server = spawnServer()
     await waitForServer(`${baseUrl}/api/me`, server)
   }
-  return { baseUrl, outboxUrl, databasePath, workDir, stripeFakeUrl: stripeFake.url, stripeWebhookSecret, pid: server.pid!, stop, restartAfterCrash }
+  return {
+    baseUrl,
+    outboxUrl,
+    databaseLocation,
+    uploadsDir,
+    workDir,
+    stripeFakeUrl: stripeFake.url,
+    stripeWebhookSecret,
+    pid: server.pid!,
+    sessionPassword,
+    stop,
+    restartAfterCrash,
+  }
 }

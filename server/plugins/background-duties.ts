@@ -2,19 +2,23 @@ import { sendDueReminders } from '../services/booking-mail'
 import { reconcileUnfinishedCuts } from '../services/operations'
 import { releaseExpiredHolds } from '../services/payments'
 import { sendPickupReminders } from '../services/pickup-reminders'
+import { sweepAbandonedTasks } from '../utils/analysis-remote'
+import { runAlone } from '../utils/duty-lock'
 
 // Background duties: unpaid holds released and finishes cut off between capture and commit completed every minute,
 // day-before and pickup reminders every ten. Their state
-// lives in the database, so a restart picks up where it left off and never sends twice.
-const HOLD_SWEEP_MS = 60_000
-const REMINDER_MS = 10 * 60_000
+// lives in the database, so a restart picks up where it left off and never sends twice. With several app servers on
+// one PostgreSQL database, each duty runs on one of them at a time (runAlone), and claims every row it acts on.
+// KERFBOOK_DUTY_EVERY_MS runs every duty at that interval instead (the test of several app servers).
+const HOLD_SWEEP_MS = Number(process.env.KERFBOOK_DUTY_EVERY_MS) || 60_000
+const REMINDER_MS = Number(process.env.KERFBOOK_DUTY_EVERY_MS) || 10 * 60_000
 
 export default defineNitroPlugin((nitro) => {
   if (process.env.KERFBOOK_REMINDERS === 'off') return
   const every = (ms: number, name: string, duty: () => Promise<unknown>) => {
     const timer = setInterval(() => {
       databaseReady()
-        .then(duty)
+        .then(() => runAlone(useDb(), name, duty))
         .catch((error) => console.error(`[${name}] failed:`, error))
     }, ms)
     timer.unref()
@@ -24,4 +28,5 @@ export default defineNitroPlugin((nitro) => {
   every(HOLD_SWEEP_MS, 'reconcile', () => reconcileUnfinishedCuts(useDb()))
   every(REMINDER_MS, 'reminders', () => sendDueReminders(useDb()))
   every(REMINDER_MS, 'pickups', () => sendPickupReminders(useDb()))
+  every(REMINDER_MS, 'analysis-tasks', () => sweepAbandonedTasks(useDb()))
 })

@@ -4,6 +4,7 @@ import { Conflict, Forbidden, InvalidInput, NotFound, Unauthorized } from '../ut
 import { passwordChangedMail, signUpAttemptMail, verificationMail } from './account-mail'
 import { endAllSessions } from '../utils/sessions'
 import { consumeToken, issueToken, revokeTokens } from './tokens'
+import { insertedId } from '../../db/dialect'
 
 export interface UserRow {
   id: number
@@ -47,8 +48,8 @@ export async function signUp(db: Knex, input: { name: string; email: string; pas
       await signUpAttemptMail(trx, toSessionUser(existing))
       return { created: false }
     }
-    const [id] = await trx('users').insert({ name: input.name, email: input.email, password_hash: passwordHash, role: 'member' })
-    await verificationMail(trx, { id: id!, email: input.email, name: input.name, role: 'member' as Role }, await issueToken(trx, id!, 'verify-email'))
+    const id = await insertedId(trx('users').insert({ name: input.name, email: input.email, password_hash: passwordHash, role: 'member' }))
+    await verificationMail(trx, { id: id, email: input.email, name: input.name, role: 'member' as Role }, await issueToken(trx, id, 'verify-email'))
     return { created: true }
   })
 }

@@ -4,7 +4,7 @@ import { isStaff, type SessionUser } from '#shared/roles'
 import type { WorkshopSettings } from '#shared/schemas/settings'
 import { Conflict, Forbidden, InvalidInput, NotFound } from '../utils/errors'
 import { nowIso } from '../utils/rows'
-import { isTriggerRefusal } from '../utils/sqlite'
+import { isOverlapRefusal } from '../utils/database-errors'
 import { getCutter, type Cutter } from './catalog/cutters'
 import { listClosures, listOpeningHours } from './catalog/opening-hours'
 import { hasValidSignOff } from './catalog/sign-offs'
@@ -15,6 +15,7 @@ import { currentFiles, jobEstimate, type JobRow } from './jobs'
 import { workshopSettings } from './settings'
 import { addMinutes, describeLocal, inZone, localWeek, minutesBetween, onGrid, openingIntervals, type UtcInterval } from './workshop-time'
 import { earliestStartTouching } from './booking-spans'
+import { BOOKING_WRITE_LOCK, insertedId, isPostgres } from '../../db/dialect'
 
 export type BookingRefusal =
   | 'in-past'
@@ -129,19 +130,21 @@ async function assertSlotAllowed(trx: Knex, check: SlotCheck): Promise<void> {
 }
 
 /**
- * Runs a booking change as one write transaction. Its first statement writes, so SQLite grants the
- * write lock before any rule is read — the effect of BEGIN IMMEDIATE, which Knex can't issue — and the
- * database trigger refuses an overlapping row even if two servers share the file.
+ * Runs a booking change as one write transaction, one at a time across every app server, so the rules it reads
+ * (the cutter's free time, the member's week) still hold when it writes. SQLite: the first statement writes, so
+ * SQLite grants its one write lock before any rule is read (the effect of BEGIN IMMEDIATE, which Knex can't issue).
+ * PostgreSQL: the transaction first takes the booking advisory lock, which the overlap trigger takes too. Either
+ * way the database trigger still refuses an overlapping row whatever the application does.
  */
 export async function inBookingTransaction<T>(db: Knex, cutterId: number, work: (trx: Knex.Transaction) => Promise<T>): Promise<T> {
   try {
     return await db.transaction(async (trx) => {
-      await trx('cutters').where({ id: cutterId }).update({ updated_at: trx.ref('updated_at') })
+      if (isPostgres(trx)) await trx.raw('SELECT pg_advisory_xact_lock(?)', [BOOKING_WRITE_LOCK])
+      else await trx('cutters').where({ id: cutterId }).update({ updated_at: trx.ref('updated_at') })
       return work(trx)
     })
   } catch (error) {
-    // The one trigger on the tables a booking writes is the overlap guard of migration 0004.
-    if (isTriggerRefusal(error)) throw new BookingRefused('overlap', 'Someone else has that time on this cutter. Pick another slot.')
+    if (isOverlapRefusal(error)) throw new BookingRefused('overlap', 'Someone else has that time on this cutter. Pick another slot.')
     throw error
   }
 }
@@ -165,7 +168,7 @@ export async function bookJob(db: Knex, actor: SessionUser, input: { jobId: numb
     if (await liveBookings(trx('bookings').where({ job_id: job.id })).first('id')) throw new BookingRefused('already-booked', 'This job already has a booking. Move or cancel that one instead.')
     if (fresh!.state !== 'approved') throw new BookingRefused('job-not-approved', 'Only an approved job can be booked.')
     await assertSlotAllowed(trx, { cutter, startIso, endIso, memberId: job.member_id, settings })
-    const [bookingId] = await trx('bookings').insert({
+    const bookingId = await insertedId(trx('bookings').insert({
       cutter_id: cutter.id,
       job_id: job.id,
       member_id: job.member_id,
@@ -177,9 +180,9 @@ export async function bookJob(db: Knex, actor: SessionUser, input: { jobId: numb
       hold_expires_at: addMinutes(nowIso(), settings.paymentHoldMinutes),
       ical_uid: `${randomUUID()}@kerfbook`,
       created_by: actor.id,
-    })
+    }))
     await transitionJob(trx, job.id, 'book', 'system', { comment: `Booked ${describeLocal(startIso, settings.timeZone)} on ${cutter.name}` })
-    return bookingId!
+    return bookingId
   })
   return getBookingRow(db, id)
 }
@@ -192,8 +195,8 @@ export async function blockTime(db: Knex, staff: SessionUser, input: { cutterId:
   if (endIso <= startIso) throw new InvalidInput('The end must be after the start.', { fields: { end: 'Must be after the start.' } })
   const id = await inBookingTransaction(db, cutter.id, async (trx) => {
     await assertSlotAllowed(trx, { cutter, startIso, endIso, memberId: null, settings, block: true })
-    const [blockId] = await trx('bookings').insert({ cutter_id: cutter.id, kind: 'block', starts_at: startIso, ends_at: endIso, status: 'confirmed', note: input.reason, ical_uid: `${randomUUID()}@kerfbook`, created_by: staff.id })
-    return blockId!
+    const blockId = await insertedId(trx('bookings').insert({ cutter_id: cutter.id, kind: 'block', starts_at: startIso, ends_at: endIso, status: 'confirmed', note: input.reason, ical_uid: `${randomUUID()}@kerfbook`, created_by: staff.id }))
+    return blockId
   })
   return getBookingRow(db, id)
 }

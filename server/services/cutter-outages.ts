@@ -11,6 +11,7 @@ import { transitionJob } from './job-states'
 import { settleCancellation } from './payments'
 import { workshopSettings } from './settings'
 import { minutesBetween } from './workshop-time'
+import { insertedId } from '../../db/dialect'
 
 export interface CalledOffBooking {
   bookingId: number
@@ -131,8 +132,8 @@ export async function markCutterDown(db: Knex, staff: SessionUser, input: Outage
   const expectedBackAt = instant(input.expectedBackAt, 'expectedBackAt')
   assertReturnAfter(start, expectedBackAt)
   const { outage, calledOff } = await inBookingTransaction(db, cutter.id, async (trx) => {
-    const [id] = await trx('cutter_outages').insert({ cutter_id: cutter.id, reason: input.reason, starts_at: start, expected_back_at: expectedBackAt, created_by: staff.id })
-    const outage = await getOutage(trx, id!)
+    const id = await insertedId(trx('cutter_outages').insert({ cutter_id: cutter.id, reason: input.reason, starts_at: start, expected_back_at: expectedBackAt, created_by: staff.id }))
+    const outage = await getOutage(trx, id)
     return { outage, calledOff: await callOffBookings(trx, outage, cutter) }
   })
   return { outage, calledOff: await releaseHolds(db, calledOff) }

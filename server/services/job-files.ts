@@ -9,6 +9,7 @@ import { storeUpload } from '../utils/upload-store'
 import { analysisParamsFor } from './analysis-profile'
 import { assertEditable, jobForViewer, type JobRow } from './jobs'
 import { summaryColumns, type StoredAnalysis } from './revision-summary'
+import { insertedId } from '../../db/dialect'
 
 /** Analyses with the job's process in the fair worker queue and stores the file before its row, so a row never lacks its file. */
 async function analyseAndStore(db: Knex, job: JobRow, upload: CutFileUpload, uploader: SessionUser): Promise<StoredRevision> {
@@ -31,7 +32,7 @@ interface StoredRevision {
 /** The revision row with its summary columns, then its packed geometry and sites, in the caller's transaction. */
 async function insertRevision(trx: Knex, fileId: number, revision: number, upload: CutFileUpload, uploaderId: number, stored: StoredRevision): Promise<void> {
   const analysis = stored.packed.result as StoredAnalysis
-  const [revisionId] = await trx('file_revisions').insert({
+  const revisionId = await insertedId(trx('file_revisions').insert({
     job_file_id: fileId,
     revision,
     sha256: stored.sha256,
@@ -41,7 +42,7 @@ async function insertRevision(trx: Knex, fileId: number, revision: number, uploa
     analysis_json: JSON.stringify(analysis),
     uploaded_by: uploaderId,
     ...summaryColumns(analysis),
-  })
+  }))
   await trx('revision_payloads').insert({ file_revision_id: revisionId, geometry_gz: Buffer.from(stored.packed.geometryGz), sites_gz: Buffer.from(stored.packed.sitesGz) })
 }
 
@@ -61,10 +62,10 @@ export async function addJobFile(db: Knex, viewer: SessionUser, jobId: number, u
   return db.transaction(async (trx) => {
     // The analysis took a while: the job may have been submitted meanwhile.
     await assertStillEditable(trx, jobId, true)
-    const [fileId] = await trx('job_files').insert({ job_id: jobId, name: upload.filename.replace(/\.(svg|dxf)$/i, ''), quantity })
-    await insertRevision(trx, fileId!, 1, upload, viewer.id, stored)
+    const fileId = await insertedId(trx('job_files').insert({ job_id: jobId, name: upload.filename.replace(/\.(svg|dxf)$/i, ''), quantity }))
+    await insertRevision(trx, fileId, 1, upload, viewer.id, stored)
     await trx('jobs').where({ id: jobId }).update({ updated_at: nowIso() })
-    return fileId!
+    return fileId
   })
 }
 

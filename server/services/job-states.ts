@@ -72,9 +72,11 @@ export async function transitionJob(trx: Knex.Transaction, jobId: number, action
     throw new InvalidInput('Please say why: the member reads this comment.', { fields: { comment: 'A comment is required.' } })
   }
   const now = nowIso()
-  await trx('jobs')
+  const moved = await trx('jobs')
     .where({ id: jobId, state: from })
     .update({ state: transition.to, updated_at: now, ...(action === 'submit' ? { submitted_at: now } : {}) })
+  // Another request moved the job between the read and this write (possible with several app servers on PostgreSQL).
+  if (moved !== 1) throw new Conflict('This job changed a moment ago. Reload it and try again.')
   await trx('job_events').insert({
     job_id: jobId,
     actor_id: actor === 'system' ? null : actor.id,

@@ -18,6 +18,7 @@ import { availableActions, transitionJob, type JobAction, type TransitionRecord 
 import { acknowledgedGroups, recordAcknowledgements, unacknowledgedWarnings, type AcknowledgementInput } from './finding-acknowledgements'
 import { countFindings, currentFiles, currentFindingGroups, filesOfJobs, type JobFileView } from './job-revisions'
 import { type JobEventRow, jobEventView } from './job-events'
+import { insertedId } from '../../db/dialect'
 
 export { currentFiles, type JobFileView } from './job-revisions'
 
@@ -78,9 +79,9 @@ export async function createJob(db: Knex, member: SessionUser, input: JobCreateI
   const material = await getMaterial(db, input.materialId)
   const sheetId = input.sheetId ?? material.sheets[0]!.id
   return db.transaction(async (trx) => {
-    const [id] = await trx('jobs').insert({ member_id: member.id, title: input.title, cutter_id: input.cutterId, material_id: input.materialId, sheet_id: sheetId, notes: input.notes })
+    const id = await insertedId(trx('jobs').insert({ member_id: member.id, title: input.title, cutter_id: input.cutterId, material_id: input.materialId, sheet_id: sheetId, notes: input.notes }))
     await trx('job_events').insert({ job_id: id, actor_id: member.id, from_state: null, to_state: 'draft', comment: '' })
-    return id!
+    return id
   })
 }
 

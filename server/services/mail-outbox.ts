@@ -4,6 +4,7 @@ import { keysetPage, mapPage } from '../utils/paging'
 import { deliverBySmtp, type OutgoingMail } from '../utils/mailer'
 import { nowIso } from '../utils/rows'
 import { workshopDisplayName } from './settings'
+import { insertedId } from '../../db/dialect'
 
 /** A mail as the services write it; the mailer renders it (HTML and text) when it is sent. */
 export interface MailMessage extends OutgoingMail {
@@ -43,8 +44,8 @@ export function outboxPolicy(env = process.env): OutboxPolicy {
 
 /** Writes the mail into the outbox; pass the transaction of the change it reports, so both commit or neither. */
 export async function queueMail(db: Knex, message: MailMessage): Promise<number> {
-  const [id] = await db('mail_outbox').insert({ recipient: message.to, subject: message.subject, message_json: JSON.stringify(message), next_attempt_at: nowIso() })
-  return id!
+  const id = await insertedId(db('mail_outbox').insert({ recipient: message.to, subject: message.subject, message_json: JSON.stringify(message), next_attempt_at: nowIso() }))
+  return id
 }
 
 /**

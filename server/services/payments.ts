@@ -150,7 +150,9 @@ export async function releaseUnpaidBooking(db: Knex, bookingId: number, reason: 
     const booking = await trx<PaidBooking>('bookings').where({ id: bookingId, status: 'held' }).first()
     if (!booking) return false
     const now = nowIso()
-    await trx('bookings').where({ id: bookingId }).update({ status: 'cancelled', cancelled_at: now, cancel_reason: reason, ical_sequence: booking.ical_sequence + 1, updated_at: now })
+    // Conditional, so of two servers releasing the same hold at once only one goes on (the other finds it gone).
+    const released = await trx('bookings').where({ id: bookingId, status: 'held' }).update({ status: 'cancelled', cancelled_at: now, cancel_reason: reason, ical_sequence: booking.ical_sequence + 1, updated_at: now })
+    if (released !== 1) return false
     const job = booking.job_id ? await trx('jobs').where({ id: booking.job_id }).first('state') : null
     if (job?.state === 'booked') await transitionJob(trx, booking.job_id!, 'unbook', 'system', { comment: reason })
     return true

@@ -15,3 +15,11 @@ export function databaseReady(): Promise<void> {
   migrated ??= migrateLatest(useDb())
   return migrated
 }
+
+/** Closes the database's connections as the server stops (a PostgreSQL pool would otherwise keep the process alive). */
+export async function closeDatabase(): Promise<void> {
+  const db = instance
+  instance = undefined
+  migrated = undefined
+  await db?.destroy()
+}

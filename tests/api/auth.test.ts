@@ -1,6 +1,5 @@
-import Database from 'better-sqlite3'
-import { describe, expect, inject, it } from 'vitest'
-import { client, DEMO_PASSWORD, linkToken, uniqueEmail, waitForMail } from './helpers'
+import { describe, expect, it } from 'vitest'
+import { client, DEMO_PASSWORD, linkToken, sqlRows, uniqueEmail, waitForMail } from './helpers'
 
 /** A new account, signed up and verified through its e-mail link. */
 async function verifiedAccount(prefix: string, password: string): Promise<string> {
@@ -167,10 +166,8 @@ describe('password reset', () => {
     await client().post('/api/auth/forgot-password', { email })
     const mail = await waitForMail(email, /Reset your password/)
     const token = linkToken(mail, '/reset-password')
-    // Age the stored token past its expiry directly in the database file.
-    const db = new Database(inject('databasePath'))
-    db.prepare("update auth_tokens set expires_at = '2000-01-01T00:00:00.000Z' where purpose = 'reset-password' and used_at is null").run()
-    db.close()
+    // Age the stored token past its expiry directly in the database.
+    await sqlRows("update auth_tokens set expires_at = '2000-01-01T00:00:00.000Z' where purpose = 'reset-password' and used_at is null")
     const response = await client().post('/api/auth/reset-password', { token, password: 'another-new-secret' })
     expect(response.status).toBe(400)
     expect(response.body.message).toMatch(/expired/)

@@ -1,9 +1,8 @@
-import Database from 'better-sqlite3'
 import ICAL from 'ical.js'
 import { beforeAll, describe, expect, inject, it } from 'vitest'
 import type { ApiResponse } from '../../utils/api-types'
 import type { BookingList } from './answers'
-import { client, signedIn, waitForMail } from './helpers'
+import { client, signedIn, sqlRow, waitForMail } from './helpers'
 import { payCheckout, waitForPaymentState } from './payment-helpers'
 import { bookingBench, type BookingBench } from './workshop-setup'
 
@@ -66,13 +65,9 @@ describe('booking an approved job', () => {
     expect(statuses.filter((s) => s === 409)).toHaveLength(49)
     expect(responses.filter((r) => r.status === 409).every((r) => r.body.data.reason === 'overlap')).toBe(true)
 
-    const db = new Database(inject('databasePath'), { readonly: true })
-    const clashes = db
-      .prepare(`select count(*) as n from bookings a join bookings b on a.cutter_id = b.cutter_id and a.id < b.id
+    const clashes = await sqlRow<{ n: number }>(`select count(*) as n from bookings a join bookings b on a.cutter_id = b.cutter_id and a.id < b.id
                 where a.status != 'cancelled' and b.status != 'cancelled' and a.starts_at < b.ends_at and a.ends_at > b.starts_at`)
-      .get() as { n: number }
-    db.close()
-    expect(clashes.n).toBe(0)
+    expect(clashes!.n).toBe(0)
   })
 })
 

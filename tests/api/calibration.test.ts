@@ -1,7 +1,7 @@
-import Database from 'better-sqlite3'
-import { beforeAll, describe, expect, inject, it } from 'vitest'
+import { beforeAll, describe, expect, it } from 'vitest'
 import { plainPart } from '../fixtures/svg'
 import { bookingBench, type BookingBench } from './workshop-setup'
+import { sqlRows, sqlRow } from './helpers'
 
 let bench: BookingBench
 
@@ -27,18 +27,16 @@ describe('estimates that learn from actual minutes', () => {
     // Finished jobs whose real cutting ran 25 % slower than the model on every component (a hidden
     // correction written straight into the jobs table, as staff logging would leave it).
     const c = before.estimate.components
-    const db = new Database(inject('databasePath'))
-    const member = db.prepare("select id from users where email = 'member@example.test'").get() as { id: number }
-    const sheet = db.prepare('select id from material_sheets where material_id = ?').get(bench.materialId) as { id: number }
-    const insert = db.prepare(`insert into jobs (member_id, title, cutter_id, material_id, sheet_id, state, actual_minutes, estimated_cut_s, estimated_pierce_s, estimated_travel_s, estimated_setup_s, cut_finished_at)
-      values (?, ?, ?, ?, ?, 'collected', ?, ?, ?, ?, ?, ?)`)
+    const member = (await sqlRow<{ id: number }>("select id from users where email = 'member@example.test'"))!
+    const sheet = (await sqlRow<{ id: number }>('select id from material_sheets where material_id = ?', [bench.materialId]))!
+    const insert = (...values: unknown[]) => sqlRows(`insert into jobs (member_id, title, cutter_id, material_id, sheet_id, state, actual_minutes, estimated_cut_s, estimated_pierce_s, estimated_travel_s, estimated_setup_s, cut_finished_at)
+      values (?, ?, ?, ?, ?, 'collected', ?, ?, ?, ?, ?, ?)`, values)
     for (let i = 0; i < 12; i++) {
       const copies = 5 + i * 3
       const scale = copies / 20
       const motion = (c.cutS + c.pierceS + c.travelS) * scale
-      insert.run(member.id, `History ${i}`, bench.cutterId, bench.materialId, sheet.id, (c.setupS + 1.25 * motion) / 60, c.cutS * scale, c.pierceS * scale, c.travelS * scale, c.setupS, new Date(Date.UTC(2026, 5, 1 + i)).toISOString())
+      await insert(member.id, `History ${i}`, bench.cutterId, bench.materialId, sheet.id, (c.setupS + 1.25 * motion) / 60, c.cutS * scale, c.pierceS * scale, c.travelS * scale, c.setupS, new Date(Date.UTC(2026, 5, 1 + i)).toISOString())
     }
-    db.close()
 
     const after = await draftWithFile('After calibration', 20)
     const calibration = after.estimate.calibration

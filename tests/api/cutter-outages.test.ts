@@ -1,9 +1,8 @@
 // A cutter goes out of service: the members booked on it in the period are told at once (the mail is written with
 // the change), their bookings called off and their card holds released, new times offered, and the period refused.
-import Database from 'better-sqlite3'
-import { beforeAll, describe, expect, inject, it } from 'vitest'
+import { beforeAll, describe, expect, it } from 'vitest'
 import { describeLocal } from '../../server/services/workshop-time'
-import { client, DEMO_PASSWORD, linkToken, signedIn, uniqueEmail, waitForMail } from './helpers'
+import { client, DEMO_PASSWORD, linkToken, signedIn, sqlRows, uniqueEmail, waitForMail } from './helpers'
 import { payCheckout, waitForPaymentState } from './payment-helpers'
 import { bookingBench, type BookingBench, type Client } from './workshop-setup'
 
@@ -11,12 +10,7 @@ let bench: BookingBench
 let member: Client
 let memberEmail: string
 
-function query<T>(sql: string, ...params: unknown[]): T[] {
-  const db = new Database(inject('databasePath'), { readonly: true })
-  const rows = db.prepare(sql).all(...params) as T[]
-  db.close()
-  return rows
-}
+const query = <T>(sql: string, ...params: unknown[]) => sqlRows<T>(sql, params)
 
 /** A member of their own, signed off on the bench cutter, so no other test's bookings count against their weekly limit. */
 async function freshMember(prefix: string): Promise<{ member: Client; email: string }> {
@@ -58,17 +52,17 @@ describe('a cutter out of service', () => {
     expect(marked.body.calledOff.every((c: { holdReleased: boolean }) => c.holdReleased)).toBe(true)
 
     // Told at once: the mails were written in the change's transaction, before the answer came back.
-    const outbox = query<{ subject: string }>("select subject from mail_outbox where recipient = ? and subject like '%out of service%'", memberEmail)
+    const outbox = await query<{ subject: string }>("select subject from mail_outbox where recipient = ? and subject like '%out of service%'", memberEmail)
     expect(outbox).toHaveLength(2)
 
-    const bookings = query<{ id: number; status: string; outage_id: number | null }>('select id, status, outage_id from bookings where id in (?, ?, ?) order by id', paid.bookingId, unpaid.bookingId, later.bookingId)
+    const bookings = await query<{ id: number; status: string; outage_id: number | null }>('select id, status, outage_id from bookings where id in (?, ?, ?) order by id', paid.bookingId, unpaid.bookingId, later.bookingId)
     expect(bookings.find((b) => b.id === paid.bookingId)).toMatchObject({ status: 'cancelled', outage_id: marked.body.outage.id })
     expect(bookings.find((b) => b.id === unpaid.bookingId)).toMatchObject({ status: 'cancelled', outage_id: marked.body.outage.id })
     expect(bookings.find((b) => b.id === later.bookingId)).toMatchObject({ status: 'confirmed', outage_id: null })
     expect((await member.get(`/api/jobs/${paid.jobId}`)).body.state).toBe('approved')
 
     // The paid hold is given back in full through the payment service; nothing is captured.
-    const ledger = query<{ kind: string; amount_minor: number }>('select kind, amount_minor from payment_ledger where booking_id = ? order by id', paid.bookingId)
+    const ledger = await query<{ kind: string; amount_minor: number }>('select kind, amount_minor from payment_ledger where booking_id = ? order by id', paid.bookingId)
     expect(ledger.map((r) => r.kind)).toEqual(['authorised', 'released'])
     expect(ledger[1]!.amount_minor).toBe(paid.authorisedMinor)
     expect((await waitForPaymentState(member, paid.bookingId, 'released')).capturedMinor).toBe(0)
@@ -111,7 +105,7 @@ describe('a cutter out of service', () => {
     const extended = await bench.staff.patch(`/api/outages/${marked.body.outage.id}`, { expectedBackAt: bench.at(10, '20:00') })
     expect(extended.status).toBe(200)
     expect(extended.body.calledOff.map((c: { bookingId: number }) => c.bookingId)).toEqual([covered.bookingId])
-    expect(query<{ kind: string }>('select kind from payment_ledger where booking_id = ? order by id', covered.bookingId).map((r) => r.kind)).toEqual(['authorised', 'released'])
+    expect((await query<{ kind: string }>('select kind from payment_ledger where booking_id = ? order by id', covered.bookingId)).map((r) => r.kind)).toEqual(['authorised', 'released'])
     expect((await bench.staff.patch(`/api/outages/${marked.body.outage.id}`, { expectedBackAt: bench.at(-1, '20:00') })).status).toBe(400)
 
     const again = await member.post('/api/bookings', { jobId: covered.jobId, cutterId: bench.cutterId, start: bench.at(10, '10:00') })

@@ -1,9 +1,8 @@
-import Database from 'better-sqlite3'
 import { parseSync } from 'svgson'
 import { beforeAll, describe, expect, inject, it } from 'vitest'
 import { inZone } from '../../server/services/workshop-time'
 import type { RunSheet } from './answers'
-import { signedIn, waitForMail } from './helpers'
+import { signedIn, sqlRow, sqlRows, waitForMail } from './helpers'
 import { payCheckout, waitForPaymentState } from './payment-helpers'
 import { bookingBench, type BookingBench } from './workshop-setup'
 
@@ -85,9 +84,7 @@ describe('a cutting day through the API', () => {
     expect(finished.body.capturedMinor).toBe((3 + 5) * 100 + job.estimate.materialPriceMinor)
     expect((await waitForPaymentState(bench.member, booking.id, 'captured')).capturedMinor).toBe(finished.body.capturedMinor)
 
-    const db = new Database(inject('databasePath'), { readonly: true })
-    const recorded = db.prepare('select actual_minutes, estimated_minutes, sheets_used, estimated_cut_s from jobs where id = ?').get(jobId) as RecordedFinish
-    db.close()
+    const recorded = (await sqlRow<RecordedFinish>('select actual_minutes, estimated_minutes, sheets_used, estimated_cut_s from jobs where id = ?', [jobId]))!
     expect(recorded.actual_minutes).toBe(3)
     expect(recorded.estimated_minutes).toBeCloseTo(job.estimate.machineS / 60, 6)
     expect(recorded.sheets_used).toBe(job.estimate.sheetCount)
@@ -133,9 +130,7 @@ describe('a cutting day through the API', () => {
     await bench.staff.post(`/api/jobs/${jobId}/start`)
     await bench.staff.post(`/api/jobs/${jobId}/finish`, { actualMinutes: 3 })
     await bench.staff.post(`/api/jobs/${jobId}/ready`, { location: 'Rack 2' })
-    const db = new Database(inject('databasePath'))
-    db.prepare("update jobs set ready_at = '2026-01-01T00:00:00.000Z' where id = ?").run(jobId)
-    db.close()
+    await sqlRows("update jobs set ready_at = '2026-01-01T00:00:00.000Z' where id = ?", [jobId])
     expect((await bench.admin.post('/api/admin/tasks/pickup-reminders')).body.sent).toBeGreaterThanOrEqual(1)
     expect((await bench.admin.post('/api/admin/tasks/pickup-reminders')).body.sent).toBe(0)
     await waitForMail('member@example.test', /still waiting: Left on the shelf/)

@@ -1,9 +1,36 @@
 // Shared helpers for API tests: a cookie-keeping client per actor, and the mail sink.
 /* eslint-disable @typescript-eslint/no-explicit-any -- a test reads whatever JSON a route answers */
-import Database from 'better-sqlite3'
-import { inject } from 'vitest'
+import type { Knex } from 'knex'
+import { afterAll, inject } from 'vitest'
+import { isPostgres } from '../../db/dialect'
+import { openDatabase } from '../../db/index'
 
 export const DEMO_PASSWORD = 'kerfbook-demo'
+
+const openDatabases = new Map<string, Knex>()
+afterAll(async () => {
+  for (const db of openDatabases.values()) await db.destroy()
+  openDatabases.clear()
+})
+
+/** The app's database as the test run set it up (SQLite file or PostgreSQL), opened once per test file. */
+export function appDb(location = inject('databaseLocation')): Knex {
+  let db = openDatabases.get(location)
+  if (!db) openDatabases.set(location, (db = openDatabase(location)))
+  return db
+}
+
+/** Rows of one SQL statement (`?` placeholders) on the app's database, whichever it is. */
+export async function sqlRows<T = any>(sql: string, params: readonly unknown[] = [], location = inject('databaseLocation')): Promise<T[]> {
+  const db = appDb(location)
+  const result = await db.raw(sql, params as Knex.RawBinding[])
+  return (isPostgres(db) ? result.rows : result) as T[]
+}
+
+/** The first row of one SQL statement, or undefined. */
+export async function sqlRow<T = any>(sql: string, params: readonly unknown[] = [], location = inject('databaseLocation')): Promise<T | undefined> {
+  return (await sqlRows<T>(sql, params, location))[0]
+}
 
 export interface ApiResponse<T = unknown> {
   status: number
@@ -45,6 +72,11 @@ export function client(ip = `10.0.${Math.floor(Math.random() * 250)}.${++address
     /** multipart/form-data, as a browser upload sends it. */
     form: <T = any>(path: string, form: FormData) => request<T>('POST', path, undefined, form),
     hasCookie: () => cookie !== '',
+    /** The session cookie (name=value), to carry the session to another app server. */
+    cookie: () => cookie,
+    useCookie: (value: string) => {
+      cookie = value
+    },
     /** A binary answer; fetch undoes a Content-Encoding as a browser does. */
     bytes: async (path: string, headers: Record<string, string> = {}) => {
       const response = await fetch(baseUrl + path, { headers: { 'x-forwarded-for': ip, ...(cookie ? { cookie } : {}), ...headers } })
@@ -72,9 +104,7 @@ export interface SinkMessage {
 export async function outboxDrained(timeoutMs = 10_000): Promise<void> {
   const deadline = Date.now() + timeoutMs
   while (Date.now() < deadline) {
-    const db = new Database(inject('databasePath'), { readonly: true })
-    const { n } = db.prepare("select count(*) as n from mail_outbox where status in ('pending', 'sending')").get() as { n: number }
-    db.close()
+    const { n } = (await sqlRow<{ n: number }>("select count(*) as n from mail_outbox where status in ('pending', 'sending')"))!
     if (n === 0) return
     await new Promise((r) => setTimeout(r, 50))
   }
@@ -108,7 +138,12 @@ export function uniqueEmail(prefix: string): string {
  * A new job of `member` on the demo's CO₂ laser in 3 mm birch plywood with one SVG file uploaded and analysed:
  * the set-up most journeys start from.
  */
-export async function laserPlywoodJob(member: ReturnType<typeof client>, title: string, svg: string, fileName: string): Promise<{ jobId: number; fileId: number }> {
+export async function laserPlywoodJob(
+  member: ReturnType<typeof client>,
+  title: string,
+  svg: string,
+  fileName: string,
+): Promise<{ jobId: number; fileId: number }> {
   const overview = (await member.get('/api/catalog/overview')).body as { name: string; cutterId: number; materials: { name: string; materialId: number }[] }[]
   const heron = overview.find((c) => c.name.startsWith('Heron'))!
   const created = await member.post('/api/jobs', { title, cutterId: heron.cutterId, materialId: heron.materials.find((m) => m.name === 'Birch plywood')!.materialId })

@@ -1,6 +1,7 @@
 // The overview per role: what each one shows, and that each is read with a fixed number of queries whatever
 // the number of jobs, bookings and cutters (counted on the test server's own database).
-import knex, { type Knex } from 'knex'
+import type { Knex } from 'knex'
+import { openDatabase } from '../../db/index'
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import { adminHome, memberHome, staffHome } from '../../server/services/home'
 import { plainPart } from '../fixtures/svg'
@@ -14,7 +15,7 @@ let memberId: number
 
 beforeAll(async () => {
   bench = await bookingBench()
-  db = knex({ client: 'better-sqlite3', connection: { filename: inject('databasePath'), options: { readonly: true } }, useNullAsDefault: true })
+  db = openDatabase(inject('databaseLocation'))
   memberId = ((await bench.staff.get('/api/staff/members')).body as { id: number; email: string }[]).find((m) => m.email === 'member@example.test')!.id
 })
 

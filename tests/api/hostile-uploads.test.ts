@@ -2,13 +2,12 @@
 // message, leave no rows and no stored file behind, and leave the server answering with its memory
 // back near where it was. The corpus is tests/fixtures/hostile/; the big cases are made here.
 import { readdirSync, readFileSync } from 'node:fs'
-import { dirname, join } from 'node:path'
+import { join } from 'node:path'
 import { fileURLToPath } from 'node:url'
-import Database from 'better-sqlite3'
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import { plainPart } from '../fixtures/svg'
 import type { CatalogOverview } from './answers'
-import { signedIn } from './helpers'
+import { signedIn, sqlRow } from './helpers'
 
 const CORPUS = fileURLToPath(new URL('../fixtures/hostile/', import.meta.url))
 const MB = 1024 * 1024
@@ -63,11 +62,9 @@ function uploadForm(upload: HostileUpload): FormData {
   return form
 }
 
-function storedState() {
-  const db = new Database(inject('databasePath'), { readonly: true })
-  const rows = ['job_files', 'file_revisions'].map((table) => (db.prepare(`select count(*) as n from ${table}`).get() as { n: number }).n)
-  db.close()
-  const uploads = join(dirname(inject('databasePath')), 'uploads')
+async function storedState() {
+  const rows = await Promise.all(['job_files', 'file_revisions'].map(async (table) => (await sqlRow<{ n: number }>(`select count(*) as n from ${table}`))!.n))
+  const uploads = inject('uploadsDir')
   let files: string[] = []
   try {
     files = readdirSync(uploads, { recursive: true, withFileTypes: true }).filter((e) => e.isFile()).map((e) => join(e.parentPath, e.name))
@@ -87,7 +84,7 @@ describe('hostile uploads', () => {
   let member: Awaited<ReturnType<typeof signedIn>>
   let jobId: number
   let rssBeforeMb: number
-  let stateBefore: ReturnType<typeof storedState>
+  let stateBefore: Awaited<ReturnType<typeof storedState>>
 
   beforeAll(async () => {
     member = await signedIn('member@example.test')
@@ -99,7 +96,7 @@ describe('hostile uploads', () => {
     const good = new FormData()
     good.set('file', new Blob([plainPart()], { type: 'image/svg+xml' }), 'good.svg')
     expect((await member.form('/api/analysis', good)).status).toBe(200)
-    stateBefore = storedState()
+    stateBefore = await storedState()
     rssBeforeMb = serverRssMb()
   })
 
@@ -127,8 +124,8 @@ describe('hostile uploads', () => {
 
   afterAll(() => undefined)
 
-  it('kept no rows and no stored file from any of them', () => {
-    expect(storedState()).toEqual(stateBefore)
+  it('kept no rows and no stored file from any of them', async () => {
+    expect(await storedState()).toEqual(stateBefore)
   })
 
   it('still answers, and keeps nothing of them: a second pass of the corpus leaves memory where the first did', async () => {
@@ -186,10 +183,8 @@ describe('honest files and hostile names', () => {
       form.set('file', new Blob([honest], { type: 'image/svg+xml' }), sent)
       const added = await member.form(`/api/jobs/${job.body.id}/files`, form)
       expect(added.status, JSON.stringify(added.body).slice(0, 300)).toBe(201)
-      const db = new Database(inject('databasePath'), { readonly: true })
-      const row = db.prepare('select name from job_files where id = ?').get(added.body.fileId) as { name: string }
-      db.close()
-      check(row.name)
+      const row = await sqlRow<{ name: string }>('select name from job_files where id = ?', [added.body.fileId])
+      check(row!.name)
     }
   })
 })

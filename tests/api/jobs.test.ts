@@ -1,12 +1,11 @@
 import { existsSync, readdirSync, readFileSync } from 'node:fs'
-import { dirname, join } from 'node:path'
-import Database from 'better-sqlite3'
+import { join } from 'node:path'
 import { describe, expect, inject, it } from 'vitest'
 import { crossingCuts, plainPart, slitPair } from '../fixtures/svg'
 import { decodeGeometry } from '../../shared/packed-analysis'
 import type { CatalogOverview, JobDetail, JobList, Materials } from './answers'
 import type { client } from './helpers'
-import { signedIn, waitForMail } from './helpers'
+import { signedIn, sqlRow, waitForMail } from './helpers'
 
 function fileForm(svg: string, name: string, quantity = 1) {
   const form = new FormData()
@@ -28,11 +27,8 @@ async function newJob(member: ReturnType<typeof client>, title = 'Folding lamp s
   return created.body.id as number
 }
 
-function eventCount(jobId: number): number {
-  const db = new Database(inject('databasePath'), { readonly: true })
-  const row = db.prepare('select count(*) as n from job_events where job_id = ?').get(jobId) as { n: number }
-  db.close()
-  return row.n
+async function eventCount(jobId: number): Promise<number> {
+  return (await sqlRow<{ n: number }>('select count(*) as n from job_events where job_id = ?', [jobId]))!.n
 }
 
 describe('uploading files to a job', () => {
@@ -63,7 +59,7 @@ describe('uploading files to a job', () => {
     expect(job.estimate.totalPriceMinor).toBe(job.estimate.machinePriceMinor + job.estimate.materialPriceMinor)
 
     // Nothing of the hostile upload was kept or can come back in a page.
-    const uploads = join(dirname(inject('databasePath')), 'uploads')
+    const uploads = inject('uploadsDir')
     const stored = existsSync(uploads) ? readdirSync(uploads).flatMap((d) => readdirSync(join(uploads, d)).map((f) => readFileSync(join(uploads, d, f), 'utf8'))) : []
     expect(stored.some((text) => text.includes('owned'))).toBe(false)
     const page = await fetch(`${inject('baseUrl')}/jobs/${jobId}`, { headers: { accept: 'text/html' } })
@@ -119,20 +115,20 @@ describe('the way through review', () => {
     const staff = await signedIn('staff@example.test')
     const jobId = await newJob(member, 'Pavilion shingles')
     await member.form(`/api/jobs/${jobId}/files`, fileForm(plainPart(), 'shingle.svg', 3))
-    const before = eventCount(jobId)
+    const before = await eventCount(jobId)
 
     expect((await member.post(`/api/jobs/${jobId}/approve`)).status).toBe(403)
     expect((await staff.post(`/api/jobs/${jobId}/approve`)).status).toBe(409)
-    expect(eventCount(jobId)).toBe(before)
+    expect(await eventCount(jobId)).toBe(before)
 
     expect((await member.post(`/api/jobs/${jobId}/submit`, {})).status).toBe(200)
-    expect(eventCount(jobId)).toBe(before + 1)
+    expect(await eventCount(jobId)).toBe(before + 1)
     const toStaff = await waitForMail('staff@example.test', /New job to review: Pavilion shingles/)
     expect(toStaff.text).toContain(`/jobs/${jobId}`)
 
     expect((await staff.post(`/api/jobs/${jobId}/request-changes`, { comment: '' })).status).toBe(400)
     expect((await staff.post(`/api/jobs/${jobId}/request-changes`, { comment: 'Please add a 5 mm margin around the shingles.' })).status).toBe(200)
-    expect(eventCount(jobId)).toBe(before + 2)
+    expect(await eventCount(jobId)).toBe(before + 2)
     const changes = await waitForMail('member@example.test', /Changes asked for: Pavilion shingles/)
     expect(changes.text).toContain('5 mm margin')
 
@@ -140,7 +136,7 @@ describe('the way through review', () => {
     const approved = await staff.post(`/api/jobs/${jobId}/approve`, {})
     expect(approved.status).toBe(200)
     expect(approved.body).toMatchObject({ from: 'submitted', to: 'approved' })
-    expect(eventCount(jobId)).toBe(before + 4)
+    expect(await eventCount(jobId)).toBe(before + 4)
     await waitForMail('member@example.test', /Approved: Pavilion shingles/)
 
     const job = (await member.get<JobDetail>(`/api/jobs/${jobId}`)).body

@@ -3,13 +3,13 @@
 // then holds its answer, so the capture happens and the app never hears of it; the test then kills the app (SIGKILL)
 // and starts it again on the same database. What the app wrote before the capture is all it has to go on.
 import { createServer, request as httpRequest, type IncomingMessage, type Server, type ServerResponse } from 'node:http'
-import Database from 'better-sqlite3'
 import Stripe from 'stripe'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import { startBuiltApp, type BuiltApp } from '../../scripts/lib/built-app'
 import { freePort } from '../../scripts/lib/free-port'
 import { waitForPaymentState } from './payment-helpers'
 import { bookingBench, type BookingBench } from './workshop-setup'
+import { sqlRow } from './helpers'
 
 let app: BuiltApp
 let relay: Server
@@ -40,7 +40,7 @@ beforeAll(async () => {
   const port = await freePort()
   relay = createServer(relayRequest)
   await new Promise<void>((resolve) => relay.listen(port, '127.0.0.1', resolve))
-  app = await startBuiltApp({ name: 'kerfbook-payment-crash', env: { STRIPE_API_BASE: `http://127.0.0.1:${port}`, TRUST_PROXY: '1' } })
+  app = await startBuiltApp({ name: 'kerfbook-payment-crash', postgresUrl: inject('postgresUrl'), env: { STRIPE_API_BASE: `http://127.0.0.1:${port}`, TRUST_PROXY: '1' } })
   stripeFakeUrl = app.stripeFakeUrl
 })
 
@@ -50,11 +50,8 @@ afterAll(async () => {
   await app?.stop()
 })
 
-function row<T>(sql: string, ...params: unknown[]): T {
-  const db = new Database(app.databasePath, { readonly: true })
-  const found = db.prepare(sql).get(...params) as T
-  db.close()
-  return found
+async function row<T>(sql: string, ...params: unknown[]): Promise<T> {
+  return (await sqlRow<T>(sql, params, app.databaseLocation))!
 }
 
 /** Pays the fake's hosted checkout with the card that authorises. */
@@ -74,7 +71,7 @@ async function onTheMachine(bench: BookingBench, title: string, day: number) {
   await pay(booking.checkoutUrl)
   await waitForPaymentState(bench.member, booking.id, 'authorised')
   expect((await bench.staff.post(`/api/jobs/${jobId}/start`)).status).toBe(200)
-  const intentId = row<{ payment_intent_id: string }>('select payment_intent_id from bookings where id = ?', booking.id).payment_intent_id
+  const intentId = (await row<{ payment_intent_id: string }>('select payment_intent_id from bookings where id = ?', booking.id)).payment_intent_id
   return { jobId, bookingId: booking.id as number, intentId }
 }
 
@@ -97,20 +94,20 @@ describe('a finish whose server dies between the capture and the commit', () => 
     for (const cut of [retried, reconciled]) {
       expect((await stripe.paymentIntents.retrieve(cut.intentId)).amount_received).toBe(quote.captureMinor)
       // All the server kept: the job still on the machine, with the finish it had noted before the capture.
-      expect(row('select state, finishing_minutes, actual_minutes from jobs where id = ?', cut.jobId)).toEqual({ state: 'cutting', finishing_minutes: 2, actual_minutes: null })
+      expect(await row('select state, finishing_minutes, actual_minutes from jobs where id = ?', cut.jobId)).toEqual({ state: 'cutting', finishing_minutes: 2, actual_minutes: null })
     }
 
     // Staff try again with fewer minutes: no 502 (no second capture), and what was captured beyond goes back to the card.
     const again = await bench.staff.post(`/api/jobs/${retried.jobId}/finish`, { actualMinutes: 1 })
     expect(again.status).toBe(200)
     expect(again.body.chargeMinor).toBe(quote.chargeMinor - 100)
-    expect(row('select state, actual_minutes, finishing_since from jobs where id = ?', retried.jobId)).toEqual({ state: 'cut', actual_minutes: 1, finishing_since: null })
+    expect(await row('select state, actual_minutes, finishing_since from jobs where id = ?', retried.jobId)).toEqual({ state: 'cut', actual_minutes: 1, finishing_since: null })
     const refunded = await waitForPaymentState(bench.member, retried.bookingId, 'partly-refunded')
     expect(refunded.capturedMinor - refunded.refundedMinor).toBe(again.body.chargeMinor)
 
     // Nobody touches the other one: the reconcile duty finds its captured PaymentIntent and commits the noted finish.
     expect((await bench.admin.post('/api/admin/tasks/reconcile-payments')).body.finished).toBe(1)
-    expect(row('select state, actual_minutes, finishing_since from jobs where id = ?', reconciled.jobId)).toEqual({ state: 'cut', actual_minutes: 2, finishing_since: null })
+    expect(await row('select state, actual_minutes, finishing_since from jobs where id = ?', reconciled.jobId)).toEqual({ state: 'cut', actual_minutes: 2, finishing_since: null })
     expect((await waitForPaymentState(bench.member, reconciled.bookingId, 'captured')).capturedMinor).toBe(quote.chargeMinor)
     expect((await bench.admin.post('/api/admin/tasks/reconcile-payments')).body.finished).toBe(0)
   })

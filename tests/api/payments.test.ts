@@ -1,11 +1,10 @@
-import Database from 'better-sqlite3'
 import Stripe from 'stripe'
 import { beforeAll, describe, expect, inject, it } from 'vitest'
 import { stripeSignatureHeader } from '../../scripts/lib/stripe-fake/index'
 import { plainPart } from '../fixtures/svg'
 import { CARD_ASKS_TO_CONFIRM, CARD_DECLINED, countMail, payCheckout, settle, waitForPaymentState } from './payment-helpers'
 import { inZone } from '../../server/services/workshop-time'
-import { signedIn, waitForMail } from './helpers'
+import { signedIn, sqlRows, waitForMail } from './helpers'
 import { bookingBench, type BookingBench } from './workshop-setup'
 
 let bench: BookingBench
@@ -15,11 +14,8 @@ beforeAll(async () => {
   bench = await bookingBench()
 })
 
-function ledger(bookingId: number): { kind: string; amount_minor: number }[] {
-  const db = new Database(inject('databasePath'), { readonly: true })
-  const rows = db.prepare('select kind, amount_minor from payment_ledger where booking_id = ? order by id').all(bookingId) as { kind: string; amount_minor: number }[]
-  db.close()
-  return rows
+function ledger(bookingId: number): Promise<{ kind: string; amount_minor: number }[]> {
+  return sqlRows('select kind, amount_minor from payment_ledger where booking_id = ? order by id', [bookingId])
 }
 
 async function bookedJob(title: string, start = bench.at(day++, '09:00')) {
@@ -82,7 +78,7 @@ describe('holding the estimate and charging the minutes used', () => {
     expect(finished.body.balanceMinor).toBe(0)
     const settled = await waitForPaymentState(bench.member, booking.id, 'captured')
     expect(settled.capturedMinor).toBe(expected)
-    expect(ledger(booking.id).map((r) => r.kind)).toEqual(['authorised', 'captured'])
+    expect((await ledger(booking.id)).map((r) => r.kind)).toEqual(['authorised', 'captured'])
     expect((await waitForMail('member@example.test', /Receipt for your cut/)).text).toContain('37 machine minutes used')
 
     // A staff refund after capture, with a reason; never more than is left.
@@ -165,7 +161,7 @@ describe('holding the estimate and charging the minutes used', () => {
       expect(cancelled.body.feeMinor).toBe(percentOf(booking.estimateMinor, 50))
       const state = await waitForPaymentState(bench.member, booking.id, 'captured')
       expect(state.capturedMinor).toBe(percentOf(booking.estimateMinor, 50))
-      expect(ledger(booking.id).map((r) => r.kind)).toEqual(['authorised', 'fee'])
+      expect((await ledger(booking.id)).map((r) => r.kind)).toEqual(['authorised', 'fee'])
     } finally {
       await bench.admin.patch('/api/admin/settings', { freeCancellationHours: 24 })
     }
@@ -199,15 +195,13 @@ describe('holding the estimate and charging the minutes used', () => {
     const declined = await payCheckout(booking.checkoutUrl, CARD_DECLINED)
     expect(declined.status).toBeLessThan(500)
     await new Promise((r) => setTimeout(r, 300))
-    expect(ledger(booking.id)).toEqual([])
-    const db = new Database(inject('databasePath'))
-    db.prepare("update bookings set hold_expires_at = '2000-01-01T00:00:00.000Z' where id = ?").run(booking.id)
-    db.close()
+    expect(await ledger(booking.id)).toEqual([])
+    await sqlRows("update bookings set hold_expires_at = '2000-01-01T00:00:00.000Z' where id = ?", [booking.id])
     expect((await bench.admin.post('/api/admin/tasks/release-holds')).body.released).toBeGreaterThanOrEqual(1)
     expect((await bench.member.get(`/api/jobs/${jobId}`)).body.state).toBe('approved')
     // No hold ever existed, so nothing is "released" either.
     await new Promise((r) => setTimeout(r, 300))
-    expect(ledger(booking.id)).toEqual([])
+    expect(await ledger(booking.id)).toEqual([])
   })
 })
 
@@ -225,7 +219,7 @@ describe('webhooks', () => {
     expect((await fetch(`${inject('baseUrl')}/api/webhooks/stripe`, { method: 'POST', body: forged })).status).toBe(400)
     const stale = Math.floor(Date.now() / 1000) - 600
     expect((await post(forged, stripeSignatureHeader(forged, inject('stripeWebhookSecret'), stale))).status).toBe(400)
-    expect(ledger(booking.id)).toEqual([])
+    expect(await ledger(booking.id)).toEqual([])
   })
 
   it('counts an event delivered ten times once', async () => {
@@ -239,7 +233,7 @@ describe('webhooks', () => {
       const response = await post(payload, stripeSignatureHeader(payload, inject('stripeWebhookSecret'), Math.floor(Date.now() / 1000)))
       expect(response.status).toBe(200)
     }
-    expect(ledger(booking.id)).toHaveLength(1)
+    expect(await ledger(booking.id)).toHaveLength(1)
   })
 
   it('mails each money event once: one "Payment received", one receipt, and nothing for ten replays', async () => {
@@ -276,6 +270,6 @@ describe('webhooks', () => {
     }
     await settle()
     expect(await countMail(member, /./)).toBe(all)
-    expect(ledger(booking.id).map((r) => r.kind)).toEqual(['authorised', 'captured'])
+    expect((await ledger(booking.id)).map((r) => r.kind)).toEqual(['authorised', 'captured'])
   })
 })

@@ -1,13 +1,12 @@
 // Reports against the tables they summarise: a day of bookings, payments, cuts and reviews on a cutter of
 // this file's own, then every report's totals recomputed straight from the database, and every CSV read back.
-import Database from 'better-sqlite3'
 import { DateTime } from 'luxon'
 import Papa from 'papaparse'
-import { beforeAll, describe, expect, inject, it } from 'vitest'
+import { beforeAll, describe, expect, it } from 'vitest'
 import { median, nearestRankPercentile } from '../../server/services/reports/statistics'
 import type { ReportByName, ReportName } from '../../shared/schemas/reports'
 import { plainPart } from '../fixtures/svg'
-import { signedIn } from './helpers'
+import { signedIn, sqlRows } from './helpers'
 import { payCheckout, waitForPaymentState } from './payment-helpers'
 import { bookingBench, type BookingBench, type Client } from './workshop-setup'
 
@@ -16,12 +15,7 @@ let ines: Client
 let range: { from: string; to: string; fromIso: string; toIso: string }
 const finishedMinutes = [37, 12.5, 20]
 
-function query<T>(sql: string, ...params: unknown[]): T[] {
-  const db = new Database(inject('databasePath'), { readonly: true })
-  const rows = db.prepare(sql).all(...params) as T[]
-  db.close()
-  return rows
-}
+const query = <T>(sql: string, ...params: unknown[]) => sqlRows<T>(sql, params)
 
 const sum = <T>(rows: T[], value: (row: T) => number) => rows.reduce((total, row) => total + value(row), 0)
 const minutesOf = (from: string, to: string) => (Date.parse(to) - Date.parse(from)) / 60_000
@@ -80,8 +74,8 @@ beforeAll(async () => {
 describe('report totals equal sums over the tables', () => {
   it('utilisation: opening minutes less closures, live job bookings, minutes logged at finish', async () => {
     const { rows } = await report('utilisation')
-    const hours = query<{ weekday: number; opens_at: string; closes_at: string }>('select weekday, opens_at, closes_at from opening_hours where cutter_id = ?', bench.cutterId)
-    const closures = query<{ starts_at: string; ends_at: string }>('select starts_at, ends_at from closures where (cutter_id is null or cutter_id = ?) and starts_at < ? and ends_at > ?', bench.cutterId, range.toIso, range.fromIso)
+    const hours = await query<{ weekday: number; opens_at: string; closes_at: string }>('select weekday, opens_at, closes_at from opening_hours where cutter_id = ?', bench.cutterId)
+    const closures = await query<{ starts_at: string; ends_at: string }>('select starts_at, ends_at from closures where (cutter_id is null or cutter_id = ?) and starts_at < ? and ends_at > ?', bench.cutterId, range.toIso, range.fromIso)
     let openMinutes = 0
     for (let day = DateTime.fromISO(range.from, { zone: bench.zone }); day.toISODate()! < range.to; day = day.plus({ days: 1 })) {
       for (const period of hours.filter((h) => h.weekday === day.weekday)) {
@@ -91,11 +85,11 @@ describe('report totals equal sums over the tables', () => {
         openMinutes += minutesOf(opens, closes) - closed
       }
     }
-    const bookings = query<{ starts_at: string; ends_at: string }>(
+    const bookings = await query<{ starts_at: string; ends_at: string }>(
       "select starts_at, ends_at from bookings where cutter_id = ? and kind = 'job' and status != 'cancelled' and (hold_expires_at is null or hold_expires_at > ?) and starts_at < ? and ends_at > ?",
       bench.cutterId, new Date().toISOString(), range.toIso, range.fromIso,
     )
-    const cut = query<{ actual_minutes: number }>('select actual_minutes from jobs where cutter_id = ? and cut_finished_at >= ? and cut_finished_at < ?', bench.cutterId, range.fromIso, range.toIso)
+    const cut = await query<{ actual_minutes: number }>('select actual_minutes from jobs where cutter_id = ? and cut_finished_at >= ? and cut_finished_at < ?', bench.cutterId, range.fromIso, range.toIso)
 
     expect(rows.length).toBeGreaterThanOrEqual(5)
     expect(sum(rows, (r) => r.openMinutes)).toBeCloseTo(openMinutes, 6)
@@ -108,7 +102,7 @@ describe('report totals equal sums over the tables', () => {
 
   it('revenue: captured + fee + charged − refunded of the cutter’s bookings, holds left out', async () => {
     const { rows } = await report('revenue')
-    const ledger = query<{ kind: string; amount_minor: number; currency: string }>(
+    const ledger = await query<{ kind: string; amount_minor: number; currency: string }>(
       'select l.kind, l.amount_minor, l.currency from payment_ledger l join bookings b on b.id = l.booking_id where b.cutter_id = ? and l.created_at >= ? and l.created_at < ?',
       bench.cutterId, range.fromIso, range.toIso,
     )
@@ -124,7 +118,7 @@ describe('report totals equal sums over the tables', () => {
 
   it('minutes by member: the utilisation’s booked minutes split by member, and the minutes cut', async () => {
     const [{ rows }, utilisation] = await Promise.all([report('minutes-by-member'), report('utilisation')])
-    const cut = query<{ member_id: number; actual_minutes: number }>('select member_id, actual_minutes from jobs where cutter_id = ? and cut_finished_at >= ? and cut_finished_at < ?', bench.cutterId, range.fromIso, range.toIso)
+    const cut = await query<{ member_id: number; actual_minutes: number }>('select member_id, actual_minutes from jobs where cutter_id = ? and cut_finished_at >= ? and cut_finished_at < ?', bench.cutterId, range.fromIso, range.toIso)
     expect(sum(rows, (r) => r.bookedMinutes)).toBeCloseTo(sum(utilisation.rows, (r) => r.bookedMinutes), 6)
     expect(sum(rows, (r) => r.cutMinutes)).toBeCloseTo(sum(cut, (j) => j.actual_minutes), 6)
     const inesRow = rows.find((r) => r.memberId === cut[0]!.member_id)
@@ -133,7 +127,7 @@ describe('report totals equal sums over the tables', () => {
 
   it('materials: sheets recorded at finish, by material', async () => {
     const { rows } = await report('materials')
-    const jobs = query<{ material_id: number; sheets_used: number | null }>('select material_id, sheets_used from jobs where cutter_id = ? and cut_finished_at >= ? and cut_finished_at < ?', bench.cutterId, range.fromIso, range.toIso)
+    const jobs = await query<{ material_id: number; sheets_used: number | null }>('select material_id, sheets_used from jobs where cutter_id = ? and cut_finished_at >= ? and cut_finished_at < ?', bench.cutterId, range.fromIso, range.toIso)
     expect(rows.map((r) => r.materialId)).toEqual([bench.materialId])
     expect(rows[0]).toMatchObject({
       finishedJobs: 3,
@@ -145,7 +139,7 @@ describe('report totals equal sums over the tables', () => {
 
   it('jobs by state: the cutter’s jobs created in the range, every state listed', async () => {
     const { rows } = await report('jobs-by-state')
-    const counts = query<{ state: string; jobs: number }>('select state, count(*) as jobs from jobs where cutter_id = ? and created_at >= ? and created_at < ? group by state', bench.cutterId, range.fromIso, range.toIso)
+    const counts = await query<{ state: string; jobs: number }>('select state, count(*) as jobs from jobs where cutter_id = ? and created_at >= ? and created_at < ? group by state', bench.cutterId, range.fromIso, range.toIso)
     expect(rows.filter((r) => r.jobs > 0).map((r) => [r.state, r.jobs]).sort()).toEqual(counts.map((c) => [c.state, c.jobs]).sort())
     expect(rows.find((r) => r.state === 'cut')?.jobs).toBe(3)
     expect(rows).toHaveLength(12)
@@ -153,7 +147,7 @@ describe('report totals equal sums over the tables', () => {
 
   it('turnaround: each submission to its first review, median and mean of the hours', async () => {
     const { rows, summary } = await report('turnaround')
-    const events = query<{ job_id: number; to_state: string; created_at: string }>(
+    const events = await query<{ job_id: number; to_state: string; created_at: string }>(
       "select e.job_id, e.to_state, e.created_at from job_events e join jobs j on j.id = e.job_id where j.cutter_id = ? and e.from_state = 'submitted' and e.to_state in ('approved', 'changes_requested', 'rejected') order by e.id",
       bench.cutterId,
     )
@@ -168,7 +162,7 @@ describe('report totals equal sums over the tables', () => {
 
   it('estimate accuracy: estimate without setup against minutes logged, median and nearest-rank 90th percentile', async () => {
     const [accuracy, points] = await Promise.all([report('estimate-accuracy'), report('estimate-points')])
-    const jobs = query<{ id: number; estimated_minutes: number; estimated_setup_s: number; actual_minutes: number }>(
+    const jobs = await query<{ id: number; estimated_minutes: number; estimated_setup_s: number; actual_minutes: number }>(
       'select id, estimated_minutes, estimated_setup_s, actual_minutes from jobs where cutter_id = ? and cut_finished_at >= ? and cut_finished_at < ? and estimated_minutes is not null order by id',
       bench.cutterId, range.fromIso, range.toIso,
     )

@@ -2,10 +2,8 @@
 // "METHOD /path/:param" as the file name spells it. tests/api/authorization-matrix.test.ts calls
 // every route as each caller and fails on any route file without an entry here.
 import { randomBytes } from 'node:crypto'
-import Database from 'better-sqlite3'
-import { inject } from 'vitest'
 import { plainPart } from '../fixtures/svg'
-import { client, signedIn } from './helpers'
+import { client, signedIn, sqlRow } from './helpers'
 import { bookingBench, type BookingBench, type Client } from './workshop-setup'
 
 /** The callers of the matrix: `member` owns the objects built for it, `otherMember` does not. */
@@ -44,11 +42,8 @@ export interface RouteAccess {
   pathIsCredential?: boolean
 }
 
-function newestMailId(): number {
-  const db = new Database(inject('databasePath'), { readonly: true })
-  const row = db.prepare('select max(id) as id from mail_outbox').get() as { id: number | null }
-  db.close()
-  return row.id ?? 1
+async function newestMailId(): Promise<number> {
+  return (await sqlRow<{ id: number | null }>('select max(id) as id from mail_outbox'))?.id ?? 1
 }
 
 const everyone = (expected: Expected): Policy => ({ anonymous: expected, member: expected, otherMember: expected, staff: expected, admin: expected })
@@ -302,7 +297,7 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   // The member's own balance (409 while nothing is owed); another member is not told the booking exists.
   'GET /api/staff/mail-outbox': { policy: staffOnly('ok') },
   // The newest mail in the outbox (delivered: a 409 once through the guard).
-  'POST /api/staff/mail-outbox/:id/retry': { policy: staffOnly(), params: () => ({ id: newestMailId() }) },
+  'POST /api/staff/mail-outbox/:id/retry': { policy: staffOnly(), params: async () => ({ id: await newestMailId() }) },
   'POST /api/payments/:bookingId/balance': { policy: ownerAndStaff(), params: (w) => ({ bookingId: w.bookingId }) },
   // Anyone may knock; only a valid Stripe-Signature gets in (an unsigned call is a 400).
   'POST /api/webhooks/stripe': { policy: PUBLIC },

@@ -3,7 +3,7 @@
 import knex, { type Knex } from 'knex'
 import { afterEach, describe, expect, it } from 'vitest'
 import { migrationSource } from '../../db/migrations/index'
-import { isTriggerRefusal } from '../../server/utils/sqlite'
+import { isOverlapRefusal } from '../../server/utils/database-errors'
 
 let db: Knex | undefined
 
@@ -27,12 +27,12 @@ async function memoryDb(last?: string): Promise<Knex> {
 const booking = (uid: string, startsAt: string, endsAt: string) => ({ cutter_id: 1, kind: 'block', starts_at: startsAt, ends_at: endsAt, status: 'confirmed', ical_uid: uid })
 const overlapTriggers = async (db: Knex) => (await db.raw("SELECT name FROM sqlite_master WHERE type = 'trigger' AND name LIKE 'bookings_no_overlap_%'")).length
 
-describe('isTriggerRefusal', () => {
+describe('isOverlapRefusal', () => {
   it('recognises the overlap trigger refusing a second booking of the same minutes', async () => {
     const db = await memoryDb()
     await db('bookings').insert(booking('a@test', '2026-12-01T09:00:00.000Z', '2026-12-01T10:00:00.000Z'))
     const error = await db('bookings').insert(booking('b@test', '2026-12-01T09:30:00.000Z', '2026-12-01T10:30:00.000Z')).catch((e: unknown) => e)
-    expect(isTriggerRefusal(error)).toBe(true)
+    expect(isOverlapRefusal(error)).toBe(true)
   })
 
   it('does not take other constraint failures or plain errors for a trigger refusal', async () => {
@@ -41,8 +41,8 @@ describe('isTriggerRefusal', () => {
     // The same iCalendar UID again, at another time: a UNIQUE constraint, not the trigger.
     const unique = await db('bookings').insert(booking('a@test', '2026-12-02T09:00:00.000Z', '2026-12-02T10:00:00.000Z')).catch((e: unknown) => e)
     expect(unique).toBeInstanceOf(Error)
-    expect(isTriggerRefusal(unique)).toBe(false)
-    expect(isTriggerRefusal(new Error('booking_overlap'))).toBe(false)
+    expect(isOverlapRefusal(unique)).toBe(false)
+    expect(isOverlapRefusal(new Error('booking_overlap'))).toBe(false)
   })
 
   // Knex adds a column with a foreign key on SQLite by rebuilding the table, which drops its triggers.

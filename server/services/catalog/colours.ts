@@ -3,6 +3,7 @@ import type { Operation } from '#shared/catalog'
 import type { ColourInput } from '#shared/schemas/catalog'
 import { Conflict, NotFound } from '../../utils/errors'
 import { camelRow, nowIso, snakeRow } from '../../utils/rows'
+import { insertedId } from '../../../db/dialect'
 
 export interface OperationColour extends ColourInput {
   id: number
@@ -27,8 +28,8 @@ async function assertHexFree(db: Knex, hex: string, exceptId = 0) {
 
 export async function createColour(db: Knex, input: ColourInput): Promise<OperationColour> {
   await assertHexFree(db, input.hex)
-  const [id] = await db('operation_colours').insert(snakeRow({ ...input }))
-  return getColour(db, id!)
+  const id = await insertedId(db('operation_colours').insert(snakeRow({ ...input })))
+  return getColour(db, id)
 }
 
 export async function updateColour(db: Knex, id: number, change: Partial<ColourInput>): Promise<OperationColour> {

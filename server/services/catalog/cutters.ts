@@ -4,6 +4,7 @@ import type { CutterKind, CutterStatus } from '#shared/catalog'
 import { CUTTER_PRICE_FIELDS, type CutterInput } from '#shared/schemas/catalog'
 import { Conflict, Forbidden, NotFound } from '../../utils/errors'
 import { camelRow, nowIso, snakeRow } from '../../utils/rows'
+import { insertedId } from '../../../db/dialect'
 
 export interface Cutter extends CutterInput {
   id: number
@@ -39,8 +40,8 @@ async function assertNameFree(db: Knex, name: string, exceptId?: number) {
 export async function createCutter(db: Knex, role: Role, input: CutterInput): Promise<Cutter> {
   if (role !== 'admin') throw new Forbidden('Only an admin can add a cutter, because it sets a price.')
   await assertNameFree(db, input.name)
-  const [id] = await db('cutters').insert(snakeRow({ ...input }))
-  return getCutter(db, id!)
+  const id = await insertedId(db('cutters').insert(snakeRow({ ...input })))
+  return getCutter(db, id)
 }
 
 export async function updateCutter(db: Knex, role: Role, id: number, change: Partial<CutterInput>): Promise<Cutter> {

@@ -3,6 +3,7 @@ import type { Operation } from '#shared/catalog'
 import type { DxfLayerInput } from '#shared/schemas/catalog'
 import { Conflict, NotFound } from '../../utils/errors'
 import { camelRow, nowIso } from '../../utils/rows'
+import { insertedId } from '../../../db/dialect'
 
 export interface DxfLayerOperation {
   id: number
@@ -21,7 +22,7 @@ async function assertLayerFree(db: Knex, layer: string, exceptId = 0) {
 
 export async function createDxfLayer(db: Knex, input: DxfLayerInput): Promise<DxfLayerOperation> {
   await assertLayerFree(db, input.layer)
-  const [id] = await db('dxf_layer_operations').insert({ layer: input.layer, operation: input.operation })
+  const id = await insertedId(db('dxf_layer_operations').insert({ layer: input.layer, operation: input.operation }))
   return camelRow<DxfLayerOperation>(await db('dxf_layer_operations').where({ id }).first())
 }
 

@@ -4,6 +4,7 @@ import { CUTTER_KINDS, type CutterKind, type MaterialFamily } from '#shared/cata
 import type { MaterialInput } from '#shared/schemas/catalog'
 import { Conflict, Forbidden, InvalidInput, NotFound } from '../../utils/errors'
 import { camelRow, nowIso } from '../../utils/rows'
+import { insertedId } from '../../../db/dialect'
 
 export interface SheetSize {
   id: number
@@ -140,10 +141,10 @@ export async function createMaterial(db: Knex, role: Role, input: MaterialInput)
     if (await trx('materials').where({ name: input.name, thickness_mm: input.thicknessMm }).first()) {
       throw new Conflict(`${input.name} at ${input.thicknessMm} mm already exists.`, { fields: { name: 'Already in the catalog at this thickness.' } })
     }
-    const [materialId] = await trx('materials').insert({ name: input.name, family: input.family, thickness_mm: input.thicknessMm, hazard_note: input.hazardNote })
-    await writeSheets(trx, materialId!, pairs, [])
-    await writeRules(trx, materialId!, input)
-    return materialId!
+    const materialId = await insertedId(trx('materials').insert({ name: input.name, family: input.family, thickness_mm: input.thicknessMm, hazard_note: input.hazardNote }))
+    await writeSheets(trx, materialId, pairs, [])
+    await writeRules(trx, materialId, input)
+    return materialId
   })
   return getMaterial(db, id)
 }

@@ -2,6 +2,7 @@ import type { Knex } from 'knex'
 import type { ClosureInput, OpeningHoursInput } from '#shared/schemas/catalog'
 import { NotFound } from '../../utils/errors'
 import { getCutter } from './cutters'
+import { insertedId } from '../../../db/dialect'
 
 export interface OpeningPeriod {
   weekday: number
@@ -53,13 +54,13 @@ function toClosure(row: ClosureRow): Closure {
 
 export async function createClosure(db: Knex, actorId: number, input: ClosureInput): Promise<Closure> {
   if (input.cutterId) await getCutter(db, input.cutterId)
-  const [id] = await db('closures').insert({
+  const id = await insertedId(db('closures').insert({
     cutter_id: input.cutterId,
     starts_at: new Date(input.startsAt).toISOString(),
     ends_at: new Date(input.endsAt).toISOString(),
     reason: input.reason,
     created_by: actorId,
-  })
+  }))
   return toClosure(await db('closures').where({ id }).first())
 }
 

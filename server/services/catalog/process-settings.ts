@@ -4,6 +4,7 @@ import { Conflict, InvalidInput, NotFound } from '../../utils/errors'
 import { camelRow, nowIso, snakeRow } from '../../utils/rows'
 import { getCutter, type Cutter } from './cutters'
 import { assertMaterialAllowedOn, type Material } from './materials'
+import { insertedId } from '../../../db/dialect'
 
 export interface ProcessSetting extends ProcessSettingInput {
   id: number
@@ -51,8 +52,8 @@ export async function createProcessSetting(db: Knex, input: ProcessSettingInput)
   if (await findProcessSetting(db, input.cutterId, input.materialId)) {
     throw new Conflict(`${cutter.name} already has a setting for ${material.name}; edit it instead.`)
   }
-  const [id] = await db('process_settings').insert(snakeRow({ ...input }))
-  return getProcessSetting(db, id!)
+  const id = await insertedId(db('process_settings').insert(snakeRow({ ...input })))
+  return getProcessSetting(db, id)
 }
 
 export async function updateProcessSetting(db: Knex, id: number, change: Partial<ProcessSettingInput>): Promise<ProcessSetting> {

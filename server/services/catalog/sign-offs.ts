@@ -3,6 +3,7 @@ import type { SignOffInput } from '#shared/schemas/catalog'
 import { Conflict, InvalidInput, NotFound } from '../../utils/errors'
 import { nowIso } from '../../utils/rows'
 import { getCutter } from './cutters'
+import { insertedId } from '../../../db/dialect'
 
 export interface SignOff {
   id: number
@@ -82,14 +83,14 @@ export async function recordSignOff(db: Knex, staffId: number, input: SignOffInp
   if (await hasValidSignOff(db, input.userId, input.cutterId)) {
     throw new Conflict(`${member.name} already holds a valid sign-off for this cutter. Revoke it first to record a new one.`)
   }
-  const [id] = await db('sign_offs').insert({
+  const id = await insertedId(db('sign_offs').insert({
     user_id: input.userId,
     cutter_id: input.cutterId,
     signed_off_on: input.signedOffOn,
     signed_off_by: staffId,
     expires_on: input.expiresOn,
     note: input.note,
-  })
+  }))
   return toSignOff(await baseQuery(db).where('s.id', id).first())
 }
 

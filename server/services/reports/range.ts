@@ -70,11 +70,12 @@ export function spreadOverWeeks(range: Pick<ReportRange, 'weeks'>, start: string
 
 /**
  * The range's weeks as a table for SQL (week_index, start_at, end_at), so a report can join its rows to their
- * week and group them in the database. Plain `select … union all`, which SQLite and PostgreSQL both read.
+ * week and group them in the database. Plain `select … union all`, which SQLite and PostgreSQL both read; the casts
+ * give PostgreSQL the parameters' types, which it can't infer in a select list.
  */
 export function weeksTable(db: Knex, range: Pick<ReportRange, 'weeks'>): Knex.Raw {
   const weeks = range.weeks.length ? range.weeks : [{ start: '', end: '' }]
-  return db.raw(weeks.map(() => 'select ? as week_index, ? as start_at, ? as end_at').join(' union all '), weeks.flatMap((w, i) => [i, w.start, w.end]))
+  return db.raw(weeks.map(() => 'select cast(? as integer) as week_index, cast(? as text) as start_at, cast(? as text) as end_at').join(' union all '), weeks.flatMap((w, i) => [i, w.start, w.end]))
 }
 
 /** Minutes that [start, end) shares with the interval. */

@@ -28,7 +28,7 @@ export async function turnaroundReport(db: Knex, range: ReportRange): Promise<Tu
     .whereIn('e.to_state', ['submitted', 'withdrawn', ...REVIEW_OUTCOMES])
     .where('e.created_at', '>=', range.fromIso)
     // Notes logged against a job (a cut problem) repeat its state; only real moves count.
-    .whereRaw('e.from_state is not e.to_state')
+    .whereRaw('e.from_state is distinct from e.to_state')
     .orderBy(['e.job_id', 'e.created_at', 'e.id'])
     .select('e.job_id', 'e.to_state', 'e.created_at', 'j.title', 'c.name as cutter_name')
   if (range.cutterId) query.where('j.cutter_id', range.cutterId)
