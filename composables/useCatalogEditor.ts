@@ -1,19 +1,24 @@
+import type { Ref } from 'vue'
 import type { ZodType } from 'zod'
+
+/** A form over a row: any of its fields, empty (null) until filled in. A page whose form differs names its own. */
+export type RowDraft<Row> = { [Key in keyof Row]?: Row[Key] | null }
 
 // The create / edit / remove cycle every catalog page shares: one draft at a time, server errors per field,
 // a confirmation before removal, and a refresh of the list after each change.
-export function useCatalogEditor<Row extends { id: number }>(options: {
+export function useCatalogEditor<Row extends { id: number }, Draft extends object = RowDraft<Row>>(options: {
   listUrl: string | (() => string)
   itemUrl: string
-  blank: () => Record<string, any>
+  blank: () => Draft
   /** What of a row goes into the edit form. */
-  toDraft?: (row: Row) => Record<string, any>
+  toDraft?: (row: Row) => Draft
   /** The route's zod schemas (shared/schemas), checked before anything is sent. */
   createSchema?: ZodType
   updateSchema?: ZodType
 }) {
   const list = useFetch<Row[]>(options.listUrl, { default: () => [] as Row[] })
-  const draft = ref<Record<string, any> | null>(null)
+  // Deeply reactive like any ref (the form writes into it); typed as the page's draft.
+  const draft = ref(null) as Ref<Draft | null>
   const editingId = ref<number | null>(null)
   const saving = ref(false)
   const notice = ref('')
@@ -29,7 +34,8 @@ export function useCatalogEditor<Row extends { id: number }>(options: {
   function startEdit(row: Row) {
     errors.clear()
     editingId.value = row.id
-    draft.value = options.toDraft ? options.toDraft(row) : { ...row }
+    // Without toDraft a page edits the row's own fields (its Draft is RowDraft<Row>).
+    draft.value = options.toDraft ? options.toDraft(row) : ({ ...row } as object as Draft)
   }
 
   function cancel() {
@@ -38,7 +44,7 @@ export function useCatalogEditor<Row extends { id: number }>(options: {
     errors.clear()
   }
 
-  async function save(body: Record<string, any> = draft.value ?? {}) {
+  async function save(body: object = draft.value ?? {}) {
     errors.clear()
     const schema = editingId.value === null ? options.createSchema : options.updateSchema
     if (schema && !errors.check(schema, body)) return
@@ -54,6 +60,15 @@ export function useCatalogEditor<Row extends { id: number }>(options: {
     } finally {
       saving.value = false
     }
+  }
+
+  /** Asks before removing `row`; `cancelRemoval` drops the question. */
+  function askRemoval(row: Row) {
+    pendingRemoval.value = row
+  }
+
+  function cancelRemoval() {
+    pendingRemoval.value = null
   }
 
   async function remove() {
@@ -73,5 +88,8 @@ export function useCatalogEditor<Row extends { id: number }>(options: {
     }
   }
 
-  return { list, rows: list.data, draft, editingId, saving, notice, errors, pendingRemoval, startNew, startEdit, cancel, save, remove }
+  return {
+    list, rows: list.data, draft, editingId, saving, notice, errors, pendingRemoval,
+    startNew, startEdit, cancel, save, askRemoval, cancelRemoval, remove,
+  }
 }

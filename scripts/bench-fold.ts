@@ -245,7 +245,7 @@ class Actor {
   }
 
   /** JSON of a 2xx answer, or an error naming the route and what the server said. */
-  async json<T = any>(method: string, path: string, body?: unknown, timeoutMs?: number): Promise<T> {
+  async json<T = unknown>(method: string, path: string, body?: unknown, timeoutMs?: number): Promise<T> {
     const answer = await this.call(method, path, body, timeoutMs)
     const text = answer.body.toString('utf8')
     if (answer.status >= 400) throw new Error(`${method} ${path} as ${this.name}: ${answer.status} ${text.slice(0, 300)}`)

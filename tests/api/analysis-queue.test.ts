@@ -3,6 +3,7 @@
 // events are asserted, never wall-clock bounds.
 import { describe, expect, it } from 'vitest'
 import { plainPart, svgDocument } from '../fixtures/svg'
+import type { CatalogOverview } from './answers'
 import { signedIn } from './helpers'
 
 type Member = Awaited<ReturnType<typeof signedIn>>
@@ -27,9 +28,9 @@ function fileForm(svg: string, name: string) {
 }
 
 async function newJob(member: Member, title: string): Promise<number> {
-  const overview = (await member.get('/api/catalog/overview')).body as any[]
-  const heron = overview.find((c) => c.name.startsWith('Heron'))
-  const created = await member.post('/api/jobs', { title, cutterId: heron.cutterId, materialId: heron.materials.find((m: any) => m.name === 'Birch plywood').materialId })
+  const overview = (await member.get<CatalogOverview>('/api/catalog/overview')).body
+  const heron = overview.find((c) => c.name.startsWith('Heron'))!
+  const created = await member.post('/api/jobs', { title, cutterId: heron.cutterId, materialId: heron.materials.find((m) => m.name === 'Birch plywood')!.materialId })
   expect(created.status).toBe(201)
   return created.body.id
 }

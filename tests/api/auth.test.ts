@@ -1,4 +1,4 @@
-import { describe, expect, inject, it } from 'vitest'
+import { describe, expect, it } from 'vitest'
 import { client, DEMO_PASSWORD, linkToken, sqlRows, uniqueEmail, waitForMail } from './helpers'
 
 /** A new account, signed up and verified through its e-mail link. */

@@ -1,5 +1,7 @@
 import ICAL from 'ical.js'
 import { beforeAll, describe, expect, inject, it } from 'vitest'
+import type { ApiResponse } from '../../utils/api-types'
+import type { BookingList } from './answers'
 import { client, signedIn, sqlRow, waitForMail } from './helpers'
 import { payCheckout, waitForPaymentState } from './payment-helpers'
 import { bookingBench, type BookingBench } from './workshop-setup'
@@ -38,13 +40,13 @@ describe('booking an approved job', () => {
     expect(parseIcs(ics.content).events[0]!.uid).toBe(created.body.ical_uid)
 
     const range = `cutter=${bench.cutterId}&from=${encodeURIComponent(bench.at(2, '00:00'))}&to=${encodeURIComponent(bench.at(5, '00:00'))}`
-    const mine = (await bench.member.get(`/api/bookings?${range}`)).body.find((b: any) => b.id === created.body.id)
+    const mine = (await bench.member.get<BookingList>(`/api/bookings?${range}`)).body.find((b) => b.id === created.body.id)!
     expect(mine.title).toBe('Booked lamp')
-    const other = (await (await signedIn('ines@example.test')).get(`/api/bookings?${range}`)).body.find((b: any) => b.id === created.body.id)
+    const other = (await (await signedIn('ines@example.test')).get<BookingList>(`/api/bookings?${range}`)).body.find((b) => b.id === created.body.id)!
     expect(other).toMatchObject({ start, own: false })
     expect(other.title).toBeUndefined()
     expect(other.memberName).toBeUndefined()
-    const staffView = (await bench.staff.get(`/api/bookings?${range}`)).body.find((b: any) => b.id === created.body.id)
+    const staffView = (await bench.staff.get<BookingList>(`/api/bookings?${range}`)).body.find((b) => b.id === created.body.id)!
     expect(staffView.memberName).toBe('Juno Castellane')
 
     // A cutter with bookings keeps its history: deleting it is refused, retiring it is the way.
@@ -141,8 +143,8 @@ describe('time zones', () => {
       // 08:00 London on the Monday is 07:00 UTC: inside opening hours; 07:45 London (06:45 UTC) is not.
       const early = await bench.approvedJob('Early')
       expect((await bench.member.post('/api/bookings', { jobId: early, cutterId: bench.cutterId, start: '2027-03-29T06:45:00Z' })).body.data.reason).toBe('outside-hours')
-      const availability = (await bench.member.get(`/api/catalog/cutters/${bench.cutterId}/availability?from=2027-03-27T00:00:00Z&to=2027-03-30T00:00:00Z`)).body
-      expect(availability.open.map((i: any) => i.start)).toEqual(['2027-03-27T08:00:00.000Z', '2027-03-28T07:00:00.000Z', '2027-03-29T07:00:00.000Z'])
+      const availability = (await bench.member.get<ApiResponse<'/api/catalog/cutters/:id/availability'>>(`/api/catalog/cutters/${bench.cutterId}/availability?from=2027-03-27T00:00:00Z&to=2027-03-30T00:00:00Z`)).body
+      expect(availability.open.map((i) => i.start)).toEqual(['2027-03-27T08:00:00.000Z', '2027-03-28T07:00:00.000Z', '2027-03-29T07:00:00.000Z'])
     } finally {
       await bench.admin.patch('/api/admin/settings', { timeZone: before.timeZone, bookingHorizonDays: before.bookingHorizonDays })
     }

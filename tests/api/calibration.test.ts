@@ -1,4 +1,4 @@
-import { beforeAll, describe, expect, inject, it } from 'vitest'
+import { beforeAll, describe, expect, it } from 'vitest'
 import { plainPart } from '../fixtures/svg'
 import { bookingBench, type BookingBench } from './workshop-setup'
 import { sqlRows, sqlRow } from './helpers'

@@ -1,5 +1,8 @@
 import { describe, expect, it } from 'vitest'
+import type { ApiResponse } from '../../utils/api-types'
 import { client, signedIn } from './helpers'
+
+type CatalogOverview = ApiResponse<'/api/catalog/overview'>
 
 const newCutter = (name: string) => ({
   name,
@@ -120,29 +123,29 @@ describe('process settings', () => {
 
   it('a member sees the disallowed pair as not cuttable, with the reason and the cautions', async () => {
     const member = await signedIn('member@example.test')
-    const overview = (await member.get('/api/catalog/overview')).body as any[]
-    const heron = overview.find((c) => c.name.startsWith('Heron'))
-    const pvc = heron.materials.find((m: any) => m.name === 'PVC foam board')
+    const overview = (await member.get<CatalogOverview>('/api/catalog/overview')).body
+    const heron = overview.find((c) => c.name.startsWith('Heron'))!
+    const pvc = heron.materials.find((m) => m.name === 'PVC foam board')!
     expect(pvc.allowed).toBe(false)
     expect(pvc.cuttable).toBe(false)
     expect(pvc.reason).toMatch(/chlorine/i)
-    expect(heron.materials.find((m: any) => m.name === 'Birch plywood').cuttable).toBe(true)
-    expect(heron.cautions.map((c: any) => c.code)).toContain('laser-fire-watch')
-    const anvil = overview.find((c) => c.name.startsWith('Anvil'))
-    expect(anvil.cautions.map((c: any) => c.code)).toContain('plasma-eyes-table')
-    expect(anvil.materials.find((m: any) => m.name === 'Galvanised steel').cautions.map((c: any) => c.code)).toContain('coated-steel-fume')
+    expect(heron.materials.find((m) => m.name === 'Birch plywood')!.cuttable).toBe(true)
+    expect(heron.cautions.map((c) => c.code)).toContain('laser-fire-watch')
+    const anvil = overview.find((c) => c.name.startsWith('Anvil'))!
+    expect(anvil.cautions.map((c) => c.code)).toContain('plasma-eyes-table')
+    expect(anvil.materials.find((m) => m.name === 'Galvanised steel')!.cautions.map((c) => c.code)).toContain('coated-steel-fume')
   })
 
   it("marks a material thicker than the cutter takes, with the cutter's limit for the page to state in the reader's unit", async () => {
     const admin = await signedIn('admin@example.test')
     const thin = await admin.post('/api/catalog/cutters', { ...newCutter(`Thin-stock laser ${Date.now()}`), maxThicknessMm: 2 })
     expect(thin.status).toBe(201)
-    const overview = (await (await signedIn('member@example.test')).get('/api/catalog/overview')).body as any[]
-    const cutter = overview.find((c) => c.cutterId === thin.body.id)
+    const overview = (await (await signedIn('member@example.test')).get<CatalogOverview>('/api/catalog/overview')).body
+    const cutter = overview.find((c) => c.cutterId === thin.body.id)!
     expect(cutter.maxThicknessMm).toBe(2)
-    const plywood = cutter.materials.find((m: any) => m.name === 'Birch plywood' && m.thicknessMm === 3)
+    const plywood = cutter.materials.find((m) => m.name === 'Birch plywood' && m.thicknessMm === 3)
     expect(plywood).toMatchObject({ tooThick: true, cuttable: false })
-    expect(cutter.materials.find((m: any) => m.name === 'Grey board' && m.thicknessMm === 2).tooThick).toBe(false)
+    expect(cutter.materials.find((m) => m.name === 'Grey board' && m.thicknessMm === 2)!.tooThick).toBe(false)
   })
 })
 

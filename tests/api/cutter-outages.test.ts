@@ -1,6 +1,6 @@
 // A cutter goes out of service: the members booked on it in the period are told at once (the mail is written with
 // the change), their bookings called off and their card holds released, new times offered, and the period refused.
-import { beforeAll, describe, expect, inject, it } from 'vitest'
+import { beforeAll, describe, expect, it } from 'vitest'
 import { describeLocal } from '../../server/services/workshop-time'
 import { client, DEMO_PASSWORD, linkToken, signedIn, sqlRows, uniqueEmail, waitForMail } from './helpers'
 import { payCheckout, waitForPaymentState } from './payment-helpers'

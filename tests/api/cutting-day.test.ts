@@ -1,6 +1,7 @@
 import { parseSync } from 'svgson'
 import { beforeAll, describe, expect, inject, it } from 'vitest'
 import { inZone } from '../../server/services/workshop-time'
+import type { RunSheet } from './answers'
 import { signedIn, sqlRow, sqlRows, waitForMail } from './helpers'
 import { payCheckout, waitForPaymentState } from './payment-helpers'
 import { bookingBench, type BookingBench } from './workshop-setup'
@@ -19,15 +20,18 @@ async function paidBooking(title: string, daysAhead: number) {
   return { jobId, booking, date: inZone(booking.starts_at, bench.zone).toISODate()! }
 }
 
+/** What the finish wrote on the job's row. */
+interface RecordedFinish { actual_minutes: number; estimated_minutes: number; sheets_used: number; estimated_cut_s: number }
+
 describe('a cutting day through the API', () => {
   it('run sheet → start, pause, resume, finish → capture → ready → collected with a one-time code', async () => {
     const { jobId, booking, date } = await paidBooking('Day run', 20)
     const sheetUrl = `/api/run-sheet?cutter=${bench.cutterId}&date=${date}`
-    const sheet = (await bench.staff.get(sheetUrl)).body
-    const entry = sheet.entries.find((e: any) => e.job.id === jobId)
+    const sheet = (await bench.staff.get<RunSheet>(sheetUrl)).body
+    const entry = sheet.entries.find((e) => e.job.id === jobId)!
     expect(entry).toMatchObject({ paid: true, member: { name: 'Juno Castellane' }, material: { name: 'Birch plywood' } })
     expect(entry.sheets.count).toBeGreaterThanOrEqual(1)
-    expect(entry.cautions.map((c: any) => c.code)).toEqual(expect.arrayContaining(['laser-fire-watch', 'laser-chlorine', 'fume-extraction']))
+    expect(entry.cautions.map((c) => c.code)).toEqual(expect.arrayContaining(['laser-fire-watch', 'laser-chlorine', 'fume-extraction']))
     expect((await bench.member.get(sheetUrl)).status).toBe(403)
 
     // The sheet file for the cutter: every coordinate lies on the stock sheet (parsed with svgson, independent of our writer).
@@ -58,7 +62,7 @@ describe('a cutting day through the API', () => {
     expect((await bench.staff.post(`/api/jobs/${jobId}/timer`, { action: 'pause' })).status).toBe(409)
     expect((await bench.staff.post(`/api/jobs/${jobId}/timer`, { action: 'resume' })).body.running).toBe(true)
     expect((await bench.staff.post(`/api/jobs/${jobId}/problems`, { kind: 're-cut', note: 'Sheet warped; second pass on panel 2' })).status).toBe(201)
-    const during = (await bench.staff.get(sheetUrl)).body.entries.find((e: any) => e.job.id === jobId)
+    const during = (await bench.staff.get<RunSheet>(sheetUrl)).body.entries.find((e) => e.job.id === jobId)!
     expect(during.timer.running).toBe(true)
     expect(during.problems[0]).toMatchObject({ kind: 're-cut' })
 
@@ -80,7 +84,7 @@ describe('a cutting day through the API', () => {
     expect(finished.body.capturedMinor).toBe((3 + 5) * 100 + job.estimate.materialPriceMinor)
     expect((await waitForPaymentState(bench.member, booking.id, 'captured')).capturedMinor).toBe(finished.body.capturedMinor)
 
-    const recorded = await sqlRow('select actual_minutes, estimated_minutes, sheets_used, estimated_cut_s from jobs where id = ?', [jobId])
+    const recorded = (await sqlRow<RecordedFinish>('select actual_minutes, estimated_minutes, sheets_used, estimated_cut_s from jobs where id = ?', [jobId]))!
     expect(recorded.actual_minutes).toBe(3)
     expect(recorded.estimated_minutes).toBeCloseTo(job.estimate.machineS / 60, 6)
     expect(recorded.sheets_used).toBe(job.estimate.sheetCount)
@@ -103,7 +107,7 @@ describe('a cutting day through the API', () => {
     expect(collected.body.jobId).toBe(jobId)
     expect((await bench.staff.post('/api/pickups/collect', { code })).status).toBe(409)
     expect((await bench.member.get(`/api/jobs/${jobId}`)).body.state).toBe('collected')
-    expect((await bench.staff.get(sheetUrl)).body.entries.some((e: any) => e.job.id === jobId)).toBe(false)
+    expect((await bench.staff.get<RunSheet>(sheetUrl)).body.entries.some((e) => e.job.id === jobId)).toBe(false)
   })
 
   it('uses the timer when no minutes are typed, and refuses to start an unpaid booking', async () => {

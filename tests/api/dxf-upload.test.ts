@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { dxfDocument, circle, lwPolyline, type Group } from '../analysis/dxf/dxfText'
+import type { CatalogOverview } from './answers'
 import { signedIn } from './helpers'
 
 function dxfForm(text: string, filename = 'part.dxf') {
@@ -39,9 +40,9 @@ describe('POST /api/analysis with a DXF file', () => {
     expect(mapped.status).toBe(201)
     expect((await staff.post('/api/catalog/dxf-layers', { layer: 'FOLD-LINES', operation: 'cut' })).status).toBe(409)
     expect((await (await signedIn('member@example.test')).post('/api/catalog/dxf-layers', { layer: 'X', operation: 'cut' })).status).toBe(403)
-    const overview = (await staff.get('/api/catalog/overview')).body as any[]
-    const heron = overview.find((c) => c.name.startsWith('Heron'))
-    const ids = { cutterId: heron.cutterId, materialId: heron.materials.find((m: any) => m.name === 'Birch plywood').materialId }
+    const overview = (await staff.get<CatalogOverview>('/api/catalog/overview')).body
+    const heron = overview.find((c) => c.name.startsWith('Heron'))!
+    const ids = { cutterId: heron.cutterId, materialId: heron.materials.find((m) => m.name === 'Birch plywood')!.materialId }
     // A 60 mm fold line on the mapped layer (matched without regard to case) beside a cut outline.
     const foldLine: Group[] = [[0, 'LINE'], [8, 'FOLD-LINES'], [10, 20], [20, 50], [30, 0], [11, 80], [21, 50], [31, 0]]
     const text = dxfDocument({ insUnits: 4, layers: [{ name: 'FOLD-LINES' }], entities: [...lwPolyline([[10, 10], [90, 10], [90, 90], [10, 90]], true), ...foldLine] })

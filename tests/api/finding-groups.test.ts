@@ -3,6 +3,7 @@
 import { describe, expect, it } from 'vitest'
 import { decodeGeometry, decodeSites } from '../../shared/packed-analysis'
 import { plainPart, slitPairs } from '../fixtures/svg'
+import type { CatalogOverview, JobDetail, JobList, RevisionDetail } from './answers'
 import { signedIn, waitForMail } from './helpers'
 
 const PAIRS = 12
@@ -18,9 +19,9 @@ function fileForm(svg: string, name: string) {
 }
 
 async function jobWith(member: Awaited<ReturnType<typeof signedIn>>, svg: string, title: string) {
-  const overview = (await member.get('/api/catalog/overview')).body as any[]
-  const heron = overview.find((c) => c.name.startsWith('Heron'))
-  const created = await member.post('/api/jobs', { title, cutterId: heron.cutterId, materialId: heron.materials.find((m: any) => m.name === 'Birch plywood').materialId })
+  const overview = (await member.get<CatalogOverview>('/api/catalog/overview')).body
+  const heron = overview.find((c) => c.name.startsWith('Heron'))!
+  const created = await member.post('/api/jobs', { title, cutterId: heron.cutterId, materialId: heron.materials.find((m) => m.name === 'Birch plywood')!.materialId })
   const jobId = created.body.id as number
   const added = await member.form(`/api/jobs/${jobId}/files`, fileForm(svg, 'pairs.svg'))
   expect(added.status).toBe(201)
@@ -31,22 +32,22 @@ describe('grouped findings', () => {
   it('reports one group per kind with its count and statistics, and every site in the packed table', async () => {
     const member = await signedIn('member@example.test')
     const { jobId, fileId } = await jobWith(member, slitPairs(PAIRS, GAP_MM), 'Twelve hinges')
-    const revision = (await member.get(`/api/jobs/${jobId}/files/${fileId}/revisions/1`)).body
-    expect(revision.findings).toBeUndefined()
-    const bridges = revision.findingGroups.find((g: any) => g.code === 'narrow-bridge')
+    const revision = (await member.get<RevisionDetail>(`/api/jobs/${jobId}/files/${fileId}/revisions/1`)).body
+    expect(revision).not.toHaveProperty('findings')
+    const bridges = revision.findingGroups.find((g) => g.code === 'narrow-bridge')!
     expect(bridges.severity).toBe('warning')
     expect(bridges.count).toBe(PAIRS)
-    expect(bridges.stats.min).toBeCloseTo(GAP_MM - KERF_MM, 6)
-    expect(bridges.stats.max).toBeCloseTo(GAP_MM - KERF_MM, 6)
-    expect(bridges.stats.histogram.counts.reduce((a: number, b: number) => a + b, 0)).toBe(PAIRS)
-    const slits = revision.findingGroups.find((g: any) => g.code === 'open-contour')
+    expect(bridges.stats!.min).toBeCloseTo(GAP_MM - KERF_MM, 6)
+    expect(bridges.stats!.max).toBeCloseTo(GAP_MM - KERF_MM, 6)
+    expect(bridges.stats!.histogram.counts.reduce((a: number, b: number) => a + b, 0)).toBe(PAIRS)
+    const slits = revision.findingGroups.find((g) => g.code === 'open-contour')!
     expect(slits.count).toBe(2 * PAIRS)
-    expect(revision.counts.warnings).toBe(revision.findingGroups.filter((g: any) => g.severity === 'warning').reduce((n: number, g: any) => n + g.count, 0))
+    expect(revision.counts.warnings).toBe(revision.findingGroups.filter((g) => g.severity === 'warning').reduce((n, g) => n + g.count, 0))
 
     const sitesAnswer = await member.bytes(`/api/jobs/${jobId}/files/${fileId}/revisions/1/sites`)
     expect(sitesAnswer.status).toBe(200)
     const sites = decodeSites(sitesAnswer.body)
-    expect(sites.count).toBe(revision.findingGroups.reduce((n: number, g: any) => n + g.count, 0))
+    expect(sites.count).toBe(revision.findingGroups.reduce((n, g) => n + g.count, 0))
     const bridgeRows = Array.from({ length: bridges.count }, (_, i) => bridges.firstSite + i)
     // Each bridge lies between the two slits of its pair (x within the slits, y between the centre-lines).
     const pairOf = bridgeRows.map((row) => Math.round((sites.xy[2 * row + 1]! - 10 - GAP_MM / 2) / 8))
@@ -66,7 +67,7 @@ describe('grouped findings', () => {
     for (const row of bridgeRows) expect(sites.contourA[row]).toBeLessThan(geometry.count)
 
     // The job list and the job detail count the same, from the summary columns.
-    const listed = ((await member.get('/api/jobs')).body as any[]).find((j) => j.id === jobId)
+    const listed = (await member.get<JobList>('/api/jobs')).body.find((j) => j.id === jobId)!
     const detail = (await member.get(`/api/jobs/${jobId}`)).body
     expect(listed.findings).toEqual(detail.findings)
     expect(detail.findings).toEqual(revision.counts)
@@ -76,9 +77,9 @@ describe('grouped findings', () => {
   it('keeps the summary columns in step when a file gets a new revision', async () => {
     const member = await signedIn('member@example.test')
     const { jobId, fileId } = await jobWith(member, slitPairs(3, GAP_MM), 'Fixed later')
-    expect(((await member.get('/api/jobs')).body as any[]).find((j) => j.id === jobId).findings.warnings).toBe(3)
+    expect((await member.get<JobList>('/api/jobs')).body.find((j) => j.id === jobId)!.findings.warnings).toBe(3)
     await member.form(`/api/jobs/${jobId}/files/${fileId}/revisions`, fileForm(plainPart(), 'fixed.svg'))
-    const listed = ((await member.get('/api/jobs')).body as any[]).find((j) => j.id === jobId)
+    const listed = (await member.get<JobList>('/api/jobs')).body.find((j) => j.id === jobId)!
     expect(listed.findings.warnings).toBe(0)
     expect(listed.worstFinding).toBeNull()
     const detail = (await member.get(`/api/jobs/${jobId}`)).body
@@ -90,26 +91,26 @@ describe('grouped findings', () => {
     const member = await signedIn('member@example.test')
     const staff = await signedIn('staff@example.test')
     const { jobId, fileId } = await jobWith(member, slitPairs(PAIRS, GAP_MM), 'Reasons per group')
-    const detail = (await member.get(`/api/jobs/${jobId}`)).body
+    const detail = (await member.get<JobDetail>(`/api/jobs/${jobId}`)).body
     const warningGroups = detail.warningGroups
     expect(warningGroups.length).toBe(detail.findings.warningGroups)
-    expect(warningGroups.every((g: any) => g.acknowledgement === null)).toBe(true)
+    expect(warningGroups.every((g) => g.acknowledgement === null)).toBe(true)
 
-    const tooShort = await member.post(`/api/jobs/${jobId}/submit`, { acknowledgements: warningGroups.map((g: any) => ({ fileId, revision: 1, key: g.group.key, reason: 'ok' })) })
+    const tooShort = await member.post(`/api/jobs/${jobId}/submit`, { acknowledgements: warningGroups.map((g) => ({ fileId, revision: 1, key: g.group.key, reason: 'ok' })) })
     expect(tooShort.status).toBe(400)
     const foreignKey = await member.post(`/api/jobs/${jobId}/submit`, { acknowledgements: [{ fileId, revision: 1, key: 'no-such-group', reason: 'A reason long enough.' }] })
     expect(foreignKey.status).toBe(400)
     expect((await member.get(`/api/jobs/${jobId}`)).body.state).toBe('draft')
 
-    const reasons = warningGroups.map((g: any, i: number) => ({ fileId, revision: 1, key: g.group.key, reason: `Hinges fold by design (${i}).` }))
+    const reasons = warningGroups.map((g, i) => ({ fileId, revision: 1, key: g.group.key, reason: `Hinges fold by design (${i}).` }))
     expect((await member.post(`/api/jobs/${jobId}/submit`, { acknowledgements: reasons })).status).toBe(200)
-    const submitted = (await staff.get(`/api/jobs/${jobId}`)).body
-    expect(submitted.warningGroups.map((g: any) => g.acknowledgement.reason)).toEqual(reasons.map((r: any) => r.reason))
-    expect(submitted.events.at(-1).comment).toMatch(new RegExp(`${warningGroups.length} groups? of warnings acknowledged \\(${detail.findings.warnings} places?\\)`))
+    const submitted = (await staff.get<JobDetail>(`/api/jobs/${jobId}`)).body
+    expect(submitted.warningGroups.map((g) => g.acknowledgement?.reason)).toEqual(reasons.map((r) => r.reason))
+    expect(submitted.events.at(-1)!.comment).toMatch(new RegExp(`${warningGroups.length} groups? of warnings acknowledged \\(${detail.findings.warnings} places?\\)`))
 
     // Sent back without a new revision: the reasons stand, nothing more is asked.
-    expect((await staff.post(`/api/jobs/${jobId}/request-changes`, { comment: 'Please check the copies.', findingRef: { fileId, revision: 1, key: warningGroups[0].group.key } })).status).toBe(200)
-    const pointedAt = `${warningGroups[0].group.count} places in pairs (revision 1)`
+    expect((await staff.post(`/api/jobs/${jobId}/request-changes`, { comment: 'Please check the copies.', findingRef: { fileId, revision: 1, key: warningGroups[0]!.group.key } })).status).toBe(200)
+    const pointedAt = `${warningGroups[0]!.group.count} places in pairs (revision 1)`
     expect((await member.get(`/api/jobs/${jobId}`)).body.events.at(-1).finding).toContain(pointedAt)
     expect((await waitForMail('member@example.test', /Changes asked for: Reasons per group/)).text).toContain(pointedAt)
     expect((await member.post(`/api/jobs/${jobId}/submit`, {})).status).toBe(200)

@@ -6,6 +6,7 @@ import { join } from 'node:path'
 import { fileURLToPath } from 'node:url'
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import { plainPart } from '../fixtures/svg'
+import type { CatalogOverview } from './answers'
 import { signedIn, sqlRow } from './helpers'
 
 const CORPUS = fileURLToPath(new URL('../fixtures/hostile/', import.meta.url))
@@ -87,9 +88,9 @@ describe('hostile uploads', () => {
 
   beforeAll(async () => {
     member = await signedIn('member@example.test')
-    const overview = (await member.get('/api/catalog/overview')).body as any[]
-    const heron = overview.find((c) => c.name.startsWith('Heron'))
-    const created = await member.post('/api/jobs', { title: 'Hostile corpus', cutterId: heron.cutterId, materialId: heron.materials.find((m: any) => m.name === 'Birch plywood').materialId })
+    const overview = (await member.get<CatalogOverview>('/api/catalog/overview')).body
+    const heron = overview.find((c) => c.name.startsWith('Heron'))!
+    const created = await member.post('/api/jobs', { title: 'Hostile corpus', cutterId: heron.cutterId, materialId: heron.materials.find((m) => m.name === 'Birch plywood')!.materialId })
     jobId = created.body.id
     // One good upload first, so the routes' code paths are warm and the baseline includes them.
     const good = new FormData()
@@ -171,9 +172,9 @@ describe('honest files and hostile names', () => {
 
   it('stores a file name without control or direction characters and at most 120 characters long', async () => {
     const member = await signedIn('member@example.test')
-    const overview = (await member.get('/api/catalog/overview')).body as any[]
-    const heron = overview.find((c) => c.name.startsWith('Heron'))
-    const job = await member.post('/api/jobs', { title: 'Names', cutterId: heron.cutterId, materialId: heron.materials.find((m: any) => m.name === 'Birch plywood').materialId })
+    const overview = (await member.get<CatalogOverview>('/api/catalog/overview')).body
+    const heron = overview.find((c) => c.name.startsWith('Heron'))!
+    const job = await member.post('/api/jobs', { title: 'Names', cutterId: heron.cutterId, materialId: heron.materials.find((m) => m.name === 'Birch plywood')!.materialId })
     for (const [sent, check] of [
       ['\u202Egvs.exe\u0000 😀 façade.svg', (name: string) => expect(name).toBe('gvs.exe 😀 façade')],
       [`${'ш'.repeat(10_000)}.svg`, (name: string) => expect([...name].length).toBeLessThanOrEqual(120)],

@@ -3,6 +3,7 @@ import { join } from 'node:path'
 import { describe, expect, inject, it } from 'vitest'
 import { crossingCuts, plainPart, slitPair } from '../fixtures/svg'
 import { decodeGeometry } from '../../shared/packed-analysis'
+import type { CatalogOverview, JobDetail, JobList, Materials } from './answers'
 import type { client } from './helpers'
 import { signedIn, sqlRow, waitForMail } from './helpers'
 
@@ -15,9 +16,9 @@ function fileForm(svg: string, name: string, quantity = 1) {
 
 async function laserPlywood() {
   const member = await signedIn('member@example.test')
-  const overview = (await member.get('/api/catalog/overview')).body as any[]
-  const heron = overview.find((c) => c.name.startsWith('Heron'))
-  return { cutterId: heron.cutterId as number, materialId: heron.materials.find((m: any) => m.name === 'Birch plywood').materialId as number }
+  const overview = (await member.get<CatalogOverview>('/api/catalog/overview')).body
+  const heron = overview.find((c) => c.name.startsWith('Heron'))!
+  return { cutterId: heron.cutterId, materialId: heron.materials.find((m) => m.name === 'Birch plywood')!.materialId }
 }
 
 async function newJob(member: ReturnType<typeof client>, title = 'Folding lamp shade') {
@@ -47,10 +48,10 @@ describe('uploading files to a job', () => {
     expect(results[2]!.body.message).toMatch(/script/)
     expect(results[3]!.body.message).toMatch(/20 MB/)
 
-    const job = (await member.get(`/api/jobs/${jobId}`)).body
-    expect(job.files.map((f: any) => f.name).sort()).toEqual(['end-cap', 'side-panel'])
+    const job = (await member.get<JobDetail>(`/api/jobs/${jobId}`)).body
+    expect(job.files.map((f) => f.name).sort()).toEqual(['end-cap', 'side-panel'])
     // Closed forms: a rectangle's perimeter plus 2πr of the r = 8 mm hole, per copy.
-    const sidePanel = job.files.find((f: any) => f.name === 'side-panel')
+    const sidePanel = job.files.find((f) => f.name === 'side-panel')!
     expect(sidePanel.current.cut.lengthMm).toBeCloseTo(2 * (80 + 50) + 2 * Math.PI * 8, 1)
     expect(job.estimate.cutLengthMm).toBeCloseTo(4 * (260 + 16 * Math.PI) + 2 * (200 + 16 * Math.PI), 0)
     expect(job.estimate.pierces).toBe(4 * 2 + 2 * 2)
@@ -81,10 +82,10 @@ describe('uploading files to a job', () => {
     const geometry = await member.bytes(`/api/jobs/${jobId}/files/${fileId}/revisions/1/geometry`)
     expect(decodeGeometry(geometry.body).count).toBe(2)
 
-    const job = (await member.get(`/api/jobs/${jobId}`)).body
-    const file = job.files[0]
-    expect(file.revisions.map((r: any) => r.revision)).toEqual([2, 1])
-    expect(file.change.cutLengthMm).toBeCloseTo(40, 1)
+    const job = (await member.get<JobDetail>(`/api/jobs/${jobId}`)).body
+    const file = job.files[0]!
+    expect(file.revisions.map((r) => r.revision)).toEqual([2, 1])
+    expect(file.change!.cutLengthMm).toBeCloseTo(40, 1)
   })
 
   it('lays the copies out on stock sheets that hold them without overlap', async () => {
@@ -92,9 +93,9 @@ describe('uploading files to a job', () => {
     const jobId = await newJob(member, 'Layout test')
     // 600 × 400 mm plywood sheets: 30 copies of a 90 × 60 mm part need more than one.
     await member.form(`/api/jobs/${jobId}/files`, fileForm(plainPart(), 'tile.svg', 30))
-    const { estimate, sheet } = (await member.get(`/api/jobs/${jobId}`)).body
+    const { estimate, sheet } = (await member.get<JobDetail>(`/api/jobs/${jobId}`)).body
     expect(estimate.layout.sheets.length).toBe(estimate.sheetCount)
-    const placed = estimate.layout.sheets.flatMap((s: any) => s.placements)
+    const placed = estimate.layout.sheets.flatMap((s) => s.placements)
     expect(placed.length).toBe(30)
     for (const s of estimate.layout.sheets) {
       for (const p of s.placements) {
@@ -138,9 +139,9 @@ describe('the way through review', () => {
     expect(await eventCount(jobId)).toBe(before + 4)
     await waitForMail('member@example.test', /Approved: Pavilion shingles/)
 
-    const job = (await member.get(`/api/jobs/${jobId}`)).body
+    const job = (await member.get<JobDetail>(`/api/jobs/${jobId}`)).body
     expect(job.state).toBe('approved')
-    expect(job.events.map((e: any) => e.to)).toEqual(['draft', 'submitted', 'changes_requested', 'submitted', 'approved'])
+    expect(job.events.map((e) => e.to)).toEqual(['draft', 'submitted', 'changes_requested', 'submitted', 'approved'])
     expect(job.actions).toContain('withdraw')
     // Files can't change once approved.
     expect((await member.form(`/api/jobs/${jobId}/files`, fileForm(plainPart(), 'late.svg'))).status).toBe(409)
@@ -196,17 +197,17 @@ describe('who sees what', () => {
     expect((await other.get(`/api/jobs/${jobId}`)).status).toBe(404)
     expect((await other.form(`/api/jobs/${jobId}/files`, fileForm(plainPart(), 'x.svg'))).status).toBe(404)
     expect((await other.post(`/api/jobs/${jobId}/withdraw`)).status).toBe(404)
-    expect(((await other.get('/api/jobs')).body as any[]).some((j) => j.id === jobId)).toBe(false)
-    expect(((await other.get('/api/jobs?scope=all')).body as any[]).some((j) => j.id === jobId)).toBe(false)
-    const queue = (await (await signedIn('staff@example.test')).get('/api/jobs?scope=all')).body as any[]
+    expect((await other.get<JobList>('/api/jobs')).body.some((j) => j.id === jobId)).toBe(false)
+    expect((await other.get<JobList>('/api/jobs?scope=all')).body.some((j) => j.id === jobId)).toBe(false)
+    const queue = (await (await signedIn('staff@example.test')).get<JobList>('/api/jobs?scope=all')).body
     expect(queue.some((j) => j.id === jobId)).toBe(true)
   })
 
   it('refuses a job for a material the cutter may not take', async () => {
     const member = await signedIn('member@example.test')
     const { cutterId } = await laserPlywood()
-    const materials = (await member.get('/api/catalog/materials')).body as any[]
-    const pvc = materials.find((m) => m.name === 'PVC foam board')
+    const materials = (await member.get<Materials>('/api/catalog/materials')).body
+    const pvc = materials.find((m) => m.name === 'PVC foam board')!
     const response = await member.post('/api/jobs', { title: 'Sign', cutterId, materialId: pvc.id })
     expect(response.status).toBe(400)
     expect(response.body.message).toMatch(/chlorine/i)

@@ -1,5 +1,6 @@
 // Paying through the Stripe fake's hosted checkout page as a browser would, and waiting for the webhook.
 import { expect, inject } from 'vitest'
+import type { ApiFullList } from '../../utils/api-types'
 import { outboxDrained } from './helpers'
 import type { Client } from './workshop-setup'
 
@@ -21,10 +22,10 @@ export async function payCheckout(checkoutUrl: string, cardNumber = CARD_PAYS): 
 export async function waitForPaymentState(member: Client, bookingId: number, state: string | string[], timeoutMs = 8000) {
   const wanted = Array.isArray(state) ? state : [state]
   const deadline = Date.now() + timeoutMs
-  let last: any
+  let last: ApiFullList<'/api/me/payments'>[number] | undefined
   while (Date.now() < deadline) {
-    last = ((await member.get('/api/me/payments')).body as any[]).find((p) => p.bookingId === bookingId)
-    if (wanted.includes(last?.state)) return last
+    last = (await member.get<ApiFullList<'/api/me/payments'>>('/api/me/payments')).body.find((p) => p.bookingId === bookingId)
+    if (last !== undefined && wanted.includes(last.state)) return last
     await new Promise((r) => setTimeout(r, 100))
   }
   throw new Error(`booking ${bookingId} stayed ${last?.state} instead of ${state}`)

@@ -104,7 +104,7 @@ describe('holding the estimate and charging the minutes used', () => {
     expect(owing.capturedMinor).toBe(booking.authorisedMinor)
     expect(owing.balanceMinor).toBe(finished.balanceMinor)
     // The ledger's note reads as money, not as raw minor units.
-    const owedEvent = owing.events.find((e: { kind: string }) => e.kind === 'owed')
+    const owedEvent = owing.events.find((e) => e.kind === 'owed')!
     expect(owedEvent.note).toContain(`€${(booking.authorisedMinor / 100).toFixed(2)}`)
     // The member is told by mail, with the amount as money and the way to pay it.
     const owedMail = await waitForMail('member@example.test', /Balance to pay for your cut/)

@@ -4,6 +4,7 @@ import { DateTime } from 'luxon'
 import Papa from 'papaparse'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { median, nearestRankPercentile } from '../../server/services/reports/statistics'
+import type { ReportByName, ReportName } from '../../shared/schemas/reports'
 import { plainPart } from '../fixtures/svg'
 import { signedIn, sqlRows } from './helpers'
 import { payCheckout, waitForPaymentState } from './payment-helpers'
@@ -20,10 +21,10 @@ const sum = <T>(rows: T[], value: (row: T) => number) => rows.reduce((total, row
 const minutesOf = (from: string, to: string) => (Date.parse(to) - Date.parse(from)) / 60_000
 const reportPath = (name: string, extra = '') => `/api/reports/${name}?from=${range.from}&to=${range.to}&cutter=${bench.cutterId}${extra}`
 
-async function report<Row = any, Summary = any>(name: string): Promise<{ rows: Row[]; summary: Summary; from: string; to: string; cutterId: number }> {
-  const response = await bench.staff.get(reportPath(name))
+async function report<Name extends ReportName>(name: Name): Promise<ReportByName[Name]> {
+  const response = await bench.staff.get<ReportByName[Name]>(reportPath(name))
   expect(response.status, JSON.stringify(response.body)).toBe(200)
-  return response.body as any
+  return response.body
 }
 
 /** A job booked on `days` from now at 09:00, paid, cut and finished with `actualMinutes`. */
@@ -118,7 +119,7 @@ describe('report totals equal sums over the tables', () => {
   it('minutes by member: the utilisation’s booked minutes split by member, and the minutes cut', async () => {
     const [{ rows }, utilisation] = await Promise.all([report('minutes-by-member'), report('utilisation')])
     const cut = await query<{ member_id: number; actual_minutes: number }>('select member_id, actual_minutes from jobs where cutter_id = ? and cut_finished_at >= ? and cut_finished_at < ?', bench.cutterId, range.fromIso, range.toIso)
-    expect(sum(rows, (r) => r.bookedMinutes)).toBeCloseTo(sum(utilisation.rows, (r: any) => r.bookedMinutes), 6)
+    expect(sum(rows, (r) => r.bookedMinutes)).toBeCloseTo(sum(utilisation.rows, (r) => r.bookedMinutes), 6)
     expect(sum(rows, (r) => r.cutMinutes)).toBeCloseTo(sum(cut, (j) => j.actual_minutes), 6)
     const inesRow = rows.find((r) => r.memberId === cut[0]!.member_id)
     expect(inesRow).toMatchObject({ bookings: 4, finishedJobs: 3 })
@@ -133,7 +134,7 @@ describe('report totals equal sums over the tables', () => {
       sheets: sum(jobs, (j) => j.sheets_used ?? 0),
       jobsWithoutSheetCount: jobs.filter((j) => j.sheets_used === null).length,
     })
-    expect(rows[0].sheets).toBeGreaterThanOrEqual(3)
+    expect(rows[0]!.sheets).toBeGreaterThanOrEqual(3)
   })
 
   it('jobs by state: the cutter’s jobs created in the range, every state listed', async () => {
@@ -166,10 +167,10 @@ describe('report totals equal sums over the tables', () => {
       bench.cutterId, range.fromIso, range.toIso,
     )
     expect(jobs).toHaveLength(3)
-    const byJob = new Map(points.rows.map((p: any) => [p.jobId, p]))
+    const byJob = new Map(points.rows.map((p) => [p.jobId, p]))
     const errors = jobs.map((j) => {
       const estimated = j.estimated_minutes - j.estimated_setup_s / 60
-      const point: any = byJob.get(j.id)
+      const point = byJob.get(j.id)!
       expect(point.estimatedMinutes).toBeCloseTo(estimated, 2)
       expect(point.actualMinutes).toBe(j.actual_minutes)
       expect(point.percentError).toBeCloseTo(((estimated - j.actual_minutes) / j.actual_minutes) * 100, 1)
@@ -177,9 +178,9 @@ describe('report totals equal sums over the tables', () => {
     })
     expect(accuracy.rows).toHaveLength(1)
     expect(accuracy.rows[0]).toMatchObject({ cutterId: bench.cutterId, materialId: bench.materialId, jobs: 3 })
-    expect(accuracy.rows[0].medianAbsPercentError).toBeCloseTo(median(errors)!, 0)
+    expect(accuracy.rows[0]!.medianAbsPercentError).toBeCloseTo(median(errors)!, 0)
     // Three values: the 90th percentile by nearest rank is the largest (⌈0.9 · 3⌉ = 3rd).
-    expect(accuracy.rows[0].p90AbsPercentError).toBeCloseTo(Math.max(...errors), 0)
+    expect(accuracy.rows[0]!.p90AbsPercentError).toBeCloseTo(Math.max(...errors), 0)
     expect(accuracy.summary.jobs).toBe(3)
   })
 
@@ -193,7 +194,7 @@ describe('report totals equal sums over the tables', () => {
 })
 
 describe('CSV and access', () => {
-  const names = ['utilisation', 'revenue', 'minutes-by-member', 'materials', 'jobs-by-state', 'turnaround', 'estimate-accuracy', 'estimate-points']
+  const names: ReportName[] = ['utilisation', 'revenue', 'minutes-by-member', 'materials', 'jobs-by-state', 'turnaround', 'estimate-accuracy', 'estimate-points']
 
   it.each(names)('%s: the CSV reads back to the JSON rows', async (name) => {
     const json = await report(name)

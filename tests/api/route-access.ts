@@ -82,9 +82,9 @@ export interface World {
   freshProcessSetting: () => Promise<number>
 }
 
-function created(response: { status: number; body: any }, what: string): number {
+function created(response: { status: number; body: { id?: number; fileId?: number } }, what: string): number {
   if (response.status !== 201 && response.status !== 200) throw new Error(`could not create ${what}: ${response.status} ${JSON.stringify(response.body)}`)
-  return response.body.id ?? response.body.fileId
+  return (response.body.id ?? response.body.fileId)!
 }
 
 function cutterBody(name: string) {

@@ -4,7 +4,11 @@ import { gunzipSync } from 'node:zlib'
 import knex, { type Knex } from 'knex'
 import { afterEach, describe, expect, it } from 'vitest'
 import { migrationSource } from '../../db/migrations/index'
+import type { FindingGroup } from '../../shared/finding-groups'
 import { decodeGeometry, decodeSites } from '../../shared/packed-analysis'
+
+/** A revision's stored analysis JSON, as far as these tests read it. */
+interface StoredAnalysis { findingGroups: FindingGroup[] }
 
 const BEFORE = '0009_dxf_layers'
 
@@ -72,14 +76,14 @@ describe('migration 0010: summaries written once', () => {
       time_cut_s: 18.6,
     })
     expect(first).toMatchObject({ warning_count: 3, warning_groups: 1, note_count: 2, note_groups: 1, error_count: 0, error_groups: 0, preview_json: null })
-    const stored = JSON.parse(first.analysis_json)
-    expect(stored.findings).toBeUndefined()
-    expect(stored.findingGroups.map((g: any) => [g.code, g.severity, g.count, g.firstSite])).toEqual([
+    const stored = JSON.parse(first.analysis_json) as StoredAnalysis
+    expect(stored).not.toHaveProperty('findings')
+    expect(stored.findingGroups.map((g) => [g.code, g.severity, g.count, g.firstSite])).toEqual([
       ['narrow-bridge', 'warning', 3, 0],
       ['open-contour', 'info', 2, 3],
     ])
-    expect(stored.findingGroups[0].box).toEqual([10, 5, 30, 5])
-    expect(stored.findingGroups[0].facts.limitMm).toBe(3)
+    expect(stored.findingGroups[0]!.box).toEqual([10, 5, 30, 5])
+    expect(stored.findingGroups[0]!.facts.limitMm).toBe(3)
 
     const payload = await db('revision_payloads').where({ file_revision_id: 1 }).first()
     const geometry = decodeGeometry(gunzipSync(payload.geometry_gz))
@@ -118,7 +122,8 @@ describe('migration 0010: summaries written once', () => {
     expect(decodeGeometry(gunzipSync((await db('revision_payloads').where({ file_revision_id: 1 }).first()).geometry_gz)).count).toBe(0)
 
     const reasons = await db('finding_acknowledgements').select('file_revision_id', 'group_key', 'reason', 'acknowledged_by')
-    const warningKey = JSON.parse((await db('file_revisions').where({ id: 2 }).first()).analysis_json).findingGroups.find((g: any) => g.severity === 'warning').key
+    const current = JSON.parse((await db('file_revisions').where({ id: 2 }).first()).analysis_json) as StoredAnalysis
+    const warningKey = current.findingGroups.find((g) => g.severity === 'warning')!.key
     // Only the current revision's warning group (not the note, not the older revision).
     expect(reasons).toEqual([{ file_revision_id: 2, group_key: warningKey, reason: 'The hinges fold by design.', acknowledged_by: 3 }])
   })

@@ -66,7 +66,12 @@ export function drawGeometry(ctx: CanvasRenderingContext2D, frame: GeometryFrame
     // Without a sheet the drawing's own box is the paper.
     const [minX, minY, maxX, maxY] = geometry.bbox
     ctx.fillStyle = PREVIEW_COLOURS.sheetFill
-    ctx.fillRect((minX - view.originX) * scale - 8 * dpr, (minY - view.originY) * scale - 8 * dpr, (maxX - minX) * scale + 16 * dpr, (maxY - minY) * scale + 16 * dpr)
+    ctx.fillRect(
+      (minX - view.originX) * scale - 8 * dpr,
+      (minY - view.originY) * scale - 8 * dpr,
+      (maxX - minX) * scale + 16 * dpr,
+      (maxY - minY) * scale + 16 * dpr,
+    )
   }
   const counts: TraceCounts = { lines: 0, dots: 0, points: 0 }
   const total = ids ? ids.length : geometry.count

@@ -93,7 +93,9 @@ export function unionBox(...boxes: (Box | null | undefined)[]): [number, number,
   let result: [number, number, number, number] | null = null
   for (const box of boxes) {
     if (!box) continue
-    result = result ? [Math.min(result[0], box[0]), Math.min(result[1], box[1]), Math.max(result[2], box[2]), Math.max(result[3], box[3])] : [box[0], box[1], box[2], box[3]]
+    result = result
+      ? [Math.min(result[0], box[0]), Math.min(result[1], box[1]), Math.max(result[2], box[2]), Math.max(result[3], box[3])]
+      : [box[0], box[1], box[2], box[3]]
   }
   return result
 }
