@@ -50,6 +50,9 @@ interface Slot {
   end: number
 }
 
+/** A job row as the seed builds it: its id and creation time, and columns added as its story unfolds. */
+type SeedJob = Record<string, unknown> & { id: number; created_at: string }
+
 /** Batched inserts: up to 500 rows a statement (SQLite compounds at most 500 selects, which Knex writes a multi-row insert as). */
 async function insertAll(trx: Knex.Transaction, table: string, rows: Record<string, unknown>[]): Promise<void> {
   if (!rows.length) return
@@ -123,7 +126,8 @@ export async function seedHistory(knex: Knex, options: HistoryOptions): Promise<
     // Time already booked (a history seeded before) stays as it is: the slots round it are left out.
     const booked = await trx('bookings').whereNot('status', 'cancelled').where('ends_at', '>', iso(historyStart)).select('cutter_id', 'starts_at', 'ends_at')
     if (booked.length) {
-      const clashes = (slot: Slot) => booked.some((b) => b.cutter_id === cutters[slot.cutter]!.id && Date.parse(b.starts_at) < slot.end && Date.parse(b.ends_at) > slot.start)
+      const clashes = (slot: Slot) =>
+        booked.some((b) => b.cutter_id === cutters[slot.cutter]!.id && Date.parse(b.starts_at) < slot.end && Date.parse(b.ends_at) > slot.start)
       candidates.splice(0, candidates.length, ...candidates.filter((slot) => !clashes(slot)))
     }
     // About three jobs in four are booked; the slots they take are drawn from the tiling, the rest stay free.
@@ -136,14 +140,38 @@ export async function seedHistory(knex: Knex, options: HistoryOptions): Promise<
     const free = candidates.slice(wanted)
 
     // One small drawing shared by every revision: the preview shows a plate with a hole.
-    const geometry = gzipSync(encodeGeometry({ count: 2, start: Uint32Array.from([0, 4, 8]), operation: Uint8Array.from([0, 0]), closed: Uint8Array.from([1, 1]), xy: Float64Array.from([0, 0, 120, 0, 120, 80, 0, 80, 50, 30, 70, 30, 70, 50, 50, 50]) }))
-    const sites = gzipSync(encodeSites({ count: 0, xy: new Float32Array(0), value: new Float32Array(0), contourA: new Int32Array(0), contourB: new Int32Array(0) }))
+    const geometry = gzipSync(encodeGeometry({
+      count: 2,
+      start: Uint32Array.from([0, 4, 8]),
+      operation: Uint8Array.from([0, 0]),
+      closed: Uint8Array.from([1, 1]),
+      xy: Float64Array.from([0, 0, 120, 0, 120, 80, 0, 80, 50, 30, 70, 30, 70, 50, 50, 50]),
+    }))
+    const sites = gzipSync(encodeSites({
+      count: 0,
+      xy: new Float32Array(0),
+      value: new Float32Array(0),
+      contourA: new Int32Array(0),
+      contourB: new Int32Array(0),
+    }))
 
     let jobId = await nextId(trx, 'jobs')
     let fileId = await nextId(trx, 'job_files')
     let revisionId = await nextId(trx, 'file_revisions')
     let bookingId = await nextId(trx, 'bookings')
-    const rows = { jobs: [] as Record<string, unknown>[], files: [] as Record<string, unknown>[], revisions: [] as Record<string, unknown>[], payloads: [] as Record<string, unknown>[], events: [] as Record<string, unknown>[], bookings: [] as Record<string, unknown>[], ledger: [] as Record<string, unknown>[], mail: [] as Record<string, unknown>[], timer: [] as Record<string, unknown>[], problems: [] as Record<string, unknown>[] }
+    type Row = Record<string, unknown>
+    const rows = {
+      jobs: [] as Row[],
+      files: [] as Row[],
+      revisions: [] as Row[],
+      payloads: [] as Row[],
+      events: [] as Row[],
+      bookings: [] as Row[],
+      ledger: [] as Row[],
+      mail: [] as Row[],
+      timer: [] as Row[],
+      problems: [] as Row[],
+    }
     const event = (job: number, actor: number | null, from: string | null, to: string, at: number, comment = '') => rows.events.push({ job_id: job, actor_id: actor, from_state: from, to_state: to, comment, created_at: iso(at), updated_at: iso(at) })
     const mail = (to: string, subject: string, at: number, paragraphs: string[]) => {
       // A few mails to addresses that bounced stay undelivered, for the staff's outbox page.
@@ -160,7 +188,7 @@ export async function seedHistory(knex: Knex, options: HistoryOptions): Promise<
       const c = cutters[cutter]!
       const choice = pick(choicesOf(c.id))
       const id = jobId++
-      const job: Record<string, any> = { id, member_id: member.id, title: `${pick(THINGS)} ${1 + Math.floor(random() * 40)}`, cutter_id: c.id, material_id: choice.material_id, sheet_id: choice.sheet_id, notes: '', state: 'draft', created_at: iso(created), updated_at: iso(created) }
+      const job: SeedJob = { id, member_id: member.id, title: `${pick(THINGS)} ${1 + Math.floor(random() * 40)}`, cutter_id: c.id, material_id: choice.material_id, sheet_id: choice.sheet_id, notes: '', state: 'draft', created_at: iso(created), updated_at: iso(created) }
       const cutS = Math.max(30, (machineMinutes - c.setup) * 60)
       const files = chance(0.25) ? 2 : 1
       for (let f = 0; f < files; f++) {
@@ -172,7 +200,17 @@ export async function seedHistory(knex: Knex, options: HistoryOptions): Promise<
           time.totalS = time.cutS + time.pierceS + time.travelS + time.setupS
           const width = between(60, Math.min(600, choice.width_mm))
           const height = between(40, Math.min(400, choice.height_mm))
-          const analysis = { bbox: { x: 0, y: 0, width, height }, cut: { lengthMm: (time.cutS / 60) * choice.speed, pierces: 2 + Math.floor(random() * 30), closedContours: 2, openContours: 0 }, score: { lengthMm: 0 }, engrave: { areaMm2: 0 }, travelMm: 0, time, sheet: { fits: true, rotated: false, copies: 1, fitsBed: true }, findingGroups: [], checks: { narrowBridgeSites: 0, narrowestBridgeMm: null, duplicateCutLengthMm: 0, duplicateCutTimeS: 0 } }
+          const analysis = {
+            bbox: { x: 0, y: 0, width, height },
+            cut: { lengthMm: (time.cutS / 60) * choice.speed, pierces: 2 + Math.floor(random() * 30), closedContours: 2, openContours: 0 },
+            score: { lengthMm: 0 },
+            engrave: { areaMm2: 0 },
+            travelMm: 0,
+            time,
+            sheet: { fits: true, rotated: false, copies: 1, fitsBed: true },
+            findingGroups: [],
+            checks: { narrowBridgeSites: 0, narrowestBridgeMm: null, duplicateCutLengthMm: 0, duplicateCutTimeS: 0 },
+          }
           const rid = revisionId++
           const at = iso(created + revision * HOUR)
           rows.revisions.push({ id: rid, job_file_id: fid, revision, sha256: (rid.toString(16) + '0'.repeat(64)).slice(0, 64), original_name: `part-${f + 1}.svg`, size_bytes: 4000 + Math.floor(random() * 60_000), content_type: 'image/svg+xml', analysis_json: JSON.stringify(analysis), worst_severity: null, uploaded_by: member.id, created_at: at, updated_at: at, cut_length_mm: analysis.cut.lengthMm, pierces: analysis.cut.pierces, bbox_width_mm: width, bbox_height_mm: height, time_cut_s: time.cutS, time_pierce_s: time.pierceS, time_travel_s: time.travelS, time_setup_s: time.setupS, time_total_s: time.totalS })
@@ -185,7 +223,7 @@ export async function seedHistory(knex: Knex, options: HistoryOptions): Promise<
     }
 
     /** Draft → submitted (→ changes asked for → submitted) → a review outcome, spread over [created, by]. */
-    const review = (job: Record<string, any>, member: (typeof members)[number], created: number, by: number, changes: boolean, outcome: string) => {
+    const review = (job: SeedJob, member: (typeof members)[number], created: number, by: number, changes: boolean, outcome: string) => {
       const span = by - created
       const submitted = created + span * 0.1
       event(job.id, member.id, 'draft', 'submitted', submitted)
@@ -205,7 +243,7 @@ export async function seedHistory(knex: Knex, options: HistoryOptions): Promise<
     }
 
     // Booked jobs: one per taken slot, in time order.
-    const bookedJobs: { job: Record<string, any>; booking: Record<string, unknown>; bookedAt: number }[] = []
+    const bookedJobs: { job: SeedJob; booking: Record<string, unknown>; bookedAt: number }[] = []
     // The last cut of all still waits to be put on the shelf, the two before it wait for their members.
     const past = taken.filter((slot) => slot.end <= now - HOUR)
     const lastCut = past.at(-1)
@@ -325,6 +363,14 @@ export async function seedHistory(knex: Knex, options: HistoryOptions): Promise<
     await insertAll(trx, 'mail_outbox', rows.mail.sort((a, b) => String(a.created_at).localeCompare(String(b.created_at))))
     // The rows above carry their ids; PostgreSQL's sequences must move past them.
     await syncIdSequences(trx)
-    return { members: members.length, jobs: rows.jobs.length, revisions: rows.revisions.length, jobEvents: rows.events.length, bookings: allBookings.length, ledger: rows.ledger.length, mail: rows.mail.length }
+    return {
+      members: members.length,
+      jobs: rows.jobs.length,
+      revisions: rows.revisions.length,
+      jobEvents: rows.events.length,
+      bookings: allBookings.length,
+      ledger: rows.ledger.length,
+      mail: rows.mail.length,
+    }
   })
 }
