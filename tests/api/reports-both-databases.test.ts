@@ -1,0 +1,180 @@
+// The same seeded history in a SQLite file and in a PostgreSQL database must give the same figures: every report of
+// the registry (over two years, a quarter, single weeks round the clock changes, and a span running into the bookings
+// ahead; for each cutter and for all), its CSV, the admin's payments list with its totals, and the staff's list of every
+// job walked page by page. Both databases are written by the same seeds from one fixed instant and one seed, so their
+// rows, ids included, are identical; any difference in an answer is the database's doing. Runs in
+// `npm run test:postgres` only: it needs a PostgreSQL server.
+import { randomBytes } from 'node:crypto'
+import { mkdtempSync, rmSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
+import type { Knex } from 'knex'
+import { DateTime } from 'luxon'
+import pg from 'pg'
+import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
+import type { SessionUser } from '#shared/roles'
+import type { ReportName } from '#shared/schemas/reports'
+import { migrateLatest, openDatabase } from '../../db/index'
+import { hashPasswordOffline } from '../../db/password-hash'
+import { demoSettings, seedDemo } from '../../db/seeds/demo'
+import { seedHistory, type HistoryCounts } from '../../db/seeds/history'
+import { listJobsPage, type JobListFilter } from '../../server/services/jobs'
+import { listPayments, listPaymentsPage, paymentTotals, type PaymentFilter } from '../../server/services/payment-list'
+import { REPORTS, reportCsv, resolveRange } from '../../server/services/reports/index'
+
+const postgresUrl = inject('postgresUrl')
+
+// One instant for both seeds: three days after the end of summer time in the workshop's zone (Europe/Dublin,
+// 25 October 2026), so the history's last weeks straddle a clock change and its bookings run two weeks on.
+const NOW = new Date('2026-10-28T14:30:00.000Z')
+const HISTORY = { jobs: 1500, days: 731, seed: 4_242, now: NOW }
+const PAGE_SIZE = 97
+
+const today = DateTime.fromJSDate(NOW, { zone: demoSettings.timeZone }).startOf('day')
+const RANGES: Record<string, { from: string; to: string }> = {
+  '731 days': { from: today.minus({ days: 731 }).toISODate()!, to: today.toISODate()! },
+  '90 days': { from: today.minus({ days: 90 }).toISODate()!, to: today.toISODate()! },
+  // Monday to Monday, summer time ending on its Sunday.
+  'the week summer time ended': { from: '2026-10-19', to: '2026-10-26' },
+  // Wednesday to Thursday: clipped weeks at both ends, summer time starting on 29 March.
+  'eight days round the start of summer time': { from: '2026-03-25', to: '2026-04-02' },
+  // A week back and three ahead: held and confirmed bookings to come, and the demo's closures.
+  'four weeks round now': { from: today.minus({ weeks: 1 }).toISODate()!, to: today.plus({ weeks: 3 }).toISODate()! },
+}
+
+/** A new database on the PostgreSQL server (as scripts/lib/built-app.ts gives each app its own); answers its URL. */
+async function createPostgresDatabase(serverUrl: string): Promise<string> {
+  const name = `kerfbook_reports_${randomBytes(4).toString('hex')}`
+  const client = new pg.Client({ connectionString: serverUrl })
+  await client.connect()
+  try {
+    await client.query(`CREATE DATABASE ${name}`)
+  } finally {
+    await client.end()
+  }
+  const url = new URL(serverUrl)
+  url.pathname = `/${name}`
+  return url.toString()
+}
+
+/** The demo workshop (as seedDemoIfEmpty writes it into an empty database, but at NOW) and the history. */
+async function seeded(location: string): Promise<{ db: Knex; counts: HistoryCounts }> {
+  const db = openDatabase(location)
+  await migrateLatest(db)
+  await seedDemo(db, hashPasswordOffline, { now: NOW })
+  return { db, counts: await seedHistory(db, HISTORY) }
+}
+
+/** Every report over every range, for all cutters and each one: the JSON answer and the CSV, by a readable key. */
+async function everyReport(db: Knex, cutterIds: number[]): Promise<Map<string, unknown>> {
+  const answers = new Map<string, unknown>()
+  for (const [rangeName, range] of Object.entries(RANGES)) {
+    for (const cutter of [undefined, ...cutterIds]) {
+      const resolved = await resolveRange(db, { ...range, cutter })
+      for (const name of Object.keys(REPORTS) as ReportName[]) {
+        const report = await REPORTS[name].build(db, resolved)
+        answers.set(`${name}, ${rangeName}, cutter ${cutter ?? 'all'}`, { report, csv: reportCsv(name, report) })
+      }
+    }
+  }
+  return answers
+}
+
+/** Every page of a keyset-paged list, in order, with the cursors that led from one to the next. */
+async function allPages<Item>(read: (cursor?: string) => Promise<{ items: Item[]; nextCursor: string | null }>): Promise<{ items: Item[]; cursors: string[] }> {
+  const items: Item[] = []
+  const cursors: string[] = []
+  let cursor: string | undefined
+  do {
+    const page = await read(cursor)
+    items.push(...page.items)
+    cursor = page.nextCursor ?? undefined
+    if (cursor) cursors.push(cursor)
+  } while (cursor)
+  return { items, cursors }
+}
+
+const PAYMENT_FILTERS: Record<string, PaymentFilter> = {
+  'all': {},
+  'captured': { state: 'captured' },
+  'partly refunded': { state: 'partly-refunded' },
+  'released': { state: 'released' },
+  'starting in the last 90 days': { from: RANGES['90 days']!.from, to: RANGES['90 days']!.to },
+}
+
+async function paymentAnswers(db: Knex): Promise<Map<string, unknown>> {
+  const answers = new Map<string, unknown>()
+  for (const [name, filter] of Object.entries(PAYMENT_FILTERS)) {
+    answers.set(`payments ${name}: whole list`, await listPayments(db, filter))
+    answers.set(`payments ${name}: pages`, await allPages((cursor) => listPaymentsPage(db, filter, { limit: PAGE_SIZE, cursor })))
+    answers.set(`payments ${name}: totals`, await paymentTotals(db, filter))
+  }
+  return answers
+}
+
+const JOB_FILTERS: Record<string, JobListFilter> = {
+  'every job, oldest waiting first': { scope: 'all' },
+  'every job, newest first': { scope: 'all', order: 'newest' },
+  'review queue': { scope: 'all', state: 'submitted' },
+  'waiting for pickup or collected': { scope: 'all', state: 'ready,collected' },
+}
+
+async function jobAnswers(db: Knex, staff: SessionUser): Promise<Map<string, unknown>> {
+  const answers = new Map<string, unknown>()
+  for (const [name, filter] of Object.entries(JOB_FILTERS)) answers.set(`jobs ${name}`, await allPages((cursor) => listJobsPage(db, staff, filter, { limit: PAGE_SIZE, cursor })))
+  return answers
+}
+
+/** Each answer of one database against the same answer of the other, so a failure names the one that differs. */
+function expectSameAnswers(onPostgres: Map<string, unknown>, onSqlite: Map<string, unknown>): void {
+  expect([...onPostgres.keys()]).toEqual([...onSqlite.keys()])
+  for (const [key, answer] of onSqlite) expect(onPostgres.get(key), key).toStrictEqual(answer)
+}
+
+describe.skipIf(!postgresUrl)('reports and lists on SQLite and PostgreSQL over the same history', () => {
+  let sqliteDir: string
+  let sqlite: Knex
+  let postgres: Knex
+  let cutterIds: number[]
+  let staff: SessionUser
+
+  beforeAll(async () => {
+    sqliteDir = mkdtempSync(join(tmpdir(), 'kerfbook-reports-both-'))
+    // One after the other: the machine's two CPUs are shared with the app server under test.
+    const onSqlite = await seeded(join(sqliteDir, 'history.sqlite'))
+    sqlite = onSqlite.db
+    const onPostgres = await seeded(await createPostgresDatabase(postgresUrl!))
+    postgres = onPostgres.db
+    expect(onPostgres.counts).toEqual(onSqlite.counts)
+    cutterIds = await sqlite('cutters').orderBy('id').pluck('id')
+    staff = await sqlite('users').where({ email: 'staff@example.test' }).first('id', 'email', 'name', 'role')
+  })
+
+  afterAll(async () => {
+    await sqlite?.destroy()
+    await postgres?.destroy()
+    if (sqliteDir) rmSync(sqliteDir, { recursive: true, force: true })
+  })
+
+  it('gives every report the same rows, summary and CSV', async () => {
+    const onSqlite = await everyReport(sqlite, cutterIds)
+    const onPostgres = await everyReport(postgres, cutterIds)
+    expectSameAnswers(onPostgres, onSqlite)
+    // Not two empty answers agreeing: the history fills the two years' reports.
+    for (const name of Object.keys(REPORTS)) expect((onSqlite.get(`${name}, 731 days, cutter all`) as { report: { rows: unknown[] } }).report.rows.length, name).toBeGreaterThan(0)
+  })
+
+  it('lists the same payments, page by page and whole, with the same totals', async () => {
+    const onSqlite = await paymentAnswers(sqlite)
+    expectSameAnswers(await paymentAnswers(postgres), onSqlite)
+    const all = onSqlite.get('payments all: pages') as { items: unknown[]; cursors: string[] }
+    expect(all.items.length).toBeGreaterThan(5 * PAGE_SIZE)
+    expect(all.items).toEqual(onSqlite.get('payments all: whole list'))
+  })
+
+  it('lists the same jobs for staff, page by page', async () => {
+    const onSqlite = await jobAnswers(sqlite, staff)
+    expectSameAnswers(await jobAnswers(postgres, staff), onSqlite)
+    expect((onSqlite.get('jobs every job, oldest waiting first') as { items: unknown[] }).items).toHaveLength(HISTORY.jobs)
+  })
+})
