@@ -2,7 +2,9 @@
 // the registry (over two years, a quarter, single weeks round the clock changes, and a span running into the bookings
 // ahead; for each cutter and for all), its CSV, the admin's payments list with its totals, and the staff's list of every
 // job walked page by page. Both databases are written by the same seeds from one fixed instant and one seed, so their
-// rows, ids included, are identical; any difference in an answer is the database's doing. Runs in
+// rows, ids included, are identical; any difference in an answer is the database's doing. PostgreSQL is asked twice:
+// in a database as the app gets one (the server's own collation, "C" on the test server) and in one whose text sorts by
+// a language's rules (ICU en-US), as a server set up for people sorts it; SQLite compares text byte by byte. Runs in
 // `npm run test:postgres` only: it needs a PostgreSQL server.
 import { randomBytes } from 'node:crypto'
 import { mkdtempSync, rmSync } from 'node:fs'
@@ -42,13 +44,22 @@ const RANGES: Record<string, { from: string; to: string }> = {
   'four weeks round now': { from: today.minus({ weeks: 1 }).toISODate()!, to: today.plus({ weeks: 3 }).toISODate()! },
 }
 
+/** What a database answered, by a key that says what was asked. */
+type Answers = Map<string, unknown>
+
+/** The PostgreSQL databases compared with SQLite: how each is created after CREATE DATABASE and its name. */
+const POSTGRES_DATABASES: Record<string, string> = {
+  PostgreSQL: '',
+  'PostgreSQL, ICU en-US collation': `TEMPLATE template0 LOCALE_PROVIDER icu ICU_LOCALE 'en-US' LOCALE 'C.UTF-8'`,
+}
+
 /** A new database on the PostgreSQL server (as scripts/lib/built-app.ts gives each app its own); answers its URL. */
-async function createPostgresDatabase(serverUrl: string): Promise<string> {
+async function createPostgresDatabase(serverUrl: string, options: string): Promise<string> {
   const name = `kerfbook_reports_${randomBytes(4).toString('hex')}`
   const client = new pg.Client({ connectionString: serverUrl })
   await client.connect()
   try {
-    await client.query(`CREATE DATABASE ${name}`)
+    await client.query(`CREATE DATABASE ${name} ${options}`)
   } finally {
     await client.end()
   }
@@ -73,8 +84,8 @@ async function seeded(location: string): Promise<{ db: Knex; counts: HistoryCoun
 }
 
 /** Every report over every range, for all cutters and each one: the JSON answer and the CSV, by a readable key. */
-async function everyReport(db: Knex, cutterIds: number[]): Promise<Map<string, unknown>> {
-  const answers = new Map<string, unknown>()
+async function everyReport(db: Knex, cutterIds: number[]): Promise<Answers> {
+  const answers: Answers = new Map()
   for (const [rangeName, range] of Object.entries(RANGES)) {
     for (const cutter of [undefined, ...cutterIds]) {
       const resolved = await resolveRange(db, { ...range, cutter })
@@ -109,8 +120,8 @@ const PAYMENT_FILTERS: Record<string, PaymentFilter> = {
   'starting in the last 90 days': { from: RANGES['90 days']!.from, to: RANGES['90 days']!.to },
 }
 
-async function paymentAnswers(db: Knex): Promise<Map<string, unknown>> {
-  const answers = new Map<string, unknown>()
+async function paymentAnswers(db: Knex): Promise<Answers> {
+  const answers: Answers = new Map()
   for (const [name, filter] of Object.entries(PAYMENT_FILTERS)) {
     answers.set(`payments ${name}: whole list`, await listPayments(db, filter))
     answers.set(`payments ${name}: pages`, await allPages((cursor) => listPaymentsPage(db, filter, { limit: PAGE_SIZE, cursor })))
@@ -126,22 +137,27 @@ const JOB_FILTERS: Record<string, JobListFilter> = {
   'waiting for pickup or collected': { scope: 'all', state: 'ready,collected' },
 }
 
-async function jobAnswers(db: Knex, staff: SessionUser): Promise<Map<string, unknown>> {
-  const answers = new Map<string, unknown>()
+async function jobAnswers(db: Knex, staff: SessionUser): Promise<Answers> {
+  const answers: Answers = new Map()
   for (const [name, filter] of Object.entries(JOB_FILTERS)) answers.set(`jobs ${name}`, await allPages((cursor) => listJobsPage(db, staff, filter, { limit: PAGE_SIZE, cursor })))
   return answers
 }
 
-/** Each answer of one database against the same answer of the other, so a failure names the one that differs. */
-function expectSameAnswers(onPostgres: Map<string, unknown>, onSqlite: Map<string, unknown>): void {
-  expect([...onPostgres.keys()]).toEqual([...onSqlite.keys()])
-  for (const [key, answer] of onSqlite) expect(onPostgres.get(key), key).toStrictEqual(answer)
+/** Each answer of every PostgreSQL database against the same answer on SQLite, so a failure names the one that differs. */
+async function expectSameAnswers(answersOf: (db: Knex) => Promise<Answers>, sqlite: Knex, postgres: Map<string, Knex>): Promise<Answers> {
+  const onSqlite = await answersOf(sqlite)
+  for (const [database, db] of postgres) {
+    const onPostgres = await answersOf(db)
+    expect([...onPostgres.keys()], database).toEqual([...onSqlite.keys()])
+    for (const [key, answer] of onSqlite) expect(onPostgres.get(key), `${database}: ${key}`).toStrictEqual(answer)
+  }
+  return onSqlite
 }
 
 describe.skipIf(!postgresUrl)('reports and lists on SQLite and PostgreSQL over the same history', () => {
   let sqliteDir: string
   let sqlite: Knex
-  let postgres: Knex
+  const postgres = new Map<string, Knex>()
   let cutterIds: number[]
   let staff: SessionUser
 
@@ -150,23 +166,23 @@ describe.skipIf(!postgresUrl)('reports and lists on SQLite and PostgreSQL over t
     // One after the other: the machine's two CPUs are shared with the app server under test.
     const onSqlite = await seeded(join(sqliteDir, 'history.sqlite'))
     sqlite = onSqlite.db
-    const onPostgres = await seeded(await createPostgresDatabase(postgresUrl!))
-    postgres = onPostgres.db
-    expect(onPostgres.counts).toEqual(onSqlite.counts)
+    for (const [database, options] of Object.entries(POSTGRES_DATABASES)) {
+      const onPostgres = await seeded(await createPostgresDatabase(postgresUrl!, options))
+      postgres.set(database, onPostgres.db)
+      expect(onPostgres.counts, database).toEqual(onSqlite.counts)
+    }
     cutterIds = await sqlite('cutters').orderBy('id').pluck('id')
     staff = await sqlite('users').where({ email: 'staff@example.test' }).first('id', 'email', 'name', 'role')
   })
 
   afterAll(async () => {
     await sqlite?.destroy()
-    await postgres?.destroy()
+    for (const db of postgres.values()) await db.destroy()
     if (sqliteDir) rmSync(sqliteDir, { recursive: true, force: true })
   })
 
   it('gives every report the same rows, summary and CSV', async () => {
-    const onSqlite = await everyReport(sqlite, cutterIds)
-    const onPostgres = await everyReport(postgres, cutterIds)
-    expectSameAnswers(onPostgres, onSqlite)
+    const onSqlite = await expectSameAnswers((db) => everyReport(db, cutterIds), sqlite, postgres)
     // Not two empty answers agreeing: the history fills the two years' reports.
     for (const name of Object.keys(REPORTS)) expect((onSqlite.get(`${name}, 731 days, cutter all`) as { report: { rows: unknown[] } }).report.rows.length, name).toBeGreaterThan(0)
     // The cuts without a recorded finish time were found through their events.
@@ -175,16 +191,14 @@ describe.skipIf(!postgresUrl)('reports and lists on SQLite and PostgreSQL over t
   })
 
   it('lists the same payments, page by page and whole, with the same totals', async () => {
-    const onSqlite = await paymentAnswers(sqlite)
-    expectSameAnswers(await paymentAnswers(postgres), onSqlite)
+    const onSqlite = await expectSameAnswers(paymentAnswers, sqlite, postgres)
     const all = onSqlite.get('payments all: pages') as { items: unknown[]; cursors: string[] }
     expect(all.items.length).toBeGreaterThan(5 * PAGE_SIZE)
     expect(all.items).toEqual(onSqlite.get('payments all: whole list'))
   })
 
   it('lists the same jobs for staff, page by page', async () => {
-    const onSqlite = await jobAnswers(sqlite, staff)
-    expectSameAnswers(await jobAnswers(postgres, staff), onSqlite)
+    const onSqlite = await expectSameAnswers((db) => jobAnswers(db, staff), sqlite, postgres)
     expect((onSqlite.get('jobs every job, oldest waiting first') as { items: unknown[] }).items).toHaveLength(HISTORY.jobs)
   })
 })
