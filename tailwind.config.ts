@@ -37,7 +37,7 @@ export default {
         },
       },
       fontSize: {
-        'display': ['2rem', { lineHeight: '2.4rem', fontWeight: '800' }],
+        display: ['2rem', { lineHeight: '2.4rem', fontWeight: '800' }],
       },
       borderRadius: {
         panel: '0.6rem',

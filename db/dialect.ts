@@ -9,6 +9,9 @@ import type { Knex } from 'knex'
  */
 export const BOOKING_WRITE_LOCK = 5_045_001
 
+/** PostgreSQL: held while one app server migrates (db/index.ts migrateLatest). */
+export const MIGRATION_LOCK = 5_045_003
+
 export function isPostgres(db: Knex): boolean {
   return db.client.dialect === 'postgresql'
 }

@@ -1,5 +1,6 @@
 import { rmSync } from 'node:fs'
 import knex, { type Knex } from 'knex'
+import { isPostgres, MIGRATION_LOCK } from './dialect'
 import { databaseLocation, databasePath, isPostgresUrl, knexConfig } from './knexfile'
 import { seedDemo } from './seeds/demo'
 import { hashPasswordOffline } from './password-hash'
@@ -9,8 +10,20 @@ export function openDatabase(location = databaseLocation()): Knex {
   return knex(knexConfig(location))
 }
 
+/**
+ * Brings the schema up to date. On PostgreSQL several app servers may start at once: the first to take the
+ * migration lock migrates, the others wait for it and then find nothing left to do (Knex's own lock table would
+ * make them fail instead).
+ */
 export async function migrateLatest(db: Knex): Promise<void> {
-  await db.migrate.latest()
+  if (!isPostgres(db)) {
+    await db.migrate.latest()
+    return
+  }
+  await db.transaction(async (trx) => {
+    await trx.raw('SELECT pg_advisory_xact_lock(?)', [MIGRATION_LOCK])
+    await db.migrate.latest()
+  })
 }
 
 /** Seeds the demo workshop only when the database has no users yet, so a re-run never duplicates it; `history` adds its half year of activity. */

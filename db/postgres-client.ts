@@ -8,11 +8,9 @@ import ClientPg from 'knex/lib/dialects/postgres/index.js'
 // @ts-expect-error -- as above.
 import ColumnCompilerPg from 'knex/lib/dialects/postgres/schema/pg-columncompiler.js'
 
-class ColumnCompiler extends ColumnCompilerPg {
-  constructor(client: unknown, tableCompiler: unknown, columnBuilder: unknown) {
-    super(client, tableCompiler, columnBuilder)
-  }
+const ColumnCompilerBase = ColumnCompilerPg as new (client: unknown, tableCompiler: unknown, columnBuilder: unknown) => object
 
+class ColumnCompiler extends ColumnCompilerBase {
   varchar(length?: number) {
     return length === undefined ? 'text' : `varchar(${length})`
   }

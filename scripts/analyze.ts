@@ -30,7 +30,8 @@ const DEMO_COLOUR_MAPPING: ColourRule[] = [
   ...DEFAULT_ANALYSIS_PARAMS.colourMapping,
 ]
 const DEMO_LAYER_MAPPING: DxfLayerRule[] = demoDxfLayers.map((layer) => ({ layer: layer.layer, operation: layer.operation as DxfLayerRule['operation'] }))
-const defaultProfile = (overrides: Partial<AnalysisParams>) => withDefaults({ colourMapping: DEMO_COLOUR_MAPPING, dxfLayerMapping: DEMO_LAYER_MAPPING, ...overrides })
+const defaultProfile = (overrides: Partial<AnalysisParams>) =>
+  withDefaults({ colourMapping: DEMO_COLOUR_MAPPING, dxfLayerMapping: DEMO_LAYER_MAPPING, ...overrides })
 
 const HELP = `Usage: npm run analyze -- FILE.svg|FILE.dxf [--json] [options]
 
@@ -81,7 +82,8 @@ async function main(argv: string[]): Promise<number> {
     return 2
   }
   const overrides = overridesFrom(values as Record<string, string | undefined>)
-  const params = values.cutter !== undefined ? { ...(await catalogProfile(Number(values.cutter), Number(values.material))), ...overrides } : defaultProfile(overrides)
+  const params =
+    values.cutter !== undefined ? { ...(await catalogProfile(Number(values.cutter), Number(values.material))), ...overrides } : defaultProfile(overrides)
   try {
     const result = analyzeCutFile(readFileSync(positionals[0]!, 'utf8'), params)
     process.stdout.write(values.json ? `${JSON.stringify(result, (_key, value: unknown) => (ArrayBuffer.isView(value) ? Array.from(value as Float32Array) : value))}\n` : readableReport(result))

@@ -187,7 +187,12 @@ interface Answer {
 }
 
 /** One request over plain node:http, as a browser would send it (compression accepted), timed to the last byte. */
-function send(baseUrl: string, method: string, path: string, options: { cookie?: string; body?: string | Buffer; contentType?: string; accept?: string; timeoutMs: number }): Promise<Answer> {
+function send(
+  baseUrl: string,
+  method: string,
+  path: string,
+  options: { cookie?: string; body?: string | Buffer; contentType?: string; accept?: string; timeoutMs: number },
+): Promise<Answer> {
   return new Promise((resolve, reject) => {
     const started = performance.now()
     const headers: Record<string, string | number> = { accept: options.accept ?? 'application/json', 'accept-encoding': 'gzip, deflate, br' }
@@ -363,7 +368,8 @@ function storedBytes(databasePath: string, revision: RevisionRef): { total: numb
 function folderBytes(path: string): number {
   if (!existsSync(path)) return 0
   let total = 0
-  for (const entry of readdirSync(path, { withFileTypes: true })) total += entry.isDirectory() ? folderBytes(join(path, entry.name)) : statSync(join(path, entry.name)).size
+  for (const entry of readdirSync(path, { withFileTypes: true }))
+    total += entry.isDirectory() ? folderBytes(join(path, entry.name)) : statSync(join(path, entry.name)).size
   return total
 }
 

@@ -164,7 +164,18 @@ interface Figures {
  * machine slows both alike rather than whichever ran during the busy spell.
  */
 function measure(svg: string, params: AnalysisParams, repeats = REPEATS): Figures {
-  const figures: Figures = { megabytes: svg.length / 1e6, contours: 0, groups: 0, sites: 0, engineMs: Infinity, parseMs: Infinity, stageMs: {}, jsonBytes: 0, sitesGzipBytes: 0, geometryGzipBytes: 0 }
+  const figures: Figures = {
+    megabytes: svg.length / 1e6,
+    contours: 0,
+    groups: 0,
+    sites: 0,
+    engineMs: Infinity,
+    parseMs: Infinity,
+    stageMs: {},
+    jsonBytes: 0,
+    sitesGzipBytes: 0,
+    geometryGzipBytes: 0,
+  }
   for (let attempt = 0; attempt < repeats; attempt++) {
     const stages: Figures['stageMs'] = {}
     const engineStarted = performance.now()

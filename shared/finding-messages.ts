@@ -114,17 +114,21 @@ class Facts {
     private readonly group: Pick<FindingGroup, 'facts'>,
     readonly unit: LengthUnit,
   ) {}
+
   number(name: string): number {
     const value = this.group.facts[name]
     return typeof value === 'number' ? value : Number.NaN
   }
+
   /** A length fact (stored in mm), in the reader's unit. */
   mm(name: string): string {
     return this.length(this.number(name))
   }
+
   length(valueMm: number): string {
     return formatMeasure(valueMm, this.unit)
   }
+
   text(name: string): string {
     const value = this.group.facts[name]
     return value === undefined ? '' : String(value)

@@ -36,7 +36,13 @@ export function groupFindingsV1(findings: FindingV1[]): { groups: FindingGroup[]
   }
   const ordered = [...byKey].sort(([, a], [, b]) => SEVERITY_RANK[a[0]!.severity] - SEVERITY_RANK[b[0]!.severity])
   const count = findings.length
-  const sites: FindingSites = { count, xy: new Float32Array(2 * count), value: new Float32Array(count), contourA: new Int32Array(count), contourB: new Int32Array(count) }
+  const sites: FindingSites = {
+    count,
+    xy: new Float32Array(2 * count),
+    value: new Float32Array(count),
+    contourA: new Int32Array(count),
+    contourB: new Int32Array(count),
+  }
   const groups: FindingGroup[] = []
   let row = 0
   for (const [key, members] of ordered) {

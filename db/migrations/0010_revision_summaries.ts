@@ -46,7 +46,11 @@ async function convertStoredRevisions(knex: Knex): Promise<void> {
     const columns = summaryColumns(converted as Parameters<typeof summaryColumns>[0])
     await knex('file_revisions')
       .where({ id })
-      .update({ ...Object.fromEntries(COLUMNS.map((name) => [name, Number(columns[name]) || 0])), analysis_json: JSON.stringify(converted), preview_json: null })
+      .update({
+        ...Object.fromEntries(COLUMNS.map((name) => [name, Number(columns[name]) || 0])),
+        analysis_json: JSON.stringify(converted),
+        preview_json: null,
+      })
     await knex('revision_payloads').insert({ file_revision_id: id, geometry_gz: gzipSync(encodeGeometry(contoursV1(contours))), sites_gz: gzipSync(encodeSites(sites)) })
   }
   await carryOverAcknowledgements(knex)
@@ -55,7 +59,7 @@ async function convertStoredRevisions(knex: Knex): Promise<void> {
 /** A stored revision as the earlier code wrote it; a damaged one reads as empty (logged) rather than stopping the start. */
 function readV1(id: number, row: { analysis_json: string; preview_json: string | null }) {
   try {
-    const { findings, contours: inline, ...analysis } = JSON.parse(row.analysis_json) as Record<string, any>
+    const { findings, contours: inline, ...analysis } = JSON.parse(row.analysis_json) as Record<string, unknown>
     const preview = row.preview_json ? JSON.parse(row.preview_json) : inline
     const zero = { x: 0, y: 0, width: 0, height: 0, lengthMm: 0, pierces: 0, areaMm2: 0 }
     return {
@@ -65,7 +69,8 @@ function readV1(id: number, row: { analysis_json: string; preview_json: string |
     }
   } catch (error) {
     console.warn(`[migration 0010] revision ${id}: stored analysis unreadable (${(error as Error).message}); kept with empty figures`)
-    return { analysis: { bbox: { x: 0, y: 0, width: 0, height: 0 }, cut: { lengthMm: 0, pierces: 0 }, score: { lengthMm: 0 }, engrave: { areaMm2: 0 }, time: {} }, findings: [], contours: [] }
+    const empty = { bbox: { x: 0, y: 0, width: 0, height: 0 }, cut: { lengthMm: 0, pierces: 0 }, score: { lengthMm: 0 }, engrave: { areaMm2: 0 }, time: {} }
+    return { analysis: empty, findings: [], contours: [] }
   }
 }
 

@@ -59,7 +59,8 @@ END;`
 
 // PostgreSQL: the same keepers as trigger functions; instants are the same ISO text, turned into timestamps to
 // subtract and back into text to compare.
-const spanSecondsPg = (row: string) => `(ceil(extract(epoch FROM (${row}.ends_at::timestamptz - ${row}.starts_at::timestamptz)))::integer + 1)`
+// The same whole seconds as SQLite's: the length's whole seconds and one more, so never short of it.
+const spanSecondsPg = (row: string) => `(floor(extract(epoch FROM (${row}.ends_at::timestamptz - ${row}.starts_at::timestamptz)))::integer + 1)`
 const postgresKeepers = `
 CREATE FUNCTION bookings_span() RETURNS trigger LANGUAGE plpgsql AS $$
 BEGIN

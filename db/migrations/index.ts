@@ -13,6 +13,7 @@ import * as moneyMail from './0011_money_mail'
 import * as userSessions from './0012_user_sessions'
 import * as historyIndexes from './0013_history_indexes'
 import * as cutterOutages from './0014_cutter_outages'
+import * as analysisTasks from './0015_analysis_tasks'
 
 // Append-only: a schema change is a new file added at the end of this list, never an edit of a landed one.
 // Migrations are imported statically so the bundled server and the CLI run the same list.
@@ -31,6 +32,7 @@ const migrations: Record<string, Knex.Migration> = {
   '0012_user_sessions': userSessions,
   '0013_history_indexes': historyIndexes,
   '0014_cutter_outages': cutterOutages,
+  '0015_analysis_tasks': analysisTasks,
 }
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -86,8 +86,8 @@ async function waitForServer(url: string, child: ChildProcess, timeoutMs = 60_00
 export async function startBuiltApp(options: BuiltAppOptions): Promise<BuiltApp> {
   const workDir = mkdtempSync(join(tmpdir(), `${options.name}-`))
   const uploadsDir = join(workDir, 'uploads')
-  const databaseLocation = options.sharedDatabase
-    ?? (options.postgresUrl ? await createPostgresDatabase(options.postgresUrl, options.name) : join(workDir, 'app.sqlite'))
+  const newLocation = async () => (options.postgresUrl ? createPostgresDatabase(options.postgresUrl, options.name) : join(workDir, 'app.sqlite'))
+  const databaseLocation = options.sharedDatabase ?? (await newLocation())
   if (!options.sharedDatabase) {
     const db = openDatabase(databaseLocation)
     await migrateLatest(db)
@@ -144,5 +144,17 @@ export async function startBuiltApp(options: BuiltAppOptions): Promise<BuiltApp>
     server = spawnServer()
     await waitForServer(`${baseUrl}/api/me`, server)
   }
-  return { baseUrl, outboxUrl, databaseLocation, uploadsDir, workDir, stripeFakeUrl: stripeFake.url, stripeWebhookSecret, pid: server.pid!, sessionPassword, stop, restartAfterCrash }
+  return {
+    baseUrl,
+    outboxUrl,
+    databaseLocation,
+    uploadsDir,
+    workDir,
+    stripeFakeUrl: stripeFake.url,
+    stripeWebhookSecret,
+    pid: server.pid!,
+    sessionPassword,
+    stop,
+    restartAfterCrash,
+  }
 }

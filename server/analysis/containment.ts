@@ -1,5 +1,5 @@
 import Flatbush from 'flatbush'
-import { oncePerGeometry } from './memo'
+import { type ContourGeometry, oncePerGeometry } from './memo'
 import { OPERATION_CODES, type PolylineSet } from './polylines'
 
 /**
@@ -83,7 +83,7 @@ export interface CutNesting {
 }
 
 /** The nesting of a contour set's cuts, found once (the design-rule checks and the time model both need it). */
-export const cutNesting = oncePerGeometry<void, CutNesting>(() => '', ({ contours, bounds }) => {
+const cutNestingOnce = oncePerGeometry<undefined, CutNesting>(() => '', ({ contours, bounds }) => {
   const cutIds: number[] = []
   const closedCutIds: number[] = []
   for (let id = 0; id < contours.count; id++) {
@@ -94,3 +94,4 @@ export const cutNesting = oncePerGeometry<void, CutNesting>(() => '', ({ contour
   const parentOf = findContainers(contours, bounds, closedCutIds, cutIds)
   return { parentOf, depth: nestingDepths(parentOf, cutIds) }
 })
+export const cutNesting = (geometry: ContourGeometry): CutNesting => cutNestingOnce(geometry, undefined)

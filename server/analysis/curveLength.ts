@@ -5,11 +5,16 @@ import { CURVE_ARC, CURVE_CUBIC } from './pathSteps'
 // Gauss–Kronrod 7/15 rule on [−1, 1] (QUADPACK's qk15: Piessens, de Doncker-Kapenga, Überhuber, Kahaner 1983):
 // the positive Kronrod nodes, largest first, and their weights; the Gauss nodes are every other one, from the
 // second, and the centre. The Gauss rule is exact for polynomials up to degree 13, the Kronrod rule up to 23.
-const KRONROD_NODES = [0.991455371120812639, 0.949107912342758525, 0.864864423359769073, 0.741531185599394440, 0.586087235467691130, 0.405845151377397167, 0.207784955007898468]
-const KRONROD_WEIGHTS = [0.022935322010529225, 0.063092092629978553, 0.104790010322250184, 0.140653259715525919, 0.169004726639267903, 0.190350578064785410, 0.204432940075298892]
-const KRONROD_CENTRE_WEIGHT = 0.209482141084727828
-const GAUSS_WEIGHTS = [0.129484966168869693, 0.279705391489276668, 0.381830050505118945]
-const GAUSS_CENTRE_WEIGHT = 0.417959183673469388
+// Each literal is the shortest that reads back as the double nearest qk15's 18-digit value.
+const KRONROD_NODES = [
+  0.9914553711208126, 0.9491079123427585, 0.8648644233597691, 0.7415311855993945, 0.5860872354676911, 0.4058451513773972, 0.20778495500789848,
+]
+const KRONROD_WEIGHTS = [
+  0.022935322010529224, 0.06309209262997856, 0.10479001032225019, 0.14065325971552592, 0.1690047266392679, 0.19035057806478542, 0.20443294007529889,
+]
+const KRONROD_CENTRE_WEIGHT = 0.20948214108472782
+const GAUSS_WEIGHTS = [0.1294849661688697, 0.27970539148927664, 0.3818300505051189]
+const GAUSS_CENTRE_WEIGHT = 0.4179591836734694
 
 // A curve's length is wanted to a nanometre (far below what any cutter resolves), or to 1e-12 of its size for
 // curves so large that a nanometre is below the rounding of their coordinates.
@@ -92,7 +97,17 @@ export function quadraticLengthMm(x0: number, y0: number, x1: number, y1: number
  * A zero radius is a straight line (F.6.2); an arc that ends where it starts
  * is not drawn (F.6.2).
  */
-export function arcLengthMm(x0: number, y0: number, rxGiven: number, ryGiven: number, rotationDeg: number, largeArc: boolean, sweep: boolean, x: number, y: number): number {
+export function arcLengthMm(
+  x0: number,
+  y0: number,
+  rxGiven: number,
+  ryGiven: number,
+  rotationDeg: number,
+  largeArc: boolean,
+  sweep: boolean,
+  x: number,
+  y: number,
+): number {
   if (x === x0 && y === y0) return 0
   let rx = Math.abs(rxGiven)
   let ry = Math.abs(ryGiven)

@@ -106,7 +106,13 @@ export class FindingCollector {
     const lists = [...this.lists.values()].filter((list) => list.count > 0)
     lists.sort((a, b) => SEVERITY_RANK[a.spec.severity] - SEVERITY_RANK[b.spec.severity])
     const total = lists.reduce((sum, list) => sum + list.count, 0)
-    const sites: FindingSites = { count: total, xy: new Float32Array(2 * total), value: new Float32Array(total), contourA: new Int32Array(total), contourB: new Int32Array(total) }
+    const sites: FindingSites = {
+      count: total,
+      xy: new Float32Array(2 * total),
+      value: new Float32Array(total),
+      contourA: new Int32Array(total),
+      contourB: new Int32Array(total),
+    }
     const findingGroups: FindingGroup[] = []
     let firstSite = 0
     for (const list of lists) {

@@ -41,8 +41,11 @@ export class PathFlattener {
     // svgpath's own identity test: under it no arithmetic may touch the numbers.
     const identity = a === 1 && b === 0 && c === 0 && d === 1 && e === 0 && f === 0
     const { steps } = this
-    if (steps.read(pathData) && (identity || steps.curveCount === 0 || !steps.hasRelative)) flattenSteps(steps, matrix, identity, this.chordToleranceMm, subpaths)
-    else flattenWithSvgpath(pathData, matrix, this.chordToleranceMm, subpaths)
+    if (steps.read(pathData) && (identity || steps.curveCount === 0 || !steps.hasRelative)) {
+      flattenSteps(steps, matrix, identity, this.chordToleranceMm, subpaths)
+    } else {
+      flattenWithSvgpath(pathData, matrix, this.chordToleranceMm, subpaths)
+    }
     subpaths.finish(false)
   }
 }
@@ -87,7 +90,16 @@ function flattenSteps(steps: PathSteps, matrix: Matrix, identity: boolean, chord
  * over by a mirroring matrix, and a line instead of an arc that ends where it
  * starts (before the matrix) or whose ellipse is degenerate.
  */
-function transformedCurve(command: number, numbers: Float64Array, offset: number, matrix: Matrix, fromUserX: number, fromUserY: number, chordToleranceMm: number, subpaths: SubpathWriter): void {
+function transformedCurve(
+  command: number,
+  numbers: Float64Array,
+  offset: number,
+  matrix: Matrix,
+  fromUserX: number,
+  fromUserY: number,
+  chordToleranceMm: number,
+  subpaths: SubpathWriter,
+): void {
   const [a, b, c, d, e, f] = matrix
   const transformed = new Float64Array(CURVE_STRIDE)
   if (command !== CURVE_ARC) {
@@ -144,7 +156,10 @@ function transformedEllipse(rxGiven: number, ryGiven: number, axGiven: number, m
   D = Math.sqrt(D)
   const l1 = JK + D / 2
   const l2 = JK - D / 2
-  let ax = Math.abs(L) < ELLIPSE_EPSILON && Math.abs(l1 - K) < ELLIPSE_EPSILON ? 90 : (Math.atan(Math.abs(L) > Math.abs(l1 - K) ? (l1 - J) / L : L / (l1 - K)) * 180) / Math.PI
+  let ax =
+    Math.abs(L) < ELLIPSE_EPSILON && Math.abs(l1 - K) < ELLIPSE_EPSILON
+      ? 90
+      : (Math.atan(Math.abs(L) > Math.abs(l1 - K) ? (l1 - J) / L : L / (l1 - K)) * 180) / Math.PI
   if (ax >= 0) return { rx: Math.sqrt(l1), ry: Math.sqrt(l2), ax }
   ax += 90
   return { rx: Math.sqrt(l2), ry: Math.sqrt(l1), ax }
@@ -188,8 +203,12 @@ function flattenCurve(command: number, numbers: Float64Array, offset: number, ch
   const { x, y } = subpaths
   if (command !== CURVE_ARC) {
     const isCubic = command === CURVE_CUBIC
-    if (isCubic) addCubic(target, x, y, numbers[offset]!, numbers[offset + 1]!, numbers[offset + 2]!, numbers[offset + 3]!, numbers[offset + 4]!, numbers[offset + 5]!, chordToleranceMm)
-    else addQuadratic(target, x, y, numbers[offset]!, numbers[offset + 1]!, numbers[offset + 2]!, numbers[offset + 3]!, chordToleranceMm)
+    if (isCubic) {
+      addCubic(target, x, y, numbers[offset]!, numbers[offset + 1]!, numbers[offset + 2]!, numbers[offset + 3]!,
+        numbers[offset + 4]!, numbers[offset + 5]!, chordToleranceMm)
+    } else {
+      addQuadratic(target, x, y, numbers[offset]!, numbers[offset + 1]!, numbers[offset + 2]!, numbers[offset + 3]!, chordToleranceMm)
+    }
     const end = offset + (isCubic ? 4 : 2)
     subpaths.curveTo(numbers[end]!, numbers[end + 1]!, curveLengthMm(x, y, command, numbers, offset))
     return
@@ -295,7 +314,18 @@ function chordCount(secondDifference: number, degree: number, toleranceMm: numbe
 }
 
 /** Adds the chords after (x0, y0). */
-function addCubic(target: PolylineSet, x0: number, y0: number, x1: number, y1: number, x2: number, y2: number, x3: number, y3: number, toleranceMm: number): void {
+function addCubic(
+  target: PolylineSet,
+  x0: number,
+  y0: number,
+  x1: number,
+  y1: number,
+  x2: number,
+  y2: number,
+  x3: number,
+  y3: number,
+  toleranceMm: number,
+): void {
   const secondDifference = Math.max(Math.hypot(x0 - 2 * x1 + x2, y0 - 2 * y1 + y2), Math.hypot(x1 - 2 * x2 + x3, y1 - 2 * y2 + y3))
   const chords = chordCount(secondDifference, 3, toleranceMm)
   for (let step = 1; step <= chords; step++) {

@@ -48,7 +48,11 @@ export function analyzeSvg(svgText: string, params: AnalysisParams, options: Ana
   return analyzeSvgWithGeometry(svgText, params, options).result
 }
 
-export function analyzeSvgWithGeometry(svgText: string, params: AnalysisParams, options: AnalyzeOptions = {}): { result: AnalysisResult; geometry: AnalysedGeometry } {
+export function analyzeSvgWithGeometry(
+  svgText: string,
+  params: AnalysisParams,
+  options: AnalyzeOptions = {},
+): { result: AnalysisResult; geometry: AnalysedGeometry } {
   const lap = stageTimer(options.onStageTimed)
   const findings = new FindingCollector()
   return analyzeDrawing(readSvgText(svgText, params, findings, lap), params, findings, lap)
@@ -72,7 +76,11 @@ export function analyzeDxf(dxfText: string, params: AnalysisParams, options: Ana
   return analyzeDxfWithGeometry(dxfText, params, options).result
 }
 
-export function analyzeDxfWithGeometry(dxfText: string, params: AnalysisParams, options: AnalyzeOptions = {}): { result: AnalysisResult; geometry: AnalysedGeometry } {
+export function analyzeDxfWithGeometry(
+  dxfText: string,
+  params: AnalysisParams,
+  options: AnalyzeOptions = {},
+): { result: AnalysisResult; geometry: AnalysedGeometry } {
   const lap = stageTimer(options.onStageTimed)
   const findings = new FindingCollector()
   const dxf = parseDxf(dxfText)
@@ -88,12 +96,21 @@ export function analyzeCutFile(text: string, params: AnalysisParams, options: An
 }
 
 /** The same, with the geometry the sites' contour ids index (the analysis worker encodes it for the preview). */
-export function analyzeCutFileWithGeometry(text: string, params: AnalysisParams, options: AnalyzeOptions & { format?: CutFileFormat } = {}): { result: AnalysisResult; geometry: AnalysedGeometry } {
+export function analyzeCutFileWithGeometry(
+  text: string,
+  params: AnalysisParams,
+  options: AnalyzeOptions & { format?: CutFileFormat } = {},
+): { result: AnalysisResult; geometry: AnalysedGeometry } {
   const format = options.format ?? detectCutFileFormat(text)
   return format === 'dxf' ? analyzeDxfWithGeometry(text, params, options) : analyzeSvgWithGeometry(text, params, options)
 }
 
-function analyzeDrawing(drawing: ReadDrawing, params: AnalysisParams, findings: FindingCollector, lap: (stage: AnalysisStage) => void): { result: AnalysisResult; geometry: AnalysedGeometry } {
+function analyzeDrawing(
+  drawing: ReadDrawing,
+  params: AnalysisParams,
+  findings: FindingCollector,
+  lap: (stage: AnalysisStage) => void,
+): { result: AnalysisResult; geometry: AnalysedGeometry } {
   const pieces = new PolylineSet()
   const flattener = new PathFlattener(pieces, params.chordToleranceMm)
   drawing.elements.forEach((element, elementIndex) => {

@@ -10,7 +10,10 @@ export type ContourGeometry = Pick<AnalysedGeometry, 'contours' | 'bounds'>
  * geometry and set of relevant params (`signatureOf`); the cache holds the
  * geometry weakly.
  */
-export function oncePerGeometry<Params extends AnalysisParams | void, T>(signatureOf: (params: Params) => string, compute: (geometry: ContourGeometry, params: Params) => T): (geometry: ContourGeometry, params: Params) => T {
+export function oncePerGeometry<Params extends AnalysisParams | undefined, T>(
+  signatureOf: (params: Params) => string,
+  compute: (geometry: ContourGeometry, params: Params) => T,
+): (geometry: ContourGeometry, params: Params) => T {
   const cache = new WeakMap<PolylineSet, { signature: string; value: T }>()
   return (geometry, params) => {
     const signature = signatureOf(params)

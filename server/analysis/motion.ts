@@ -114,7 +114,9 @@ export class PolylineTimer {
       speeds[segment] = Math.min(speeds[segment]!, Math.sqrt(speeds[segment + 1]! * speeds[segment + 1]! + 2 * accel * lengths[segment]!))
     }
     let timeS = 0
-    for (let segment = 0; segment < segmentCount; segment++) timeS += segmentTimeS(lengths[segment]!, speeds[segment]!, speeds[segment + 1]!, segmentLimit[segment]!, accel)
+    for (let segment = 0; segment < segmentCount; segment++) {
+      timeS += segmentTimeS(lengths[segment]!, speeds[segment]!, speeds[segment + 1]!, segmentLimit[segment]!, accel)
+    }
     return timeS
   }
 }

@@ -247,7 +247,8 @@ export class PathSteps {
     }
     if (digits === 0 || (code | LOWER_CASE_BIT) === 0x65 /* e */) return false
     this.index = index
-    const magnitude = digits <= MAX_EXACT_DIGITS ? mantissa / EXACT_POWERS_OF_TEN[fractionDigits]! : Number.parseFloat(text.slice(negative ? start + 1 : start, index))
+    const magnitude =
+      digits <= MAX_EXACT_DIGITS ? mantissa / EXACT_POWERS_OF_TEN[fractionDigits]! : Number.parseFloat(text.slice(negative ? start + 1 : start, index))
     // svgpath adds 0.0 to every number, which turns −0 into +0.
     this.number = (negative ? -magnitude : magnitude) + 0
     return true

@@ -63,12 +63,20 @@ export function readSvgDocument(root: XmlNode, params: AnalysisParams, findings:
   const paints = new Map<string, Paint>()
   const stack: Pending[] = []
   const pushChildren = (node: XmlNode, matrix: Matrix, style: ComputedStyle, useDepth: number, viewport: ViewportSize) => {
-    for (let index = node.children.length - 1; index >= 0; index--) stack.push({ node: node.children[index]!, parentMatrix: matrix, parentStyle: style, useDepth, viewport })
+    for (let index = node.children.length - 1; index >= 0; index--) {
+      stack.push({ node: node.children[index]!, parentMatrix: matrix, parentStyle: style, useDepth, viewport })
+    }
   }
   const rootStyle = computeStyle(root, INITIAL_STYLE, styleSheet)
   // SVG 1.1 §11.5: display none on an element, the root included, renders neither it nor anything in it.
   if (rootStyle.displayNone) return { elements }
-  pushChildren(root, multiply(rootMatrix(root.attributes, params.dpi), parseTransform(root.attributes.transform)), rootStyle, 0, rootViewportSize(root.attributes, params.dpi))
+  pushChildren(
+    root,
+    multiply(rootMatrix(root.attributes, params.dpi), parseTransform(root.attributes.transform)),
+    rootStyle,
+    0,
+    rootViewportSize(root.attributes, params.dpi),
+  )
   let rendered = 0
 
   while (stack.length > 0) {
@@ -80,7 +88,7 @@ export function readSvgDocument(root: XmlNode, params: AnalysisParams, findings:
     const style = computeStyle(node, parentStyle, styleSheet)
     if (style.displayNone) continue
     // Most elements carry no transform; they share their parent's matrix instead of multiplying by the identity.
-    let matrix = node.attributes.transform ? multiply(parentMatrix, parseTransform(node.attributes.transform)) : parentMatrix
+    const matrix = node.attributes.transform ? multiply(parentMatrix, parseTransform(node.attributes.transform)) : parentMatrix
 
     if (node.name === 'svg') {
       const nested = nestedViewport(node, viewport, sizeFromUse)
@@ -170,7 +178,16 @@ function paintOfColour(colourText: string): Paint {
   return { kind: 'colour', colour, hex, label: hex, alpha: colour.a }
 }
 
-function expandUse(node: XmlNode, matrix: Matrix, style: ComputedStyle, useDepth: number, viewport: ViewportSize, byId: IdIndex, styleSheet: StyleSheet, stack: Pending[]): void {
+function expandUse(
+  node: XmlNode,
+  matrix: Matrix,
+  style: ComputedStyle,
+  useDepth: number,
+  viewport: ViewportSize,
+  byId: IdIndex,
+  styleSheet: StyleSheet,
+  stack: Pending[],
+): void {
   const reference = node.attributes.href ?? node.attributes['xlink:href']
   const target = reference?.startsWith('#') ? byId.get(reference.slice(1)) : undefined
   if (!target) return
@@ -187,7 +204,13 @@ function expandUse(node: XmlNode, matrix: Matrix, style: ComputedStyle, useDepth
   if (symbolStyle.displayNone) return
   const symbolMatrix = multiply(matrix, multiply(offset, symbolViewportMatrix(target, node, viewport)))
   for (let index = target.children.length - 1; index >= 0; index--) {
-    stack.push({ node: target.children[index]!, parentMatrix: symbolMatrix, parentStyle: symbolStyle, useDepth: useDepth + 1, viewport: symbolViewport(target, node, viewport) })
+    stack.push({
+      node: target.children[index]!,
+      parentMatrix: symbolMatrix,
+      parentStyle: symbolStyle,
+      useDepth: useDepth + 1,
+      viewport: symbolViewport(target, node, viewport),
+    })
   }
 }
 
@@ -223,7 +246,13 @@ function nestedViewport(node: XmlNode, parent: ViewportSize, sizeFromUse: Pendin
   const offset = translation(parseUserLength(attributes.x, 'x', parent.width, 0), parseUserLength(attributes.y, 'y', parent.height, 0))
   const viewBox = parseViewBox(attributes.viewBox)
   // A side nothing gives a size to (a percentage of an unknown viewport) takes the viewBox's.
-  const side = (fromUse: string | undefined, own: string | undefined, name: string, percentOf: number | undefined, viewBoxSide: number | undefined): number | undefined => {
+  const side = (
+    fromUse: string | undefined,
+    own: string | undefined,
+    name: string,
+    percentOf: number | undefined,
+    viewBoxSide: number | undefined,
+  ): number | undefined => {
     const size = parseUserLength(fromUse ?? givenSize(own) ?? '100%', name, percentOf, Number.NaN)
     return Number.isNaN(size) ? viewBoxSide : nonNegativeSize(size, name)
   }
@@ -231,7 +260,10 @@ function nestedViewport(node: XmlNode, parent: ViewportSize, sizeFromUse: Pendin
   const height = side(sizeFromUse?.height, attributes.height, 'height', parent.height, viewBox?.height)
   if (width === 0 || height === 0) return undefined
   if (!viewBox) return { matrix: offset, size: { width, height } }
-  return { matrix: multiply(offset, viewBoxMatrix(viewBox, width ?? viewBox.width, height ?? viewBox.height, attributes.preserveAspectRatio)), size: { width: viewBox.width, height: viewBox.height } }
+  return {
+    matrix: multiply(offset, viewBoxMatrix(viewBox, width ?? viewBox.width, height ?? viewBox.height, attributes.preserveAspectRatio)),
+    size: { width: viewBox.width, height: viewBox.height },
+  }
 }
 
 function nonNegativeSize(value: number, name: string): number {

@@ -32,7 +32,9 @@ export function fitOnSheet(input: SheetFitInput): SheetFit {
   const copies = Math.max(asDrawn, turned)
   const bedWidth = input.bedWidthMm - 2 * input.marginMm
   const bedHeight = input.bedHeightMm - 2 * input.marginMm
-  const fitsBed = gridCopies(input.partWidthMm, input.partHeightMm, bedWidth, bedHeight, 0) > 0 || gridCopies(input.partHeightMm, input.partWidthMm, bedWidth, bedHeight, 0) > 0
+  const fitsBed =
+    gridCopies(input.partWidthMm, input.partHeightMm, bedWidth, bedHeight, 0) > 0 ||
+    gridCopies(input.partHeightMm, input.partWidthMm, bedWidth, bedHeight, 0) > 0
   return { fits: copies > 0, rotated, copies, fitsBed }
 }
 

@@ -1,4 +1,3 @@
-
 /** Where each contour of a tour is entered and left (the same point for a closed one); any contour may be run backwards. */
 export interface TourStops {
   entryX: Float64Array
@@ -256,7 +255,14 @@ class TourEnds {
 
   static of(stops: TourStops, order: Int32Array, startX: number, startY: number): TourEnds {
     const count = order.length
-    const ends = new TourEnds(new Float64Array(count), new Float64Array(count), new Float64Array(count), new Float64Array(count), new Float64Array(count), Float64Array.of(startX, startY))
+    const ends = new TourEnds(
+      new Float64Array(count),
+      new Float64Array(count),
+      new Float64Array(count),
+      new Float64Array(count),
+      new Float64Array(count),
+      Float64Array.of(startX, startY),
+    )
     for (let position = 0; position < count; position++) {
       const entry = order[position]!
       const stop = entry >= 0 ? entry : -1 - entry
@@ -318,7 +324,12 @@ class TourEnds {
 }
 
 /** Each travel move of a tour from the start (moveMm[p]: into position p), their total, and where the head ends. */
-export function tourTravel(stops: TourStops, order: Int32Array, startX: number, startY: number): { travelMm: number; moveMm: Float64Array; endX: number; endY: number } {
+export function tourTravel(
+  stops: TourStops,
+  order: Int32Array,
+  startX: number,
+  startY: number,
+): { travelMm: number; moveMm: Float64Array; endX: number; endY: number } {
   const moveMm = new Float64Array(order.length)
   let x = startX
   let y = startY

@@ -40,7 +40,6 @@ const ATTRIBUTE_VALUE_BEGIN = 8
 const ATTRIBUTE_VALUE = 9
 
 // The characters with actions of their own; every other character is a "char".
-const LT = 60
 const GT = 62
 const SLASH = 47
 const EQUAL = 61

@@ -58,7 +58,6 @@ export interface BookingRow {
   cancel_reason: string | null
 }
 
-
 /** Live bookings: not cancelled, and not a payment hold that ran out. */
 export function liveBookings(query: Knex.QueryBuilder, now = nowIso()): Knex.QueryBuilder {
   return query.whereNot('status', 'cancelled').where((q) => q.whereNull('hold_expires_at').orWhere('hold_expires_at', '>', now))
@@ -105,7 +104,9 @@ async function assertSlotAllowed(trx: Knex, check: SlotCheck): Promise<void> {
       throw new BookingRefused('outside-hours', `${cutter.name} is not open for the whole of that slot (${describeLocal(startIso, zone)}, ${minutesBetween(startIso, endIso)} min).`)
     }
   }
-  const closure = (await listClosures(trx, { fromIso: startIso })).find((c) => (c.cutterId === null || c.cutterId === cutter.id) && c.startsAt < endIso && c.endsAt > startIso)
+  const closure = (await listClosures(trx, { fromIso: startIso })).find(
+    (c) => (c.cutterId === null || c.cutterId === cutter.id) && c.startsAt < endIso && c.endsAt > startIso,
+  )
   if (closure) throw new BookingRefused('closed', `The ${closure.cutterId ? 'cutter' : 'workshop'} is closed then: ${closure.reason}.`)
   const [outage] = await outagesOverlapping(trx, { cutterId: cutter.id, fromIso: startIso, toIso: endIso })
   if (outage) throw new BookingRefused('out-of-service', `${cutter.name} is ${outageLabel(outage)} until about ${describeLocal(outage.end, zone)}. Pick a time after that.`)
@@ -228,7 +229,12 @@ async function assertNotStarted(db: Knex, booking: BookingRow): Promise<void> {
 }
 
 /** Moves a booking (same rules as booking it); staff moving someone else's booking give a reason. */
-export async function rescheduleBooking(db: Knex, actor: SessionUser, id: number, input: { start: string; end?: string; reason?: string }): Promise<{ booking: BookingRow; movedByStaff: boolean }> {
+export async function rescheduleBooking(
+  db: Knex,
+  actor: SessionUser,
+  id: number,
+  input: { start: string; end?: string; reason?: string },
+): Promise<{ booking: BookingRow; movedByStaff: boolean }> {
   const booking = await bookingForActor(db, actor, id)
   await assertNotStarted(db, booking)
   const movedByStaff = booking.member_id !== null && booking.member_id !== actor.id
@@ -246,7 +252,14 @@ export async function rescheduleBooking(db: Knex, actor: SessionUser, id: number
     await assertSlotAllowed(trx, { cutter, startIso, endIso, memberId: booking.member_id, excludeBookingId: id, settings, block: booking.kind === 'block' })
     await trx('bookings')
       .where({ id })
-      .update({ starts_at: startIso, ends_at: endIso, ical_sequence: booking.ical_sequence + 1, note: input.reason?.trim() || booking.note, reminder_sent_at: null, updated_at: nowIso() })
+      .update({
+        starts_at: startIso,
+        ends_at: endIso,
+        ical_sequence: booking.ical_sequence + 1,
+        note: input.reason?.trim() || booking.note,
+        reminder_sent_at: null,
+        updated_at: nowIso(),
+      })
     if (booking.job_id) await trx('job_events').insert({ job_id: booking.job_id, actor_id: actor.id, from_state: 'booked', to_state: 'booked', comment: `Moved to ${describeLocal(startIso, settings.timeZone)}${input.reason ? `: ${input.reason}` : ''}` })
     const moved = await trx<BookingRow>('bookings').where({ id }).first()
     await sendBookingMail(trx, moved!, 'moved', movedByStaff ? `The staff moved it: ${moved!.note}` : '')
@@ -346,7 +359,11 @@ export interface BookingView {
   own: boolean
 }
 
-export async function listBookings(db: Knex, viewer: SessionUser, filter: { cutterId?: number; from: string; to: string; mine?: boolean }): Promise<BookingView[]> {
+export async function listBookings(
+  db: Knex,
+  viewer: SessionUser,
+  filter: { cutterId?: number; from: string; to: string; mine?: boolean },
+): Promise<BookingView[]> {
   const query = liveBookings(db('bookings as b'))
     .leftJoin('jobs as j', 'j.id', 'b.job_id')
     .leftJoin('users as u', 'u.id', 'b.member_id')
@@ -374,7 +391,10 @@ export async function cutterAvailability(db: Knex, cutterId: number, from: strin
   return {
     timeZone: settings.timeZone,
     open: openingIntervals(periods, settings.timeZone, from, to),
-    closures: [...closures.map((c) => ({ start: c.startsAt, end: c.endsAt, reason: c.reason })), ...outages.map((o) => ({ start: o.start, end: o.end, reason: outageLabel(o) }))],
+    closures: [
+      ...closures.map((c) => ({ start: c.startsAt, end: c.endsAt, reason: c.reason })),
+      ...outages.map((o) => ({ start: o.start, end: o.end, reason: outageLabel(o) })),
+    ],
   }
 }
 

@@ -24,7 +24,12 @@ export interface CalledOffNotice {
  * the money, and which times are free next. Written in the transaction that calls the booking off; the calendar
  * file attached cancels the event in the member's calendar.
  */
-export async function sendOutageMail(trx: Knex, notice: CalledOffNotice, outage: OutagePeriod, context: { cutterName: string; zone: string; workshopName: string }): Promise<void> {
+export async function sendOutageMail(
+  trx: Knex,
+  notice: CalledOffNotice,
+  outage: OutagePeriod,
+  context: { cutterName: string; zone: string; workshopName: string },
+): Promise<void> {
   const { cutterName, zone } = context
   const local = (iso: string) => describeLocal(iso, zone)
   const money = notice.heldMinor

@@ -23,7 +23,15 @@ interface OutageRow {
 }
 
 export function toOutagePeriod(row: OutageRow): OutagePeriod {
-  return { id: row.id, cutterId: row.cutter_id, reason: row.reason, start: row.starts_at, end: row.ended_at ?? row.expected_back_at, expectedBackAt: row.expected_back_at, endedAt: row.ended_at }
+  return {
+    id: row.id,
+    cutterId: row.cutter_id,
+    reason: row.reason,
+    start: row.starts_at,
+    end: row.ended_at ?? row.expected_back_at,
+    expectedBackAt: row.expected_back_at,
+    endedAt: row.ended_at,
+  }
 }
 
 const effectiveEnd = (db: Knex) => db.raw('coalesce(ended_at, expected_back_at)')

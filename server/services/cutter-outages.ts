@@ -24,7 +24,12 @@ export interface CalledOffBooking {
 }
 
 /** A booking row with the payment columns the member's mail speaks of. */
-type BookingWithPayment = BookingRow & { cancelling_since: string | null; authorised_minor: number | null; currency: string | null; payment_intent_id: string | null }
+type BookingWithPayment = BookingRow & {
+  cancelling_since: string | null
+  authorised_minor: number | null
+  currency: string | null
+  payment_intent_id: string | null
+}
 
 interface CalledOffRow {
   booking: BookingWithPayment
@@ -193,5 +198,13 @@ export async function calledOffFor(db: Knex, memberId: number): Promise<CalledOf
     .select('b.id', 'b.job_id', 'b.starts_at', 'j.title', 'c.name as cutter_name', 'o.reason', db.raw('coalesce(o.ended_at, o.expected_back_at) as back_about'))
   // A job called off twice (booked again, then caught by another period) is offered once, for its latest booking.
   const latestPerJob = new Map(rows.map((r) => [r.job_id, r]))
-  return [...latestPerJob.values()].map((r) => ({ bookingId: r.id, jobId: r.job_id, jobTitle: r.title, cutterName: r.cutter_name, start: r.starts_at, reason: r.reason, backAbout: r.back_about }))
+  return [...latestPerJob.values()].map((r) => ({
+    bookingId: r.id,
+    jobId: r.job_id,
+    jobTitle: r.title,
+    cutterName: r.cutter_name,
+    start: r.starts_at,
+    reason: r.reason,
+    backAbout: r.back_about,
+  }))
 }

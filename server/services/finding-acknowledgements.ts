@@ -46,7 +46,14 @@ export function unacknowledgedWarnings(groups: WarningGroupView[]): WarningGroup
  * Records the member's reasons for the warning groups still open. A reason given for one group wins;
  * `sameReasonForAll` covers the rest. Every open group must end up with a reason of a few words.
  */
-export async function recordAcknowledgements(trx: Knex, member: SessionUser, fileGroups: FileFindingGroups[], open: WarningGroupView[], given: AcknowledgementInput[], sameReasonForAll: string): Promise<number> {
+export async function recordAcknowledgements(
+  trx: Knex,
+  member: SessionUser,
+  fileGroups: FileFindingGroups[],
+  open: WarningGroupView[],
+  given: AcknowledgementInput[],
+  sameReasonForAll: string,
+): Promise<number> {
   const revisionIdOf = new Map(fileGroups.map((f) => [`${f.fileId}/${f.revision}`, f.revisionId]))
   const refOf = (fileId: number, revision: number, key: string) => JSON.stringify([fileId, revision, key])
   const reasonFor = new Map(given.filter((a) => a.reason.trim()).map((a) => [refOf(a.fileId, a.revision, a.key), a.reason.trim()]))

@@ -65,7 +65,17 @@ export async function memberHome(db: Knex, memberId: number, now = new Date().to
   return {
     timeZone: settings.timeZone,
     jobs,
-    nextBooking: next ? { bookingId: next.booking!.id, jobId: next.id, jobTitle: next.title, cutterName: next.cutterName, start: next.booking!.start, end: next.booking!.end, status: next.booking!.status } : null,
+    nextBooking: next
+      ? {
+          bookingId: next.booking!.id,
+          jobId: next.id,
+          jobTitle: next.title,
+          cutterName: next.cutterName,
+          start: next.booking!.start,
+          end: next.booking!.end,
+          status: next.booking!.status,
+        }
+      : null,
     readyToCollect: jobs.filter((j) => j.state === 'ready').map((j) => ({ jobId: j.id, title: j.title, location: j.pickupLocation })),
     owed: await memberBalancesOwed(db, memberId),
     calledOff: await calledOffFor(db, memberId),
@@ -125,7 +135,10 @@ export async function staffHome(db: Knex, now = new Date().toISOString()): Promi
   return {
     timeZone: settings.timeZone,
     today: day.date,
-    review: { total: Number(counted.total), jobs: reviewRows.map((r) => ({ id: r.id, title: r.title, memberName: r.member_name, cutterName: r.cutter_name, submittedAt: r.submitted_at })) },
+    review: {
+      total: Number(counted.total),
+      jobs: reviewRows.map((r) => ({ id: r.id, title: r.title, memberName: r.member_name, cutterName: r.cutter_name, submittedAt: r.submitted_at })),
+    },
     runSheets: cutters.map((c) => ({
       cutterId: c.id,
       cutterName: c.name,
@@ -174,7 +187,9 @@ export async function adminHome(db: Knex, now = new Date().toISOString()): Promi
   const outages = await outagesOverlapping(db, { fromIso: week.start, toIso: week.end })
   const bookings: { cutter_id: number; starts_at: string; ends_at: string }[] = await liveBookings(db('bookings').where({ kind: 'job' }).where('starts_at', '<', week.end).where('ends_at', '>', week.start), now).select('cutter_id', 'starts_at', 'ends_at')
   const utilisation = staff.runSheets.map(({ cutterId, cutterName }) => {
-    const periods: OpeningPeriod[] = hours.filter((h) => h.cutter_id === cutterId).map((h) => ({ weekday: h.weekday, opensAt: h.opens_at, closesAt: h.closes_at }))
+    const periods: OpeningPeriod[] = hours
+      .filter((h) => h.cutter_id === cutterId)
+      .map((h) => ({ weekday: h.weekday, opensAt: h.opens_at, closesAt: h.closes_at }))
     const shut = [
       ...closures.filter((c) => c.cutterId === null || c.cutterId === cutterId).map((c) => ({ start: c.startsAt, end: c.endsAt })),
       ...outages.filter((o) => o.cutterId === cutterId),

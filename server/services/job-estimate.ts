@@ -72,12 +72,21 @@ export function estimateJob(
   )
   const price =
     files.length > 0
-      ? priceCut({ cutMinutes: (machineS - setupS) / 60, incrementMinutes: cutter.billingIncrementMinutes, setupMinutes: cutter.setupMinutes, ratePerMinuteMinor: cutter.pricePerMinuteMinor, sheetCount: layout.sheets.length, sheetPriceMinor: sheet.priceMinor })
+      ? priceCut({
+          cutMinutes: (machineS - setupS) / 60,
+          incrementMinutes: cutter.billingIncrementMinutes,
+          setupMinutes: cutter.setupMinutes,
+          ratePerMinuteMinor: cutter.pricePerMinuteMinor,
+          sheetCount: layout.sheets.length,
+          sheetPriceMinor: sheet.priceMinor,
+        })
       : { billableMinutes: 0, machinePriceMinor: 0, materialPriceMinor: 0, totalPriceMinor: 0 }
   return {
     components,
     modelMachineS,
-    calibration: correction ? { calibratedOn: correction.calibratedOn, scope: correction.scope, holdOut: correction.holdOut, coefficients: correction.coefficients } : null,
+    calibration: correction
+      ? { calibratedOn: correction.calibratedOn, scope: correction.scope, holdOut: correction.holdOut, coefficients: correction.coefficients }
+      : null,
     cutLengthMm,
     pierces,
     machineS,

@@ -14,7 +14,12 @@ import { insertedId } from '../../db/dialect'
 /** Analyses with the job's process in the fair worker queue and stores the file before its row, so a row never lacks its file. */
 async function analyseAndStore(db: Knex, job: JobRow, upload: CutFileUpload, uploader: SessionUser): Promise<StoredRevision> {
   const params = await analysisParamsFor(db, { cutterId: job.cutter_id, materialId: job.material_id, sheetId: job.sheet_id })
-  const packed = await analyzeInWorker(upload.svgText, params, { ownerKey: analysisOwnerKey(uploader), format: upload.format, label: upload.filename, signal: upload.closed })
+  const packed = await analyzeInWorker(upload.svgText, params, {
+    ownerKey: analysisOwnerKey(uploader),
+    format: upload.format,
+    label: upload.filename,
+    signal: upload.closed,
+  })
   const sha256 = storeUpload(upload.svgText)
   return { packed, sha256 }
 }

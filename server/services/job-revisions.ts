@@ -83,7 +83,11 @@ export async function filesOfJobs(db: Knex, jobIds: number[]): Promise<Map<numbe
       current: latest!,
       revisions: own,
       change: previous
-        ? { cutLengthMm: latest!.cut.lengthMm - previous.cut.lengthMm, pierces: latest!.cut.pierces - previous.cut.pierces, findings: siteTotal(latest!.counts) - siteTotal(previous.counts) }
+        ? {
+            cutLengthMm: latest!.cut.lengthMm - previous.cut.lengthMm,
+            pierces: latest!.cut.pierces - previous.cut.pierces,
+            findings: siteTotal(latest!.counts) - siteTotal(previous.counts),
+          }
         : null,
     })
   }
@@ -108,7 +112,13 @@ export async function currentFindingGroups(db: Knex, files: JobFileView[]): Prom
     .whereIn('id', files.map((f) => f.current.id))
     .select('id', 'analysis_json')
   const groupsById = new Map<number, FindingGroup[]>(rows.map((row) => [row.id, (JSON.parse(row.analysis_json) as StoredAnalysis).findingGroups ?? []]))
-  return files.map((file) => ({ fileId: file.id, fileName: file.name, revision: file.current.revision, revisionId: file.current.id, groups: groupsById.get(file.current.id) ?? [] }))
+  return files.map((file) => ({
+    fileId: file.id,
+    fileName: file.name,
+    revision: file.current.revision,
+    revisionId: file.current.id,
+    groups: groupsById.get(file.current.id) ?? [],
+  }))
 }
 
 async function revisionRowFor(db: Knex, viewer: SessionUser, jobId: number, fileId: number, revision: number) {
@@ -131,7 +141,14 @@ export async function revisionAnalysis(db: Knex, viewer: SessionUser, jobId: num
 export type RevisionPayloadKind = 'geometry' | 'sites'
 
 /** A revision's packed preview geometry or finding sites, gzip-compressed as stored, with a tag that never changes. */
-export async function revisionPayload(db: Knex, viewer: SessionUser, jobId: number, fileId: number, revision: number, kind: RevisionPayloadKind): Promise<{ gzipped: Buffer; etag: string }> {
+export async function revisionPayload(
+  db: Knex,
+  viewer: SessionUser,
+  jobId: number,
+  fileId: number,
+  revision: number,
+  kind: RevisionPayloadKind,
+): Promise<{ gzipped: Buffer; etag: string }> {
   const row = await revisionRowFor(db, viewer, jobId, fileId, revision)
   const payload = await db('revision_payloads').where({ file_revision_id: row.id }).first(kind === 'geometry' ? 'geometry_gz as bytes' : 'sites_gz as bytes')
   if (!payload) throw new NotFound('This revision has no stored preview.')

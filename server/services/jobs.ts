@@ -17,7 +17,7 @@ import { timeCorrectionFor } from './time-calibration'
 import { availableActions, transitionJob, type JobAction, type TransitionRecord } from './job-states'
 import { acknowledgedGroups, recordAcknowledgements, unacknowledgedWarnings, type AcknowledgementInput } from './finding-acknowledgements'
 import { countFindings, currentFiles, currentFindingGroups, filesOfJobs, type JobFileView } from './job-revisions'
-import { jobEventView } from './job-events'
+import { type JobEventRow, jobEventView } from './job-events'
 import { insertedId } from '../../db/dialect'
 
 export { currentFiles, type JobFileView } from './job-revisions'
@@ -88,7 +88,10 @@ export async function createJob(db: Knex, member: SessionUser, input: JobCreateI
 export async function updateJob(db: Knex, viewer: SessionUser, jobId: number, change: Partial<JobCreateInput>): Promise<void> {
   const job = await jobForViewer(db, viewer, jobId)
   assertEditable(job)
-  const processChanges = (change.cutterId ?? job.cutter_id) !== job.cutter_id || (change.materialId ?? job.material_id) !== job.material_id || (change.sheetId ?? job.sheet_id) !== job.sheet_id
+  const processChanges =
+    (change.cutterId ?? job.cutter_id) !== job.cutter_id ||
+    (change.materialId ?? job.material_id) !== job.material_id ||
+    (change.sheetId ?? job.sheet_id) !== job.sheet_id
   if (processChanges) {
     if (await db('job_files').where({ job_id: jobId }).whereNull('removed_at').first()) {
       throw new Conflict('The files were checked for this cutter, material and sheet. Remove them first, or start a new job for another process.')
@@ -122,7 +125,11 @@ export function estimateLookups(db: Knex) {
 }
 
 export async function jobEstimate(db: Knex, job: JobRow, files: JobFileView[], lookups = estimateLookups(db)): Promise<JobEstimate> {
-  return estimateFor(lookups, { cutterId: job.cutter_id, materialId: job.material_id, sheetId: job.sheet_id }, files.map((f) => ({ fileId: f.id, quantity: f.quantity, figures: f.current })))
+  return estimateFor(
+    lookups,
+    { cutterId: job.cutter_id, materialId: job.material_id, sheetId: job.sheet_id },
+    files.map((f) => ({ fileId: f.id, quantity: f.quantity, figures: f.current })),
+  )
 }
 
 /** One checked file (POST /api/analysis), estimated and priced exactly as a job holding only that file. */
@@ -130,19 +137,18 @@ export function fileEstimate(db: Knex, choice: { cutterId: number; materialId: n
   return estimateFor(estimateLookups(db), choice, [{ fileId: 0, quantity: 1, figures }])
 }
 
-async function estimateFor(lookups: ReturnType<typeof estimateLookups>, choice: { cutterId: number; materialId: number; sheetId?: number }, files: EstimatedFile[]): Promise<JobEstimate> {
-  const [cutter, material, setting] = await Promise.all([lookups.cutter(choice.cutterId), lookups.material(choice.materialId), lookups.setting(choice.cutterId, choice.materialId)])
+async function estimateFor(
+  lookups: ReturnType<typeof estimateLookups>,
+  choice: { cutterId: number; materialId: number; sheetId?: number },
+  files: EstimatedFile[],
+): Promise<JobEstimate> {
+  const [cutter, material, setting] = await Promise.all([
+    lookups.cutter(choice.cutterId),
+    lookups.material(choice.materialId),
+    lookups.setting(choice.cutterId, choice.materialId),
+  ])
   const sheet = material.sheets.find((s) => s.id === choice.sheetId) ?? material.sheets[0]!
   return estimateJob(files, cutter, sheet, setting?.kerfMm ?? 0, await lookups.correction(choice.cutterId, material.family))
-}
-
-interface JobEventRow {
-  created_at: string
-  actor_name: string | null
-  from_state: JobState | null
-  to_state: JobState
-  comment: string
-  finding_ref_json: string | null
 }
 
 export async function jobDetail(db: Knex, viewer: SessionUser, jobId: number) {
@@ -210,10 +216,14 @@ export async function listJobs(db: Knex, viewer: SessionUser, filter: JobListFil
 
 /** One page of the same list: estimates are computed for the page's jobs only. */
 export async function listJobsPage(db: Knex, viewer: SessionUser, filter: JobListFilter, page: { limit: number; cursor?: string }) {
-  return mapPage(await keysetPage(jobListQuery(db, viewer, filter), JOB_LIST_ORDERS[filter.order ?? 'waiting'], page), (rows) => jobSummaries(db, rows))
+  const jobs = await keysetPage<JobListRow>(jobListQuery(db, viewer, filter), JOB_LIST_ORDERS[filter.order ?? 'waiting'], page)
+  return mapPage(jobs, (rows) => jobSummaries(db, rows))
 }
 
-async function jobSummaries(db: Knex, rows: (JobRow & Record<string, any>)[]) {
+/** A job as the lists read it: with its member's, cutter's and material's names. */
+type JobListRow = JobRow & { member_name: string; cutter_name: string; material_name: string; thickness_mm: number }
+
+async function jobSummaries(db: Knex, rows: JobListRow[]) {
   const summaries = []
   const lookups = estimateLookups(db)
   const filesByJob = await filesOfJobs(db, rows.map((r) => r.id))
@@ -246,7 +256,12 @@ async function jobSummaries(db: Knex, rows: (JobRow & Record<string, any>)[]) {
  * Submission: needs files, no unresolved errors (unless staff let this job through) and, for every group of
  * warnings, the member's reason (given per group, or one reason for all groups still open).
  */
-export async function submitJob(db: Knex, member: SessionUser, jobId: number, input: { acknowledgement?: string; acknowledgements?: AcknowledgementInput[] } = {}): Promise<TransitionRecord> {
+export async function submitJob(
+  db: Knex,
+  member: SessionUser,
+  jobId: number,
+  input: { acknowledgement?: string; acknowledgements?: AcknowledgementInput[] } = {},
+): Promise<TransitionRecord> {
   const job = await jobForViewer(db, member, jobId)
   await analysisParamsFor(db, { cutterId: job.cutter_id, materialId: job.material_id, sheetId: job.sheet_id })
   // Files, findings and reasons are read in the transaction that submits, so a revision stored meanwhile is checked too.

@@ -71,7 +71,13 @@ export function retryDelayMs(failedAttempts: number, policy: Pick<OutboxPolicy, 
  * Sends the mails that are due, each claimed first (so two senders never send one mail twice), and records
  * the outcome: sent; or tried again later with back-off; or dead after the last attempt.
  */
-export async function deliverDueMail(db: Knex, send: (message: MailMessage) => Promise<void>, policy: OutboxPolicy, now = () => new Date(), compose?: ComposeMail): Promise<{ sent: number; failed: number; dead: number }> {
+export async function deliverDueMail(
+  db: Knex,
+  send: (message: MailMessage) => Promise<void>,
+  policy: OutboxPolicy,
+  now = () => new Date(),
+  compose?: ComposeMail,
+): Promise<{ sent: number; failed: number; dead: number }> {
   const stale = new Date(now().getTime() - policy.staleClaimMs).toISOString()
   await db('mail_outbox').where({ status: 'sending' }).where('claimed_at', '<', stale).update({ status: 'pending', claimed_at: null })
   const outcome = { sent: 0, failed: 0, dead: 0 }
@@ -98,7 +104,15 @@ async function composed(db: Knex, id: number, message: MailMessage, compose: Com
   })
 }
 
-async function deliverBatch(db: Knex, due: { id: number; message_json: string; attempts: number }[], send: (message: MailMessage) => Promise<void>, policy: OutboxPolicy, now: () => Date, outcome: { sent: number; failed: number; dead: number }, compose?: ComposeMail): Promise<void> {
+async function deliverBatch(
+  db: Knex,
+  due: { id: number; message_json: string; attempts: number }[],
+  send: (message: MailMessage) => Promise<void>,
+  policy: OutboxPolicy,
+  now: () => Date,
+  outcome: { sent: number; failed: number; dead: number },
+  compose?: ComposeMail,
+): Promise<void> {
   for (const row of due) {
     const claimed = await db('mail_outbox').where({ id: row.id, status: 'pending' }).update({ status: 'sending', claimed_at: now().toISOString() })
     if (claimed !== 1) continue
@@ -139,7 +153,28 @@ export interface UndeliveredMail {
 }
 
 const undeliveredQuery = (db: Knex) => db('mail_outbox').whereIn('status', ['pending', 'sending', 'dead']).where((q) => q.where('attempts', '>', 0).orWhere('status', 'dead'))
-const toUndelivered = (r: Record<string, any>): UndeliveredMail => ({ id: r.id, recipient: r.recipient, subject: r.subject, status: r.status, attempts: r.attempts, lastError: r.last_error, nextAttemptAt: r.next_attempt_at, createdAt: r.created_at })
+/** The columns of a mail_outbox row the list of undelivered mail reads. */
+interface UndeliveredRow {
+  id: number
+  recipient: string
+  subject: string
+  status: UndeliveredMail['status']
+  attempts: number
+  last_error: string | null
+  next_attempt_at: string
+  created_at: string
+}
+
+const toUndelivered = (r: UndeliveredRow): UndeliveredMail => ({
+  id: r.id,
+  recipient: r.recipient,
+  subject: r.subject,
+  status: r.status,
+  attempts: r.attempts,
+  lastError: r.last_error,
+  nextAttemptAt: r.next_attempt_at,
+  createdAt: r.created_at,
+})
 
 /** Mail not delivered yet: waiting for a retry after a failure, being sent, or dead-lettered. Newest first. */
 export async function undeliveredMail(db: Knex): Promise<UndeliveredMail[]> {
@@ -149,7 +184,7 @@ export async function undeliveredMail(db: Knex): Promise<UndeliveredMail[]> {
 /** The same, a page at a time. */
 export async function undeliveredMailPage(db: Knex, page: { limit: number; cursor?: string }): Promise<Page<UndeliveredMail>> {
   const order = { columns: ['id'], direction: 'desc' as const, keyOf: (r: { id: number }) => [r.id] }
-  return mapPage(await keysetPage(undeliveredQuery(db).select('*'), order, page), (rows) => rows.map(toUndelivered))
+  return mapPage(await keysetPage<UndeliveredRow>(undeliveredQuery(db).select('*'), order, page), (rows) => rows.map(toUndelivered))
 }
 
 /** Staff send a dead (or waiting) mail again now; a mail already sent or being sent is left alone. */

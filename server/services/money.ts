@@ -26,7 +26,14 @@ export interface CutPrice {
  * cutting minutes (machine time without setup) rounded up to the cutter's increment, plus the setup minutes,
  * at the cutter's rate; plus whole stock sheets.
  */
-export function priceCut(input: { cutMinutes: number; incrementMinutes: number; setupMinutes: number; ratePerMinuteMinor: number; sheetCount: number; sheetPriceMinor: number }): CutPrice {
+export function priceCut(input: {
+  cutMinutes: number
+  incrementMinutes: number
+  setupMinutes: number
+  ratePerMinuteMinor: number
+  sheetCount: number
+  sheetPriceMinor: number
+}): CutPrice {
   const billableMinutes = billedMinutes(input.cutMinutes, input.incrementMinutes) + input.setupMinutes
   const machinePriceMinor = billableMinutes * input.ratePerMinuteMinor
   const materialPriceMinor = input.sheetCount * input.sheetPriceMinor

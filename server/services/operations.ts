@@ -190,7 +190,12 @@ export async function markReady(db: Knex, staff: SessionUser, jobId: number, loc
  * Hands the parts over for a pickup code; each code works once, for its one job. While the member owes a balance
  * the hand-over waits for staff to confirm it (409 with reason "balance-owed" and the amount).
  */
-export async function collectWithCode(db: Knex, staff: SessionUser, code: string, handOverWithBalanceOwed = false): Promise<{ record: TransitionRecord; job: JobRow }> {
+export async function collectWithCode(
+  db: Knex,
+  staff: SessionUser,
+  code: string,
+  handOverWithBalanceOwed = false,
+): Promise<{ record: TransitionRecord; job: JobRow }> {
   const normalised = code.trim().toUpperCase().replace(/[\s-]/g, '')
   return db.transaction(async (trx) => {
     const job = await trx<JobRow>('jobs').where({ pickup_code: normalised }).orderBy('id', 'desc').first()

@@ -113,5 +113,9 @@ export async function paymentTotals(db: Knex, filter: PaymentFilter): Promise<Pa
     .join(paymentQuery(db, filter).clearSelect().select('b.id').as('f'), 'f.id', 'l.booking_id')
     .groupBy('l.currency')
     .select('l.currency', db.raw(`${sumOf(['captured', 'fee', 'charged'])} as captured`), db.raw(`${sumOf(['refunded'])} as refunded`))
-  return rows.map((r: { currency: string; captured: number | string; refunded: number | string }) => ({ currency: r.currency, capturedMinor: Number(r.captured), refundedMinor: Number(r.refunded) }))
+  return rows.map((r: { currency: string; captured: number | string; refunded: number | string }) => ({
+    currency: r.currency,
+    capturedMinor: Number(r.captured),
+    refundedMinor: Number(r.refunded),
+  }))
 }

@@ -53,7 +53,12 @@ class PaymentServiceError extends DomainError {
  * Records one money event once: a second report of the same event (same key) changes nothing. The member's receipt
  * for a new entry is written in the same transaction (`detail`: a line to add to it), so it goes out exactly once.
  */
-async function record(db: Knex, booking: PaidBooking, entry: { kind: LedgerKind; amountMinor: number; currency: string; objectId: string; key: string; note?: string }, detail?: string): Promise<boolean> {
+async function record(
+  db: Knex,
+  booking: PaidBooking,
+  entry: { kind: LedgerKind; amountMinor: number; currency: string; objectId: string; key: string; note?: string },
+  detail?: string,
+): Promise<boolean> {
   return db.transaction(async (trx) => {
     const inserted = await insertedNow(
       trx('payment_ledger')
@@ -169,7 +174,11 @@ export async function releaseExpiredHolds(db: Knex): Promise<number> {
  * Brings the ledger in line with a PaymentIntent as Stripe reports it now. Every webhook ends here with
  * a freshly retrieved PaymentIntent, so duplicates and out-of-order events can't double-count.
  */
-export async function syncPaymentIntent(db: Knex, intent: Stripe.PaymentIntent, receiptDetail?: string): Promise<{ booking: PaidBooking; newKinds: LedgerKind[] } | null> {
+export async function syncPaymentIntent(
+  db: Knex,
+  intent: Stripe.PaymentIntent,
+  receiptDetail?: string,
+): Promise<{ booking: PaidBooking; newKinds: LedgerKind[] } | null> {
   const bookingId = Number(intent.metadata?.bookingId)
   const booking = Number.isInteger(bookingId) ? await db<PaidBooking>('bookings').where({ id: bookingId }).first() : undefined
   if (!booking) return null
@@ -177,7 +186,9 @@ export async function syncPaymentIntent(db: Knex, intent: Stripe.PaymentIntent, 
   const purpose = intent.metadata?.purpose ?? 'booking'
   const newKinds: LedgerKind[] = []
   const note = async (kind: LedgerKind, amountMinor: number, key: string, text = '') => {
-    if (amountMinor > 0 && (await record(db, booking, { kind, amountMinor, currency, objectId: intent.id, key, note: text }, receiptDetail))) newKinds.push(kind)
+    if (amountMinor > 0 && (await record(db, booking, { kind, amountMinor, currency, objectId: intent.id, key, note: text }, receiptDetail))) {
+      newKinds.push(kind)
+    }
   }
   if (purpose === 'balance') {
     if (intent.status === 'succeeded') await note('charged', intent.amount_received, `charge:${intent.id}`, 'Balance over the held amount')
@@ -242,7 +253,14 @@ export async function quoteCut(db: Knex, bookingId: number, actualMinutes: numbe
   const booking = await paidBooking(db, bookingId)
   const job = (await db<JobRow>('jobs').where({ id: booking.job_id! }).first())!
   const { cutter, estimate } = await jobPrice(db, job)
-  const price = priceCut({ cutMinutes: actualMinutes, incrementMinutes: cutter.billingIncrementMinutes, setupMinutes: cutter.setupMinutes, ratePerMinuteMinor: cutter.pricePerMinuteMinor, sheetCount: estimate.sheetCount, sheetPriceMinor: estimate.sheetPriceMinor })
+  const price = priceCut({
+    cutMinutes: actualMinutes,
+    incrementMinutes: cutter.billingIncrementMinutes,
+    setupMinutes: cutter.setupMinutes,
+    ratePerMinuteMinor: cutter.pricePerMinuteMinor,
+    sheetCount: estimate.sheetCount,
+    sheetPriceMinor: estimate.sheetPriceMinor,
+  })
   const authorisedMinor = booking.authorised_minor ?? 0
   const captureMinor = Math.min(price.totalPriceMinor, authorisedMinor)
   return {
@@ -297,7 +315,17 @@ export async function settleCut(db: Knex, bookingId: number, actualMinutes: numb
         return null
       })
   }
-  return { bookingId: booking.id, memberId: booking.member_id, newKinds, chargeMinor, capturedMinor: Math.min(capturedMinor, chargeMinor), balanceMinor, balanceUrl, actualMinutes, estimateMinutes: quote.estimateMinutes }
+  return {
+    bookingId: booking.id,
+    memberId: booking.member_id,
+    newKinds,
+    chargeMinor,
+    capturedMinor: Math.min(capturedMinor, chargeMinor),
+    balanceMinor,
+    balanceUrl,
+    actualMinutes,
+    estimateMinutes: quote.estimateMinutes,
+  }
 }
 
 /**

@@ -16,7 +16,7 @@ import { NotFound } from '../utils/errors'
 import { readUpload } from '../utils/upload-store'
 import { analysisParamsFor } from './analysis-profile'
 import { balancesOwed } from './balance'
-import { liveBookings } from './bookings'
+import { type BookingRow, liveBookings } from './bookings'
 import { getCutter, listCutters } from './catalog/cutters'
 import { acknowledgedGroups, type WarningGroupView } from './finding-acknowledgements'
 import { currentFindingGroups, filesOfJobs, type FileFindingGroups } from './job-revisions'
@@ -66,7 +66,9 @@ async function withLocations(db: Knex, fileGroups: FileFindingGroups[], groups: 
   const revisionOf = (g: WarningGroupView) => fileGroups.find((f) => f.fileId === g.fileId && f.revision === g.revision)!.revisionId
   // Every revision's sites in one query, however many jobs and files the groups come from.
   const payloads = groups.length ? await db('revision_payloads').whereIn('file_revision_id', [...new Set(groups.map(revisionOf))]).select('file_revision_id', 'sites_gz') : []
-  const sitesByRevision = new Map<number, ReturnType<typeof decodeSites>>(payloads.map((p: { file_revision_id: number; sites_gz: Buffer }) => [p.file_revision_id, decodeSites(gunzipSync(p.sites_gz))]))
+  const sitesByRevision = new Map<number, ReturnType<typeof decodeSites>>(
+    payloads.map((p: { file_revision_id: number; sites_gz: Buffer }) => [p.file_revision_id, decodeSites(gunzipSync(p.sites_gz))]),
+  )
   const result: RunSheetEntry['warningGroups'] = []
   for (const g of groups) {
     const sites = sitesByRevision.get(revisionOf(g))
@@ -92,6 +94,15 @@ export interface RunSheetDay {
   collected: RunSheetEntry[]
 }
 
+/** A booking of the day joined with its job (every column) and its member. */
+type BookedJobRow = JobRow & Pick<BookingRow, 'status'> & {
+  booking_id: number
+  starts_at: string
+  ends_at: string
+  member_name: string
+  member_email: string
+}
+
 /**
  * The day's booked jobs on one cutter, in order, with everything the operator needs at the machine.
  * Without a cutter: the preferred one if it has bookings that day, else the one with the most, else the preferred one.
@@ -111,7 +122,7 @@ export async function runSheet(db: Knex, choice: { cutterId?: number; preferredC
   if (!cutterId) throw new NotFound('No cutter is set up yet.')
   const cutter = await getCutter(db, cutterId)
   // A fixed number of queries however many jobs the day holds: each kind of record is read for all of them at once.
-  const bookings: (JobRow & Record<string, any>)[] = await dayBookings()
+  const bookings: BookedJobRow[] = await dayBookings()
     .where({ 'bookings.cutter_id': cutterId })
     .join('jobs as j', 'j.id', 'bookings.job_id')
     .join('users as u', 'u.id', 'j.member_id')

@@ -60,8 +60,14 @@ export function openingIntervals(periods: OpeningPeriod[], zone: string, fromIso
     if (midnightMs >= endMs) break
     const weekday = ((new Date(date).getUTCDay() + 6) % 7) + 1
     for (const p of byWeekday.get(weekday) ?? []) {
-      if (steady) intervals.push({ start: new Date(date + clockMs(p.opensAt) - offset * 60_000).toISOString(), end: new Date(date + clockMs(p.closesAt) - offset * 60_000).toISOString() })
-      else intervals.push({ start: localToUtc(localDay!, p.opensAt, zone), end: localToUtc(localDay!, p.closesAt, zone) })
+      if (steady) {
+        intervals.push({
+          start: new Date(date + clockMs(p.opensAt) - offset * 60_000).toISOString(),
+          end: new Date(date + clockMs(p.closesAt) - offset * 60_000).toISOString(),
+        })
+      } else {
+        intervals.push({ start: localToUtc(localDay!, p.opensAt, zone), end: localToUtc(localDay!, p.closesAt, zone) })
+      }
     }
   }
   return intervals.filter((i) => i.end > fromIso && i.start < toIso)
@@ -91,5 +97,5 @@ export function addMinutes(iso: string, minutes: number): string {
 }
 
 export function describeLocal(iso: string, zone: string): string {
-  return inZone(iso, zone).toFormat("cccc d LLLL yyyy, HH:mm")
+  return inZone(iso, zone).toFormat('cccc d LLLL yyyy, HH:mm')
 }

@@ -6,6 +6,8 @@ import { MessageChannel } from 'node:worker_threads'
 import Piscina from 'piscina'
 import type { AnalysisParams, AnalysisResult, CutFileFormat } from '../analysis/index'
 import type { AnalysisTask, WorkerMessage } from '../workers/analysis.worker'
+import { runInQueue, sendsToQueue } from './analysis-remote'
+import { useDb } from './db'
 import { DomainError, TooManyRequests } from './errors'
 
 /** The engine's figures plus the gzip-compressed packed preview geometry and finding sites (shared/packed-analysis.ts). */
@@ -208,6 +210,7 @@ interface WorkerInput {
   text: string
   params: AnalysisParams
   format?: CutFileFormat
+  label?: string
 }
 
 let pool: Piscina | undefined
@@ -256,7 +259,12 @@ function runInWorker(input: WorkerInput, control: TaskControl): Promise<PackedAn
   })
 }
 
-const analysisQueue = new FairQueue<WorkerInput, PackedAnalysis>(runInWorker, {
+/** On a worker thread here, or on a worker machine through the database (ANALYSIS_ROLE=queue, analysis-remote.ts). */
+function runAnalysis(input: WorkerInput, control: TaskControl): Promise<PackedAnalysis> {
+  return sendsToQueue(useDb()) ? runInQueue(useDb(), input, control) : runInWorker(input, control)
+}
+
+const analysisQueue = new FairQueue<WorkerInput, PackedAnalysis>(runAnalysis, {
   threads: THREADS,
   heavyThreads: HEAVY_THREADS,
   runningLimitMs: RUNNING_LIMIT_MS,
@@ -280,7 +288,7 @@ export function analyzeInWorker(
   return analysisQueue.submit({
     ownerKey: options.ownerKey,
     label: options.label ?? 'file',
-    input: { text, params, format: options.format },
+    input: { text, params, format: options.format, label: options.label },
     heavy: text.length >= HEAVY_TEXT_CHARS,
     signal: options.signal,
   })

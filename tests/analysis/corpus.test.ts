@@ -55,7 +55,14 @@ const dxfBox = (minX: number, minY: number, maxX: number, maxY: number): Box => 
 /** A rectangle rotated by `deg` about its origin corner, then moved (SVG 1.1 §7.5: rotate(a) is [cos a, sin a, −sin a, cos a]). */
 function rotatedRectBox(width: number, height: number, deg: number, moveX: number, moveY: number): Box {
   const a = (deg * Math.PI) / 180
-  const corners = ([[0, 0], [width, 0], [width, height], [0, height]] as const).map(([x, y]): [number, number] => [x * Math.cos(a) - y * Math.sin(a) + moveX, x * Math.sin(a) + y * Math.cos(a) + moveY])
+  const corners = (
+    [
+      [0, 0],
+      [width, 0],
+      [width, height],
+      [0, height],
+    ] as const
+  ).map(([x, y]): [number, number] => [x * Math.cos(a) - y * Math.sin(a) + moveX, x * Math.sin(a) + y * Math.cos(a) + moveY])
   const xs = corners.map(([x]) => x)
   const ys = corners.map(([, y]) => y)
   return [Math.min(...xs), Math.min(...ys), Math.max(...xs) - Math.min(...xs), Math.max(...ys) - Math.min(...ys)]

@@ -65,8 +65,10 @@ describe('curve length', () => {
   })
 
   it('measures cubics along a line, turning back or not, as the closed form (random lines and directions)', () => {
+    const fourCoordinates = fc.array(coordinate, { minLength: 4, maxLength: 4 })
+    const anyAngle = fc.double({ min: 0, max: 2 * Math.PI, noNaN: true })
     fc.assert(
-      fc.property(fc.array(coordinate, { minLength: 4, maxLength: 4 }), fc.double({ min: 0, max: 2 * Math.PI, noNaN: true }), coordinate, coordinate, (values, angle, originX, originY) => {
+      fc.property(fourCoordinates, anyAngle, coordinate, coordinate, (values, angle, originX, originY) => {
         const [ux, uy] = [Math.cos(angle), Math.sin(angle)]
         const [x0, y0, x1, y1, x2, y2, x3, y3] = values.flatMap((value) => [originX + value * ux, originY + value * uy]) as CubicCoordinates
         const expected = lineCubicLength(values[0]!, values[1]!, values[2]!, values[3]!)

@@ -16,8 +16,11 @@ const reference = analyze(mmDocument(pattern))
 describe('invariants (property tests)', () => {
   // Euclidean isometries preserve length (SVG 1.1 transform matrices: translate and rotate are isometries).
   it('keeps length and pierces under translation, rotation and extra groups', () => {
+    const anyShift = fc.double({ min: -200, max: 200, noNaN: true })
+    const anyAngleDeg = fc.double({ min: -360, max: 360, noNaN: true })
+    const anyGroupCount = fc.integer({ min: 0, max: 20 })
     fc.assert(
-      fc.property(fc.double({ min: -200, max: 200, noNaN: true }), fc.double({ min: -200, max: 200, noNaN: true }), fc.double({ min: -360, max: 360, noNaN: true }), fc.integer({ min: 0, max: 20 }), (dx, dy, angle, extraGroups) => {
+      fc.property(anyShift, anyShift, anyAngleDeg, anyGroupCount, (dx, dy, angle, extraGroups) => {
         const wrapped = `${'<g>'.repeat(extraGroups)}<g transform="translate(${dx} ${dy}) rotate(${angle} 40 30)">${pattern}</g>${'</g>'.repeat(extraGroups)}`
         const moved = analyze(mmDocument(wrapped))
         expect(moved.cut.lengthMm).toBeCloseTo(reference.cut.lengthMm, 6)

@@ -34,8 +34,9 @@ describe('lengths and areas against closed forms', () => {
 
   // Shoelace formula: area of a simple polygon = ½|Σ(xᵢyᵢ₊₁ − xᵢ₊₁yᵢ)|, computed here independently of the engine.
   it('engraves the shoelace area of random polygons drawn as fills', () => {
+    const polarPoint = fc.tuple(fc.double({ min: 0, max: 1, noNaN: true }), fc.double({ min: 1, max: 100, noNaN: true }))
     fc.assert(
-      fc.property(fc.array(fc.tuple(fc.double({ min: 0, max: 1, noNaN: true }), fc.double({ min: 1, max: 100, noNaN: true })), { minLength: 3, maxLength: 30 }), (polar) => {
+      fc.property(fc.array(polarPoint, { minLength: 3, maxLength: 30 }), (polar) => {
         // Points sorted by angle around a centre form a star-shaped, simple polygon.
         const points = polar
           .map(([turn, radius]) => [turn * 2 * Math.PI, radius] as const)

@@ -73,4 +73,3 @@ describe('motion model', () => {
     expect(result.time.cutS / ((2 * Math.PI * 100) / v + v / accel)).toBeCloseTo(1, 3)
   })
 })
-

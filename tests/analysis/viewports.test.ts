@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { analyze, CUT, cutPath, mmDocument } from './helpers'
+import { analyze, cutPath, mmDocument } from './helpers'
 
 // Expected sizes follow the SVG 2 specification: §8.2 (a nested <svg> whose width/height are absent or auto is 100 %
 // of its parent viewport; x, y and percentages refer to that viewport), §8.6 (viewBox with preserveAspectRatio)
@@ -9,7 +9,13 @@ const TOLERANCE_MM = 1e-6
 
 function expectBox(svg: string, x: number, y: number, width: number, height: number, lengthMm: number) {
   const result = analyze(svg)
-  for (const [actual, expected] of [[result.bbox.x, x], [result.bbox.y, y], [result.bbox.width, width], [result.bbox.height, height], [result.cut.lengthMm, lengthMm]] as [number, number][]) {
+  for (const [actual, expected] of [
+    [result.bbox.x, x],
+    [result.bbox.y, y],
+    [result.bbox.width, width],
+    [result.bbox.height, height],
+    [result.cut.lengthMm, lengthMm],
+  ] as [number, number][]) {
     expect(Math.abs(actual - expected)).toBeLessThan(TOLERANCE_MM)
   }
 }

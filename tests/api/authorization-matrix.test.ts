@@ -41,7 +41,9 @@ export function routeOfFile(file: string, folder: string, prefix: string): Route
   return { key: `${method} ${path}`, method, path, file: relative(ROOT, file) }
 }
 
-const ROUTES: RouteFile[] = ROUTE_FOLDERS.flatMap(({ folder, prefix }) => filesUnder(join(ROOT, folder)).map((file) => routeOfFile(file, join(ROOT, folder), prefix)))
+const ROUTES: RouteFile[] = ROUTE_FOLDERS.flatMap(({ folder, prefix }) =>
+  filesUnder(join(ROOT, folder)).map((file) => routeOfFile(file, join(ROOT, folder), prefix)),
+)
 
 function fillPath(route: RouteFile, params: Record<string, string | number>): string {
   return route.path.replace(/:(\w+)\*?/g, (_, name: string) => {

@@ -115,7 +115,7 @@ describe('grouped findings', () => {
     expect((await member.post(`/api/jobs/${jobId}/submit`, {})).status).toBe(200)
   })
 
-  it("serves packed geometry and sites to the owner and staff only, compressed and cacheable for good", async () => {
+  it('serves packed geometry and sites to the owner and staff only, compressed and cacheable for good', async () => {
     const member = await signedIn('member@example.test')
     const other = await signedIn('ines@example.test')
     const staff = await signedIn('staff@example.test')

@@ -138,7 +138,12 @@ export function uniqueEmail(prefix: string): string {
  * A new job of `member` on the demo's CO₂ laser in 3 mm birch plywood with one SVG file uploaded and analysed:
  * the set-up most journeys start from.
  */
-export async function laserPlywoodJob(member: ReturnType<typeof client>, title: string, svg: string, fileName: string): Promise<{ jobId: number; fileId: number }> {
+export async function laserPlywoodJob(
+  member: ReturnType<typeof client>,
+  title: string,
+  svg: string,
+  fileName: string,
+): Promise<{ jobId: number; fileId: number }> {
   const overview = (await member.get('/api/catalog/overview')).body as { name: string; cutterId: number; materials: { name: string; materialId: number }[] }[]
   const heron = overview.find((c) => c.name.startsWith('Heron'))!
   const created = await member.post('/api/jobs', { title, cutterId: heron.cutterId, materialId: heron.materials.find((m) => m.name === 'Birch plywood')!.materialId })

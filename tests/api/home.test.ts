@@ -58,7 +58,14 @@ describe('the overview per role', () => {
     await bench.approvedJob('Overview: to book')
     await bench.admin.post('/api/catalog/cutters', {
       name: `Overview plasma ${Date.now()}`, kind: 'plasma', bedWidthMm: 1500, bedHeightMm: 1500, maxThicknessMm: 12, pricePerMinuteMinor: 150, currency: 'EUR',
-      setupMinutes: 5, billingIncrementMinutes: 1, bookingGranularityMinutes: 15, maxSpeedMmPerMin: 8000, accelMmPerS2: 1000, rapidMmPerMin: 20000, junctionDeviationMm: 0.05, pierceOverheadS: 0.5,
+      setupMinutes: 5,
+      billingIncrementMinutes: 1,
+      bookingGranularityMinutes: 15,
+      maxSpeedMmPerMin: 8000,
+      accelMmPerS2: 1000,
+      rapidMmPerMin: 20000,
+      junctionDeviationMm: 0.05,
+      pierceOverheadS: 0.5,
     })
 
     const after = [await queriesOf(() => memberHome(db, memberId)), await queriesOf(() => staffHome(db, day)), await queriesOf(() => adminHome(db, day))]

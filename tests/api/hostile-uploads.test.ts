@@ -2,7 +2,7 @@
 // message, leave no rows and no stored file behind, and leave the server answering with its memory
 // back near where it was. The corpus is tests/fixtures/hostile/; the big cases are made here.
 import { readdirSync, readFileSync } from 'node:fs'
-import { dirname, join } from 'node:path'
+import { join } from 'node:path'
 import { fileURLToPath } from 'node:url'
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import { plainPart } from '../fixtures/svg'
@@ -35,7 +35,7 @@ const GENERATED: HostileUpload[] = [
 
 // A good drawing with bad text fields or names: the fields and the name are the hostile part.
 const FIELDS: HostileUpload[] = [
-  { name: 'SQL in cutterId', bytes: () => plainPart(), fields: { cutterId: "1 OR 1=1; DROP TABLE jobs; --", materialId: '1' } },
+  { name: 'SQL in cutterId', bytes: () => plainPart(), fields: { cutterId: '1 OR 1=1; DROP TABLE jobs; --', materialId: '1' } },
   { name: 'SQL in materialId', bytes: () => plainPart(), fields: { cutterId: '1', materialId: "1' UNION SELECT password_hash FROM users --" } },
   { name: 'overlong cutterId', bytes: () => plainPart(), fields: { cutterId: '9'.repeat(100_000), materialId: '1' } },
   { name: 'NaN dpi', bytes: () => plainPart(), fields: { dpi: 'NaN' } },

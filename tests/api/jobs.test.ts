@@ -1,9 +1,10 @@
 import { existsSync, readdirSync, readFileSync } from 'node:fs'
-import { dirname, join } from 'node:path'
+import { join } from 'node:path'
 import { describe, expect, inject, it } from 'vitest'
 import { crossingCuts, plainPart, slitPair } from '../fixtures/svg'
 import { decodeGeometry } from '../../shared/packed-analysis'
-import { client, signedIn, sqlRow, waitForMail } from './helpers'
+import type { client } from './helpers'
+import { signedIn, sqlRow, waitForMail } from './helpers'
 
 function fileForm(svg: string, name: string, quantity = 1) {
   const form = new FormData()

@@ -258,7 +258,9 @@ describe('webhooks', () => {
 
     // Every event Stripe sent about this booking, delivered again ten times: the ledger and the mailbox stay as they are.
     const all = await countMail(member, /./)
-    const events = (await stripe().events.list({ limit: 100 })).data.filter((e) => (e.data.object as { metadata?: Record<string, string> }).metadata?.bookingId === String(booking.id))
+    const events = (await stripe().events.list({ limit: 100 })).data.filter(
+      (e) => (e.data.object as { metadata?: Record<string, string> }).metadata?.bookingId === String(booking.id),
+    )
     expect(events.length).toBeGreaterThanOrEqual(3)
     for (let i = 0; i < 10; i++) {
       for (const event of events) {

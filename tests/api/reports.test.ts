@@ -2,7 +2,7 @@
 // this file's own, then every report's totals recomputed straight from the database, and every CSV read back.
 import { DateTime } from 'luxon'
 import Papa from 'papaparse'
-import { beforeAll, describe, expect, inject, it } from 'vitest'
+import { beforeAll, describe, expect, it } from 'vitest'
 import { median, nearestRankPercentile } from '../../server/services/reports/statistics'
 import { plainPart } from '../fixtures/svg'
 import { signedIn, sqlRows } from './helpers'
@@ -128,7 +128,11 @@ describe('report totals equal sums over the tables', () => {
     const { rows } = await report('materials')
     const jobs = await query<{ material_id: number; sheets_used: number | null }>('select material_id, sheets_used from jobs where cutter_id = ? and cut_finished_at >= ? and cut_finished_at < ?', bench.cutterId, range.fromIso, range.toIso)
     expect(rows.map((r) => r.materialId)).toEqual([bench.materialId])
-    expect(rows[0]).toMatchObject({ finishedJobs: 3, sheets: sum(jobs, (j) => j.sheets_used ?? 0), jobsWithoutSheetCount: jobs.filter((j) => j.sheets_used === null).length })
+    expect(rows[0]).toMatchObject({
+      finishedJobs: 3,
+      sheets: sum(jobs, (j) => j.sheets_used ?? 0),
+      jobsWithoutSheetCount: jobs.filter((j) => j.sheets_used === null).length,
+    })
     expect(rows[0].sheets).toBeGreaterThanOrEqual(3)
   })
 
@@ -146,7 +150,9 @@ describe('report totals equal sums over the tables', () => {
       "select e.job_id, e.to_state, e.created_at from job_events e join jobs j on j.id = e.job_id where j.cutter_id = ? and e.from_state = 'submitted' and e.to_state in ('approved', 'changes_requested', 'rejected') order by e.id",
       bench.cutterId,
     )
-    expect(rows.map((r) => [r.jobId, r.outcome, r.reviewedAt])).toEqual(events.map((e) => [e.job_id, e.to_state, e.created_at]).sort((a, b) => Number(a[0]) - Number(b[0])))
+    expect(rows.map((r) => [r.jobId, r.outcome, r.reviewedAt])).toEqual(
+      events.map((e) => [e.job_id, e.to_state, e.created_at]).sort((a, b) => Number(a[0]) - Number(b[0])),
+    )
     expect(rows.some((r) => r.outcome === 'changes_requested')).toBe(true)
     for (const row of rows) expect(row.hours).toBeCloseTo(minutesOf(row.submittedAt, row.reviewedAt) / 60, 2)
     expect(summary.reviews).toBe(rows.length)

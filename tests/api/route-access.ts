@@ -2,7 +2,6 @@
 // "METHOD /path/:param" as the file name spells it. tests/api/authorization-matrix.test.ts calls
 // every route as each caller and fails on any route file without an entry here.
 import { randomBytes } from 'node:crypto'
-import { inject } from 'vitest'
 import { plainPart } from '../fixtures/svg'
 import { client, signedIn, sqlRow } from './helpers'
 import { bookingBench, type BookingBench, type Client } from './workshop-setup'

@@ -36,7 +36,16 @@ export async function bookingBench(baseUrl?: string): Promise<BookingBench> {
   const materials = (await staff.get('/api/catalog/materials')).body as { id: number; name: string; thicknessMm: number }[]
   const materialId = materials.find((m) => m.name === 'Birch plywood' && m.thicknessMm === 3)!.id
   await staff.post('/api/catalog/process-settings', {
-    cutterId, materialId, cutSpeedMmPerMin: 1200, kerfMm: 0.2, pierceS: 0.1, minBridgeMm: 3, minHoleMm: 1, scoreSpeedMmPerMin: 6000, engraveSpeedMmPerMin: 18000, engraveLineIntervalMm: 0.1,
+    cutterId,
+    materialId,
+    cutSpeedMmPerMin: 1200,
+    kerfMm: 0.2,
+    pierceS: 0.1,
+    minBridgeMm: 3,
+    minHoleMm: 1,
+    scoreSpeedMmPerMin: 6000,
+    engraveSpeedMmPerMin: 18000,
+    engraveLineIntervalMm: 0.1,
   })
   await staff.put(`/api/catalog/cutters/${cutterId}/hours`, { hours: [1, 2, 3, 4, 5, 6, 7].map((weekday) => ({ weekday, opensAt: '08:00', closesAt: '20:00' })) })
   const members = (await staff.get('/api/staff/members')).body as { id: number; email: string }[]

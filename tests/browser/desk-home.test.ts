@@ -6,7 +6,6 @@ import { payCheckout, waitForPaymentState } from '../api/payment-helpers'
 import { bookingBench } from '../api/workshop-setup'
 import { browserTest, browserTestWithStaff, checkAccessibility, screenshot, signInThroughForm } from './browser'
 
-
 describe('the overview per role in the browser', () => {
   browserTest('a member sees open jobs with what each waits for; staff and admin see the desk', async ({ browser }) => {
     const bench = await bookingBench()

@@ -25,7 +25,13 @@ describe('packed preview geometry', () => {
   })
 
   it('refuses bytes that are not geometry or are cut short', () => {
-    const bytes = encodeGeometry({ count: 1, start: new Uint32Array([0, 2]), operation: new Uint8Array([0]), closed: new Uint8Array([0]), xy: new Float64Array([0, 0, 1, 1]) })
+    const bytes = encodeGeometry({
+      count: 1,
+      start: new Uint32Array([0, 2]),
+      operation: new Uint8Array([0]),
+      closed: new Uint8Array([0]),
+      xy: new Float64Array([0, 0, 1, 1]),
+    })
     expect(() => decodeGeometry(bytes.subarray(0, bytes.length - 4))).toThrow(PackedFormatError)
     expect(() => decodeSites(bytes)).toThrow(PackedFormatError)
   })

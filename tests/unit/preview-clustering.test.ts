@@ -18,7 +18,13 @@ function groupsOf(sizes: { severity: Severity; count: number }[]): FindingGroup[
 
 function sitesOf(points: [number, number][]): FindingSites {
   const n = points.length
-  return { count: n, xy: Float32Array.from(points.flat()), value: new Float32Array(n), contourA: new Int32Array(n).fill(-1), contourB: new Int32Array(n).fill(-1) }
+  return {
+    count: n,
+    xy: Float32Array.from(points.flat()),
+    value: new Float32Array(n),
+    contourA: new Int32Array(n).fill(-1),
+    contourB: new Int32Array(n).fill(-1),
+  }
 }
 
 const severity = fc.constantFrom<Severity>('error', 'warning', 'info')

@@ -45,7 +45,9 @@ function recorder(width = 1000, height = 1000) {
 }
 
 const f32 = (v: number) => Math.fround(v)
-const point = fc.tuple(fc.double({ min: 0, max: 500, noNaN: true }), fc.double({ min: 0, max: 500, noNaN: true })).map(([x, y]) => [f32(x), f32(y)] as [number, number])
+const point = fc
+  .tuple(fc.double({ min: 0, max: 500, noNaN: true }), fc.double({ min: 0, max: 500, noNaN: true }))
+  .map(([x, y]) => [f32(x), f32(y)] as [number, number])
 const contour = fc.array(point, { minLength: 2, maxLength: 8 })
 
 describe('preview culling', () => {
@@ -103,7 +105,8 @@ describe('preview level of detail', () => {
         const lastOriginal = shape.at(-1)!
         expect(traced.at(-1)![0]).toBeCloseTo(lastOriginal[0] * scale, 6)
         expect(traced.at(-1)![1]).toBeCloseTo(lastOriginal[1] * scale, 6)
-        for (let i = 1; i < traced.length - 1; i++) expect(Math.hypot(traced[i]![0] - traced[i - 1]![0], traced[i]![1] - traced[i - 1]![1])).toBeGreaterThanOrEqual(1 - 1e-9)
+        for (let i = 1; i < traced.length - 1; i++)
+          expect(Math.hypot(traced[i]![0] - traced[i - 1]![0], traced[i]![1] - traced[i - 1]![1])).toBeGreaterThanOrEqual(1 - 1e-9)
         const segments = traced.slice(1).map((p, i) => new Flatten.Segment(new Flatten.Point(...traced[i]!), new Flatten.Point(...p)))
         for (const [x, y] of shape) {
           const p = new Flatten.Point(x * scale, y * scale)

@@ -62,7 +62,15 @@ describe('migration 0010: summaries written once', () => {
     await db.migrate.latest()
 
     const first = await db('file_revisions').where({ id: 1 }).first()
-    expect(first).toMatchObject({ cut_length_mm: 310.27, pierces: 2, score_length_mm: 12, bbox_width_mm: 90, bbox_height_mm: 60, time_total_s: 20.5, time_cut_s: 18.6 })
+    expect(first).toMatchObject({
+      cut_length_mm: 310.27,
+      pierces: 2,
+      score_length_mm: 12,
+      bbox_width_mm: 90,
+      bbox_height_mm: 60,
+      time_total_s: 20.5,
+      time_cut_s: 18.6,
+    })
     expect(first).toMatchObject({ warning_count: 3, warning_groups: 1, note_count: 2, note_groups: 1, error_count: 0, error_groups: 0, preview_json: null })
     const stored = JSON.parse(first.analysis_json)
     expect(stored.findings).toBeUndefined()

@@ -14,7 +14,10 @@ describe('layoutSheets', () => {
   it('places every copy inside the margin, never overlapping, at least the spacing apart', () => {
     fc.assert(
       fc.property(
-        fc.array(fc.record({ widthMm: fc.integer({ min: 5, max: 300 }), heightMm: fc.integer({ min: 5, max: 200 }), quantity: fc.integer({ min: 1, max: 8 }) }), { minLength: 1, maxLength: 8 }),
+        fc.array(
+          fc.record({ widthMm: fc.integer({ min: 5, max: 300 }), heightMm: fc.integer({ min: 5, max: 200 }), quantity: fc.integer({ min: 1, max: 8 }) }),
+          { minLength: 1, maxLength: 8 },
+        ),
         fc.double({ min: 0.1, max: 5, noNaN: true }),
         (parts, spacingMm) => {
           const sheet = { widthMm: 600, heightMm: 400 }
@@ -53,7 +56,15 @@ describe('layoutSheets', () => {
   })
 
   it('reports parts larger than the sheet instead of placing them', () => {
-    const layout = layoutSheets([{ fileId: 7, widthMm: 700, heightMm: 20, quantity: 1 }, { fileId: 8, widthMm: 20, heightMm: 20, quantity: 1 }], { widthMm: 600, heightMm: 400 }, 1, 5)
+    const layout = layoutSheets(
+      [
+        { fileId: 7, widthMm: 700, heightMm: 20, quantity: 1 },
+        { fileId: 8, widthMm: 20, heightMm: 20, quantity: 1 },
+      ],
+      { widthMm: 600, heightMm: 400 },
+      1,
+      5,
+    )
     expect(layout.tooLarge).toEqual([7])
     expect(layout.sheets.flatMap((s) => s.placements).map((p) => p.fileId)).toEqual([8])
   })

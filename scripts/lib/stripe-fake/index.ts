@@ -69,7 +69,13 @@ function errorResponse(error: StripeFakeError, requestId: string): SavedResponse
 }
 
 /** Runs one /v1 API request: authenticate, decode, replay or run, and save for its Idempotency-Key. */
-function handleApiRequest(routes: Route[], idempotency: IdempotencyStore, request: IncomingMessage, url: URL, body: string): { response: SavedResponse; replayed: boolean } {
+function handleApiRequest(
+  routes: Route[],
+  idempotency: IdempotencyStore,
+  request: IncomingMessage,
+  url: URL,
+  body: string,
+): { response: SavedResponse; replayed: boolean } {
   const requestId = `req_${randomBytes(8).toString('hex')}`
   const method = request.method ?? 'GET'
   const idempotencyKey = method === 'POST' ? (request.headers['idempotency-key'] as string | undefined) : undefined

@@ -158,7 +158,12 @@ export function finishAuthentication(state: StripeFakeState, stored: StoredCheck
 }
 
 /** Capture up to amount_capturable; the uncaptured rest of the hold is released (shown as refunded on the charge — from memory). */
-export function capturePaymentIntent(state: StripeFakeState, paymentIntent: FakePaymentIntent, amountToCapture: number | undefined, context: RequestContext): void {
+export function capturePaymentIntent(
+  state: StripeFakeState,
+  paymentIntent: FakePaymentIntent,
+  amountToCapture: number | undefined,
+  context: RequestContext,
+): void {
   if (paymentIntent.status !== 'requires_capture') {
     throw unexpectedState(
       'payment_intent',

@@ -170,7 +170,12 @@ export class CutSegments {
     const closest = emptyClosestPoints()
     let found = false
     for (let point = start[contour]!; point < start[contour + 1]! - 1 && !found; point++) {
-      const near = [Math.min(xy[2 * point]!, xy[2 * point + 2]!) - reachMm, Math.min(xy[2 * point + 1]!, xy[2 * point + 3]!) - reachMm, Math.max(xy[2 * point]!, xy[2 * point + 2]!) + reachMm, Math.max(xy[2 * point + 1]!, xy[2 * point + 3]!) + reachMm]
+      const near = [
+        Math.min(xy[2 * point]!, xy[2 * point + 2]!) - reachMm,
+        Math.min(xy[2 * point + 1]!, xy[2 * point + 3]!) - reachMm,
+        Math.max(xy[2 * point]!, xy[2 * point + 2]!) + reachMm,
+        Math.max(xy[2 * point + 1]!, xy[2 * point + 3]!) + reachMm,
+      ]
       this.forEachNear(near[0]!, near[1]!, near[2]!, near[3]!, (segment) => {
         if (found || !others(this.contourOf[segment]!)) return
         found = closestPointsAt(xy, 2 * point, 2 * this.firstPoint[segment]!, closest).distanceMm <= reachMm
@@ -244,7 +249,9 @@ export class CutSegments {
     const incoming = 2 * this.firstPoint[t === 0 ? neighbour : segment]!
     const outgoing = 2 * this.firstPoint[t === 0 ? segment : neighbour]!
     const { xy } = this.contours
-    const turn = (xy[incoming + 2]! - xy[incoming]!) * (xy[outgoing + 3]! - xy[outgoing + 1]!) - (xy[incoming + 3]! - xy[incoming + 1]!) * (xy[outgoing + 2]! - xy[outgoing]!)
+    const turn =
+      (xy[incoming + 2]! - xy[incoming]!) * (xy[outgoing + 3]! - xy[outgoing + 1]!) -
+      (xy[incoming + 3]! - xy[incoming + 1]!) * (xy[outgoing + 2]! - xy[outgoing]!)
     return side * turn > 0 ? onThisSide && onNeighbourSide : onThisSide || onNeighbourSide
   }
 
@@ -352,7 +359,11 @@ const CHUNK_SIDE_MM = 4
  * round the middle of its box only when it is at least half the box's
  * diagonal long.
  */
-function materialSides(geometry: CheckGeometry, cutIds: number[], comesWithin: (closedCut: number, isLoose: (contour: number) => boolean) => boolean): Int8Array {
+function materialSides(
+  geometry: CheckGeometry,
+  cutIds: number[],
+  comesWithin: (closedCut: number, isLoose: (contour: number) => boolean) => boolean,
+): Int8Array {
   const { contours, bounds } = geometry
   const sides = new Int8Array(contours.count)
   const closedIds = cutIds.filter((id) => contours.closed[id] === 1)
@@ -400,4 +411,7 @@ export function bridgeReachMm(params: AnalysisParams): number {
 }
 
 /** The cut segments of a geometry, built once and shared by the checks. */
-export const cutSegmentsOf = oncePerGeometry((params: AnalysisParams) => String(bridgeReachMm(params)), (geometry, params) => new CutSegments(geometry, bridgeReachMm(params)))
+export const cutSegmentsOf = oncePerGeometry(
+  (params: AnalysisParams) => String(bridgeReachMm(params)),
+  (geometry, params) => new CutSegments(geometry, bridgeReachMm(params)),
+)

@@ -42,7 +42,9 @@ export function runDesignRuleChecks(geometry: CheckGeometry, params: AnalysisPar
 function summarise(findings: FindingCollector, params: AnalysisParams): DesignRuleSummary {
   let narrowestBridgeMm: number | null = null
   for (const list of findings.listsOf('narrow-bridge')) {
-    for (let site = 0; site < list.count; site++) narrowestBridgeMm = narrowestBridgeMm === null ? list.value[site]! : Math.min(narrowestBridgeMm, list.value[site]!)
+    for (let site = 0; site < list.count; site++) {
+      narrowestBridgeMm = narrowestBridgeMm === null ? list.value[site]! : Math.min(narrowestBridgeMm, list.value[site]!)
+    }
   }
   let duplicateCutLengthMm = 0
   for (const list of findings.listsOf('duplicate-cut')) for (let site = 0; site < list.count; site++) duplicateCutLengthMm += list.value[site]!

@@ -31,6 +31,12 @@ export function checkMergedCuts(geometry: CheckGeometry, params: AnalysisParams,
   for (const slot of closestOfPair.values()) {
     const { px, py, qx, qy } = nearCuts.closest(slot)
     const sites = kind[slot] === touch ? touching : withinKerf
-    sites.add((px + qx) / 2, (py + qy) / 2, distanceMm[slot]! - params.kerfMm, segments.contourOf[nearCuts.first[slot]!], segments.contourOf[nearCuts.second[slot]!])
+    sites.add(
+      (px + qx) / 2,
+      (py + qy) / 2,
+      distanceMm[slot]! - params.kerfMm,
+      segments.contourOf[nearCuts.first[slot]!],
+      segments.contourOf[nearCuts.second[slot]!],
+    )
   }
 }

@@ -51,7 +51,10 @@ export function checkNarrowBridges(geometry: CheckGeometry, params: AnalysisPara
       reported.push(narrowestOfSite[site]!)
       continue
     }
-    const unscreened = othersOfScreened.get(site)!.sort((a, b) => distanceMm[a]! - distanceMm[b]!).find((other) => !isScreened(segments, neighbours, narrow, other, params.chainToleranceMm))
+    const unscreened = othersOfScreened
+      .get(site)!
+      .sort((a, b) => distanceMm[a]! - distanceMm[b]!)
+      .find((other) => !isScreened(segments, neighbours, narrow, other, params.chainToleranceMm))
     if (unscreened !== undefined) reported.push(unscreened)
   }
   const groups = bridgeGroups(findings, params)

@@ -12,7 +12,10 @@ function findNearCuts(geometry: CheckGeometry, params: AnalysisParams): NearCutL
   const { repeatingPairs } = repeatedCutsOf(geometry, params)
   if (repeatingPairs.size === 0) return nearCuts
   const { contours, contourOf } = cutSegmentsOf(geometry, params)
-  return nearCuts.filter((slot) => nearCuts.sameContour[slot] === 1 || !repeatingPairs.has(contourPairKey(contours, contourOf[nearCuts.first[slot]!]!, contourOf[nearCuts.second[slot]!]!)))
+  return nearCuts.filter(
+    (slot) =>
+      nearCuts.sameContour[slot] === 1 || !repeatingPairs.has(contourPairKey(contours, contourOf[nearCuts.first[slot]!]!, contourOf[nearCuts.second[slot]!]!)),
+  )
 }
 
 /**

@@ -22,7 +22,10 @@ export function checkOpenContours(geometry: CheckGeometry, params: AnalysisParam
     const endX = contours.xy[last]!
     const endY = contours.xy[last + 1]!
     const gapMm = Math.hypot(endX - startX, endY - startY)
-    if (gapMm < NEARLY_CLOSED_GAP_MM && contours.lengthMm[contour]! > NEARLY_CLOSED_LENGTH_PER_GAP * gapMm) nearlyClosed.add((startX + endX) / 2, (startY + endY) / 2, gapMm, contour)
-    else slits.add(startX, startY, Number.NaN, contour)
+    if (gapMm < NEARLY_CLOSED_GAP_MM && contours.lengthMm[contour]! > NEARLY_CLOSED_LENGTH_PER_GAP * gapMm) {
+      nearlyClosed.add((startX + endX) / 2, (startY + endY) / 2, gapMm, contour)
+    } else {
+      slits.add(startX, startY, Number.NaN, contour)
+    }
   }
 }

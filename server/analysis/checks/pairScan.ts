@@ -223,7 +223,14 @@ function scanPairs(geometry: CheckGeometry, params: AnalysisParams): PairScan {
 }
 
 /** Records the stretch of `later` that runs along `earlier` within the tolerance, if there is one. */
-function addRepeat(xy: Float64Array, firstPoint: Uint32Array, earlier: number, later: number, toleranceMm: number, repeatsOf: Map<number, RepeatedStretch[]>): boolean {
+function addRepeat(
+  xy: Float64Array,
+  firstPoint: Uint32Array,
+  earlier: number,
+  later: number,
+  toleranceMm: number,
+  repeatsOf: Map<number, RepeatedStretch[]>,
+): boolean {
   const p = 2 * firstPoint[earlier]!
   const q = 2 * firstPoint[later]!
   const ax = xy[p]!

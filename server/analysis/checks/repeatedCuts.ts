@@ -32,7 +32,12 @@ function findRepeatedCuts(geometry: CheckGeometry, params: AnalysisParams): Repe
       continue
     }
     const middle = (stretches[0]!.from + stretches[0]!.to) / 2
-    result.sites.set(key, { contours: contours[0] === contours[1] ? [contours[0]] : contours, lengthMm, x: cx + middle * (dx - cx), y: cy + middle * (dy - cy) })
+    result.sites.set(key, {
+      contours: contours[0] === contours[1] ? [contours[0]] : contours,
+      lengthMm,
+      x: cx + middle * (dx - cx),
+      y: cy + middle * (dy - cy),
+    })
   }
   return result
 }

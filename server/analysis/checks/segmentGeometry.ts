@@ -21,7 +21,17 @@ export function emptyClosestPoints(): ClosestPoints {
  * otherwise the minimum is reached at an end of one of them, so the nearest of
  * the four end-to-segment distances is exact.
  */
-export function closestPointsOfSegments(ax: number, ay: number, bx: number, by: number, cx: number, cy: number, dx: number, dy: number, out: ClosestPoints): ClosestPoints {
+export function closestPointsOfSegments(
+  ax: number,
+  ay: number,
+  bx: number,
+  by: number,
+  cx: number,
+  cy: number,
+  dx: number,
+  dy: number,
+  out: ClosestPoints,
+): ClosestPoints {
   return closestPointsAt(Float64Array.of(ax, ay, bx, by, cx, cy, dx, dy), 0, 4, out)
 }
 
@@ -123,7 +133,17 @@ export function crossingOnFirstAt(line: Float64Array, xy: Float64Array, c: numbe
  * so the stretch is one interval: the hull of CD clipped by the rectangle
  * and by each end disc.
  */
-export function stretchWithin(ax: number, ay: number, bx: number, by: number, cx: number, cy: number, dx: number, dy: number, toleranceMm: number): [number, number] | null {
+export function stretchWithin(
+  ax: number,
+  ay: number,
+  bx: number,
+  by: number,
+  cx: number,
+  cy: number,
+  dx: number,
+  dy: number,
+  toleranceMm: number,
+): [number, number] | null {
   let from = Infinity
   let to = -Infinity
   const widen = (interval: [number, number] | null) => {

@@ -7,7 +7,16 @@ import { NUMBER_PATTERN, shorten } from '../numbers'
  * Anything else (strings, handles, booleans) is left to the parser.
  */
 const REAL_CODE_RANGES: ReadonlyArray<readonly [number, number]> = [[10, 59], [110, 149], [210, 239], [460, 469], [1010, 1059]]
-const INTEGER_CODE_RANGES: ReadonlyArray<readonly [number, number]> = [[60, 99], [160, 179], [270, 289], [370, 389], [400, 409], [420, 429], [440, 459], [1060, 1071]]
+const INTEGER_CODE_RANGES: ReadonlyArray<readonly [number, number]> = [
+  [60, 99],
+  [160, 179],
+  [270, 289],
+  [370, 389],
+  [400, 409],
+  [420, 429],
+  [440, 459],
+  [1060, 1071],
+]
 const LARGEST_GROUP_CODE = 1071
 
 const INTEGER_PATTERN = /^[+-]?\d+$/

@@ -79,7 +79,10 @@ export function readDxfDocument(dxf: IDxf, params: AnalysisParams, findings: Fin
     const matrix = isTiltedInWorld(entity, params.chordToleranceMm / linearScale(parentMatrix)) ? undefined : withObjectCoordinates(parentMatrix, entity)
     // An ELLIPSE's points stay in world coordinates, whatever matrix draws it.
     const findingMatrix = matrix && entity.type !== 'ELLIPSE' ? matrix : parentMatrix
-    const at = (point: IPoint | undefined): [number, number] => [applyX(findingMatrix, point?.x ?? 0, point?.y ?? 0), applyY(findingMatrix, point?.x ?? 0, point?.y ?? 0)]
+    const at = (point: IPoint | undefined): [number, number] => [
+      applyX(findingMatrix, point?.x ?? 0, point?.y ?? 0),
+      applyY(findingMatrix, point?.x ?? 0, point?.y ?? 0),
+    ]
     if (!matrix) {
       if (!layer.frozen) reportNotCut({ code: 'dxf-not-planar' }, ...at(firstPointOf(entity)))
       continue
@@ -131,7 +134,11 @@ export function readDxfDocument(dxf: IDxf, params: AnalysisParams, findings: Fin
     const blockChain = { name: insert.name, depth, outer }
     for (let row = rows - 1; row >= 0; row--) {
       for (let column = columns - 1; column >= 0; column--) {
-        pushEntities(block.entities, multiply(matrix, insertMatrix(insert, block.position, column, row)), { insertLayer: layerName, byBlockColour: colour, blockChain })
+        pushEntities(block.entities, multiply(matrix, insertMatrix(insert, block.position, column, row)), {
+          insertLayer: layerName,
+          byBlockColour: colour,
+          blockChain,
+        })
       }
     }
   }

@@ -45,7 +45,16 @@ export function drawSpline(spline: SplineDefinition, toleranceUnits: number, pat
   }
 }
 
-function addChords(evaluate: (t: number) => Point2, t0: number, p0: Point2, t1: number, p1: Point2, toleranceUnits: number, depth: number, path: PathDataWriter): void {
+function addChords(
+  evaluate: (t: number) => Point2,
+  t0: number,
+  p0: Point2,
+  t1: number,
+  p1: Point2,
+  toleranceUnits: number,
+  depth: number,
+  path: PathDataWriter,
+): void {
   const middleT = (t0 + t1) / 2
   const middle = evaluate(middleT)
   if (depth < MAX_SUBDIVISION_DEPTH && (depth < MIN_SUBDIVISION_DEPTH || distanceToChord(middle, p0, p1) > toleranceUnits)) {
@@ -146,7 +155,12 @@ function unit(vector: Point2 | undefined): Point2 | undefined {
  * h_i·D_{i−1} + 2(h_{i−1} + h_i)·D_i + h_{i−1}·D_{i+1} = 3(h_i·Δ_{i−1}/h_{i−1} + h_{i−1}·Δ_i/h_i), Δ_i = P_{i+1} − P_i;
  * an end is D = its tangent when given, else natural: 2D_0 + D_1 = 3Δ_0/h_0 and D_{n−1} + 2D_n = 3Δ_{n−1}/h_{n−1}.
  */
-function clampedOrNaturalDerivatives(points: Point2[], h: Float64Array, start: Point2 | undefined, end: Point2 | undefined): { x: Float64Array; y: Float64Array } {
+function clampedOrNaturalDerivatives(
+  points: Point2[],
+  h: Float64Array,
+  start: Point2 | undefined,
+  end: Point2 | undefined,
+): { x: Float64Array; y: Float64Array } {
   const n = points.length
   const lower = new Float64Array(n)
   const diagonal = new Float64Array(n)

@@ -101,7 +101,9 @@ function pairSheets(before: SheetSize[], after: SheetInput[]): { sheet: SheetInp
 
 /** True when the edit sets a price or currency a stock sheet did not have (a new sheet at price 0 sets no price). */
 function changesSheetPrices(pairs: { sheet: SheetInput; existing: SheetSize | null }[]): boolean {
-  return pairs.some(({ sheet, existing }) => (existing ? existing.priceMinor !== sheet.priceMinor || existing.currency !== sheet.currency : sheet.priceMinor !== 0))
+  return pairs.some(({ sheet, existing }) =>
+    existing ? existing.priceMinor !== sheet.priceMinor || existing.currency !== sheet.currency : sheet.priceMinor !== 0,
+  )
 }
 
 async function writeSheets(trx: Knex, materialId: number, pairs: { sheet: SheetInput; existing: SheetSize | null }[], before: SheetSize[]) {

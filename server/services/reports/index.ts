@@ -12,26 +12,29 @@ import { utilisationReport } from './utilisation'
 
 export { resolveRange } from './range'
 
-interface ReportDefinition<Row> {
+interface ReportDefinition<Row extends object> {
   build: (db: Knex, range: ReportRange) => Promise<Report<Row, unknown>>
   /** The CSV's columns, in order; the header names are the JSON rows' keys, so a file reads back as the rows. */
   columns: (keyof Row & string)[]
 }
 
-const define = <Row>(build: (db: Knex, range: ReportRange) => Promise<Report<Row, any>>, columns: (keyof Row & string)[]): ReportDefinition<Row> => ({ build, columns })
-
-export const REPORTS: Record<ReportName, ReportDefinition<any>> = {
-  'utilisation': define(utilisationReport, ['week', 'weekStart', 'openMinutes', 'bookedMinutes', 'cuttingMinutes', 'bookedPercent', 'cuttingPercent']),
-  'revenue': define(revenueReport, ['week', 'weekStart', 'cutterId', 'cutterName', 'currency', 'capturedMinor', 'feeMinor', 'chargedMinor', 'refundedMinor', 'revenueMinor']),
-  'minutes-by-member': define(memberMinutesReport, ['memberId', 'memberName', 'bookings', 'bookedMinutes', 'finishedJobs', 'cutMinutes']),
-  'materials': define(materialUseReport, ['materialId', 'materialName', 'family', 'thicknessMm', 'finishedJobs', 'sheets', 'jobsWithoutSheetCount']),
-  'jobs-by-state': define(jobStateReport, ['state', 'label', 'jobs']),
-  'turnaround': define(turnaroundReport, ['jobId', 'jobTitle', 'cutterName', 'submittedAt', 'reviewedAt', 'outcome', 'hours']),
-  'estimate-accuracy': define(estimateAccuracyReport, ['cutterId', 'cutterName', 'materialId', 'materialName', 'jobs', 'estimatedMinutes', 'actualMinutes', 'medianAbsPercentError', 'p90AbsPercentError', 'medianPercentError']),
-  'estimate-points': define(estimatePointReport, ['jobId', 'jobTitle', 'cutterName', 'materialName', 'finishedAt', 'estimatedMinutes', 'actualMinutes', 'percentError']),
+function define<Row extends object>(build: ReportDefinition<Row>['build'], columns: ReportDefinition<Row>['columns']): ReportDefinition<Row> {
+  return { build, columns }
 }
 
-export function reportCsv(name: ReportName, report: Report<Record<string, unknown>, unknown>): string {
-  const { columns } = REPORTS[name]
-  return toCsv(columns, report.rows.map((row) => columns.map((column) => row[column])))
+// Each report keeps its own row type; `satisfies` checks that every report name has one.
+export const REPORTS = {
+  utilisation: define(utilisationReport, ['week', 'weekStart', 'openMinutes', 'bookedMinutes', 'cuttingMinutes', 'bookedPercent', 'cuttingPercent']),
+  revenue: define(revenueReport, ['week', 'weekStart', 'cutterId', 'cutterName', 'currency', 'capturedMinor', 'feeMinor', 'chargedMinor', 'refundedMinor', 'revenueMinor']),
+  'minutes-by-member': define(memberMinutesReport, ['memberId', 'memberName', 'bookings', 'bookedMinutes', 'finishedJobs', 'cutMinutes']),
+  materials: define(materialUseReport, ['materialId', 'materialName', 'family', 'thicknessMm', 'finishedJobs', 'sheets', 'jobsWithoutSheetCount']),
+  'jobs-by-state': define(jobStateReport, ['state', 'label', 'jobs']),
+  turnaround: define(turnaroundReport, ['jobId', 'jobTitle', 'cutterName', 'submittedAt', 'reviewedAt', 'outcome', 'hours']),
+  'estimate-accuracy': define(estimateAccuracyReport, ['cutterId', 'cutterName', 'materialId', 'materialName', 'jobs', 'estimatedMinutes', 'actualMinutes', 'medianAbsPercentError', 'p90AbsPercentError', 'medianPercentError']),
+  'estimate-points': define(estimatePointReport, ['jobId', 'jobTitle', 'cutterName', 'materialName', 'finishedAt', 'estimatedMinutes', 'actualMinutes', 'percentError']),
+} satisfies Record<ReportName, unknown>
+
+export function reportCsv(name: ReportName, report: Report<object, unknown>): string {
+  const columns: string[] = REPORTS[name].columns
+  return toCsv(columns, report.rows.map((row) => columns.map((column) => (row as Record<string, unknown>)[column])))
 }

@@ -26,19 +26,39 @@ export async function revenueReport(db: Knex, range: ReportRange): Promise<Reven
     .select('w.week_index', 'c.id as cutter_id', 'c.name as cutter_name', 'l.currency', 'l.kind')
     .sum({ amount: 'l.amount_minor' })
   if (range.cutterId) query.where('c.id', range.cutterId)
-  const sums: { week_index: number | string; kind: keyof typeof KIND_COLUMN; amount: number | string; currency: string; cutter_id: number; cutter_name: string }[] = await query
+  const sums: {
+    week_index: number | string
+    kind: keyof typeof KIND_COLUMN
+    amount: number | string
+    currency: string
+    cutter_id: number
+    cutter_name: string
+  }[] = await query
   const rows = new Map<string, RevenueRow>()
   for (const sum of sums) {
     const { week, weekStart } = range.weeks[Number(sum.week_index)]!
     const key = `${week}|${sum.cutter_id}|${sum.currency}`
     let row = rows.get(key)
     if (!row) {
-      row = { week, weekStart, cutterId: sum.cutter_id, cutterName: sum.cutter_name, currency: sum.currency, capturedMinor: 0, feeMinor: 0, chargedMinor: 0, refundedMinor: 0, revenueMinor: 0 }
+      row = {
+        week,
+        weekStart,
+        cutterId: sum.cutter_id,
+        cutterName: sum.cutter_name,
+        currency: sum.currency,
+        capturedMinor: 0,
+        feeMinor: 0,
+        chargedMinor: 0,
+        refundedMinor: 0,
+        revenueMinor: 0,
+      }
       rows.set(key, row)
     }
     row[KIND_COLUMN[sum.kind]] += Number(sum.amount)
     row.revenueMinor += REVENUE_SIGN[sum.kind]! * Number(sum.amount)
   }
-  const ordered = [...rows.values()].sort((a, b) => a.week.localeCompare(b.week) || a.cutterName.localeCompare(b.cutterName) || a.currency.localeCompare(b.currency))
+  const ordered = [...rows.values()].sort(
+    (a, b) => a.week.localeCompare(b.week) || a.cutterName.localeCompare(b.cutterName) || a.currency.localeCompare(b.currency),
+  )
   return reportOf(range, ordered)
 }

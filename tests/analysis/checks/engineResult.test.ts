@@ -11,7 +11,9 @@ describe('checks in the engine result', () => {
     expect(result.checks).toMatchObject({ narrowBridgeSites: 2, duplicateCutLengthMm: 0, duplicateCutTimeS: 0 })
     expect(result.checks.narrowestBridgeMm).toBeCloseTo(0.1 - 0.2, 9)
     // The site table holds the groups' sites one after another, in the groups' order.
-    expect(result.findingGroups.map((group) => group.firstSite)).toEqual(result.findingGroups.map((_, index) => result.findingGroups.slice(0, index).reduce((sum, group) => sum + group.count, 0)))
+    expect(result.findingGroups.map((group) => group.firstSite)).toEqual(
+      result.findingGroups.map((_, index) => result.findingGroups.slice(0, index).reduce((sum, group) => sum + group.count, 0)),
+    )
     expect(result.sites.count).toBe(sitesOf(result).length)
   })
 

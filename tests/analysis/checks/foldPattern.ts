@@ -52,7 +52,10 @@ export function foldSheet(rows: number, gapsPerRow: number, gapOf: (row: number,
   const ringRadiusMm = 20
   const ringCentreX = widestRowMm + EDGE_MM + ringRadiusMm
   const ringCentreY = EDGE_MM + ringRadiusMm
-  const pointAt = (degrees: number): [number, number] => [ringCentreX + ringRadiusMm * Math.cos((degrees * Math.PI) / 180), ringCentreY + ringRadiusMm * Math.sin((degrees * Math.PI) / 180)]
+  const pointAt = (degrees: number): [number, number] => [
+    ringCentreX + ringRadiusMm * Math.cos((degrees * Math.PI) / 180),
+    ringCentreY + ringRadiusMm * Math.sin((degrees * Math.PI) / 180),
+  ]
   const slitDeg = (360 - ringGapsDeg.reduce((sum, gap) => sum + gap, 0)) / ringGapsDeg.length
   let angle = 0
   for (const gapDeg of ringGapsDeg) {

@@ -21,7 +21,10 @@ function sineBetween(first: readonly number[], second: readonly number[]): numbe
 /** Neither end of `ends` lies within a few reference tolerances of `other` (an end touching the other segment is a tie). */
 function endsClearOf(ends: number[], other: number[]): boolean {
   const line = referenceSegment(other)
-  return line.distanceTo(new Flatten.Point(ends[0], ends[1]))[0] > AMBIGUOUS_NEAR_TOUCH && line.distanceTo(new Flatten.Point(ends[2], ends[3]))[0] > AMBIGUOUS_NEAR_TOUCH
+  return (
+    line.distanceTo(new Flatten.Point(ends[0], ends[1]))[0] > AMBIGUOUS_NEAR_TOUCH &&
+    line.distanceTo(new Flatten.Point(ends[2], ends[3]))[0] > AMBIGUOUS_NEAR_TOUCH
+  )
 }
 
 describe('segment geometry against @flatten-js/core on random segments', () => {
@@ -44,8 +47,10 @@ describe('segment geometry against @flatten-js/core on random segments', () => {
   })
 
   it('gives the offset as the distance of parallel segments that overlap along their line (by construction)', () => {
+    const anyOffsetMm = fc.double({ min: 0, max: 10, noNaN: true })
+    const anyFraction = fc.double({ min: 0, max: 1, noNaN: true })
     fc.assert(
-      fc.property(segment, fc.double({ min: 0, max: 10, noNaN: true }), fc.double({ min: 0, max: 1, noNaN: true }), fc.double({ min: 0, max: 1, noNaN: true }), (first, offsetMm, from, to) => {
+      fc.property(segment, anyOffsetMm, anyFraction, anyFraction, (first, offsetMm, from, to) => {
         const [ax, ay, bx, by] = first
         const length = Math.hypot(bx - ax, by - ay)
         const normalX = -(by - ay) / length
@@ -79,8 +84,9 @@ describe('segment geometry against @flatten-js/core on random segments', () => {
   }, 60_000)
 
   it('crossing segments really cross: random pairs built through a common point', () => {
+    const insideFraction = fc.double({ min: 0.01, max: 0.99, noNaN: true })
     fc.assert(
-      fc.property(coordinate, coordinate, segment, segment, fc.double({ min: 0.01, max: 0.99, noNaN: true }), fc.double({ min: 0.01, max: 0.99, noNaN: true }), (x, y, a, b, u, v) => {
+      fc.property(coordinate, coordinate, segment, segment, insideFraction, insideFraction, (x, y, a, b, u, v) => {
         // Shift each random segment so the point at parameter u (v) is (x, y).
         const through = ([ax, ay, bx, by]: readonly [number, number, number, number], t: number) => {
           const dx = x - (ax + t * (bx - ax))

@@ -39,6 +39,8 @@ export const lwPolyline = (vertices: Array<[number, number, number?]>, closed: b
   ...vertices.flatMap(([x, y, bulge]): Group[] => [[10, x], [20, y], ...(bulge === undefined ? [] : [[42, bulge] as Group])]),
 ]
 
-export const insert = (block: string, x: number, y: number, options: { scaleX?: number; scaleY?: number; rotationDeg?: number; layer?: string } = {}): Group[] => [
+interface InsertOptions { scaleX?: number; scaleY?: number; rotationDeg?: number; layer?: string }
+
+export const insert = (block: string, x: number, y: number, options: InsertOptions = {}): Group[] => [
   [0, 'INSERT'], [8, options.layer ?? '0'], [2, block], [10, x], [20, y], [30, 0], [41, options.scaleX ?? 1], [42, options.scaleY ?? 1], [50, options.rotationDeg ?? 0],
 ]

@@ -5,7 +5,7 @@ import { ACI_RGB } from '../../../server/analysis/dxf/aciColours'
 import { analyzeCutFile, analyzeDxf, analyzeSvg, withDefaults } from '../../../server/analysis/index'
 import { CUT, cutPath, mmDocument } from '../helpers'
 import { groupOf, sitesOf } from '../sites'
-import { arc, circle, dxfDocument, type Group, insert, line, lwPolyline } from './dxfText'
+import { circle, dxfDocument, type Group, insert, line, lwPolyline } from './dxfText'
 
 const MM = 4
 const params = withDefaults()
@@ -13,7 +13,19 @@ const params = withDefaults()
 describe('the same part in SVG and DXF', () => {
   it('gives the same length, pierces and bounding box (±0.01 mm), with DXF (x, y) at (x, −y)', () => {
     // A 60 × 40 plate with rounded corners (r 5), a Ø10 hole and a 20 mm slot, drawn in DXF below the X axis (Y up) …
-    const plate = lwPolyline([[5, -40], [55, -40, Math.tan(Math.PI / 8)], [60, -35], [60, -5, Math.tan(Math.PI / 8)], [55, 0], [5, 0, Math.tan(Math.PI / 8)], [0, -5], [0, -35, Math.tan(Math.PI / 8)]], true)
+    const plate = lwPolyline(
+      [
+        [5, -40],
+        [55, -40, Math.tan(Math.PI / 8)],
+        [60, -35],
+        [60, -5, Math.tan(Math.PI / 8)],
+        [55, 0],
+        [5, 0, Math.tan(Math.PI / 8)],
+        [0, -5],
+        [0, -35, Math.tan(Math.PI / 8)],
+      ],
+      true,
+    )
     const dxf = dxfDocument({ insUnits: MM, entities: [...plate, ...circle(15, -20, 5), ...line(30, -20, 50, -20)] })
     // … and in SVG (Y down) at the mirrored place.
     const svg = mmDocument(`${cutPath('M5 40H55A5 5 0 0 0 60 35V5A5 5 0 0 0 55 0H5A5 5 0 0 0 0 5V35A5 5 0 0 0 5 40Z')}<circle cx="15" cy="20" r="5" fill="none" stroke="${CUT}"/>${cutPath('M30 20H50')}`, 100, 100)
@@ -27,7 +39,22 @@ describe('the same part in SVG and DXF', () => {
 })
 
 describe('$INSUNITS against the exact inch (1 in = 25.4 mm, international yard and pound agreement, 1959)', () => {
-  const unitSquare = (insUnits: number | undefined) => analyzeDxf(dxfDocument({ insUnits, entities: lwPolyline([[0, 0], [1, 0], [1, 1], [0, 1]], true) }), params)
+  const unitSquare = (insUnits: number | undefined) =>
+    analyzeDxf(
+      dxfDocument({
+        insUnits,
+        entities: lwPolyline(
+          [
+            [0, 0],
+            [1, 0],
+            [1, 1],
+            [0, 1],
+          ],
+          true,
+        ),
+      }),
+      params,
+    )
   it.each([[1, 25.4], [4, 1], [5, 10], [6, 1000], [2, 304.8]])('code %d: one unit is %d mm', (code, mmPerUnit) => {
     const result = unitSquare(code)
     expect(result.cut.lengthMm).toBeCloseTo(4 * mmPerUnit, 9)

@@ -1,4 +1,4 @@
-import { describe, expect, it } from 'vitest'
+import { describe, it } from 'vitest'
 import { analyzeDxf, withDefaults } from '../../../server/analysis/index'
 import { expectRefused } from '../helpers'
 import { dxfDocument, type Group, insert, line } from './dxfText'

@@ -26,7 +26,11 @@ describe('nearestRankPercentile', () => {
 
 describe('holdOutError', () => {
   it('on jobs all 25 % slower than modelled, with no setup or noise, is 20 % before and 0 % after (by hand: |1 − 1.25| / 1.25)', () => {
-    const jobs = generateJobs({ count: 16, seed: 21, hidden: { cut: 1.25, pierce: 1.25, travel: 1.25 }, roundToMinutes: false }).map((job) => ({ ...job, setupS: 0, actualS: job.actualS - job.setupS }))
+    const jobs = generateJobs({ count: 16, seed: 21, hidden: { cut: 1.25, pierce: 1.25, travel: 1.25 }, roundToMinutes: false }).map((job) => ({
+      ...job,
+      setupS: 0,
+      actualS: job.actualS - job.setupS,
+    }))
     const error = holdOutError(jobs, fitCoefficients, 4)!
     expect(error.uncorrected.medianPercent).toBeCloseTo(20, 9)
     expect(error.uncorrected.p90Percent).toBeCloseTo(20, 9)

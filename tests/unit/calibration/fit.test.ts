@@ -31,7 +31,9 @@ function normalEquationsFit(samples: readonly TimeSample[], weightOf: (sample: T
     })
   }
   const whole = determinant3(normal)
-  const solved = [0, 1, 2].map((column) => determinant3(normal.map((row, i) => row.map((value, j) => (j === column ? right[i]! : value))) as [Vector3, Vector3, Vector3]) / whole)
+  const solved = [0, 1, 2].map(
+    (column) => determinant3(normal.map((row, i) => row.map((value, j) => (j === column ? right[i]! : value))) as [Vector3, Vector3, Vector3]) / whole,
+  )
   return { cut: solved[0]!, pierce: solved[1]!, travel: solved[2]! }
 }
 
@@ -100,7 +102,11 @@ describe('fitTimeCorrection', () => {
   it('recovers any hidden correction in range exactly from noise-free jobs', () => {
     fc.assert(
       fc.property(
-        fc.record({ cut: fc.double({ min: 0.6, max: 1.8, noNaN: true }), pierce: fc.double({ min: 0.6, max: 1.8, noNaN: true }), travel: fc.double({ min: 0.6, max: 1.8, noNaN: true }) }),
+        fc.record({
+          cut: fc.double({ min: 0.6, max: 1.8, noNaN: true }),
+          pierce: fc.double({ min: 0.6, max: 1.8, noNaN: true }),
+          travel: fc.double({ min: 0.6, max: 1.8, noNaN: true }),
+        }),
         fc.integer({ min: 1, max: 1_000_000 }),
         (hidden, seed) => {
           const jobs = generateJobs({ count: 12, seed, hidden, roundToMinutes: false })
@@ -112,8 +118,9 @@ describe('fitTimeCorrection', () => {
 
   it('never returns NaN or a coefficient outside 0.5–2.0, whatever is recorded', () => {
     const anyNumber = fc.oneof(fc.double(), fc.constant(0), fc.double({ min: 0, max: 10_000, noNaN: true }))
+    const anySample = fc.record({ cutS: anyNumber, pierceS: anyNumber, travelS: anyNumber, setupS: anyNumber, actualS: anyNumber })
     fc.assert(
-      fc.property(fc.array(fc.record({ cutS: anyNumber, pierceS: anyNumber, travelS: anyNumber, setupS: anyNumber, actualS: anyNumber }), { maxLength: 12 }), (samples) => {
+      fc.property(fc.array(anySample, { maxLength: 12 }), (samples) => {
         const fit = fitTimeCorrection(samples)
         for (const value of Object.values(fit.coefficients)) {
           expect(Number.isFinite(value)).toBe(true)
@@ -125,7 +132,10 @@ describe('fitTimeCorrection', () => {
   })
 
   it('returns the model unchanged when no job is usable', () => {
-    const fit = fitTimeCorrection([{ cutS: 0, pierceS: 0, travelS: 0, setupS: 300, actualS: 600 }, { cutS: Number.NaN, pierceS: 1, travelS: 1, setupS: 0, actualS: 60 }])
+    const fit = fitTimeCorrection([
+      { cutS: 0, pierceS: 0, travelS: 0, setupS: 300, actualS: 600 },
+      { cutS: Number.NaN, pierceS: 1, travelS: 1, setupS: 0, actualS: 60 },
+    ])
     expect(fit).toMatchObject({ model: 'none', samples: 2, usedSamples: 0, coefficients: { cut: 1, pierce: 1, travel: 1 } })
   })
 
@@ -138,7 +148,11 @@ describe('fitTimeCorrection', () => {
   })
 
   it('leaves a component under 2 % of the time uncorrected', () => {
-    const jobs = generateJobs({ count: 30, seed: 17, hidden: HIDDEN, roundToMinutes: false }).map((job) => ({ ...job, travelS: 1, actualS: job.actualS - HIDDEN.travel * job.travelS + HIDDEN.travel }))
+    const jobs = generateJobs({ count: 30, seed: 17, hidden: HIDDEN, roundToMinutes: false }).map((job) => ({
+      ...job,
+      travelS: 1,
+      actualS: job.actualS - HIDDEN.travel * job.travelS + HIDDEN.travel,
+    }))
     const fit = fitTimeCorrection(jobs)
     expect(fit.fittedComponents).toEqual(['cut', 'pierce'])
     expect(fit.coefficients.travel).toBe(1)

@@ -24,12 +24,17 @@ function reference(periods: OpeningPeriod[], zone: string, fromIso: string, toIs
 
 const ZONES = ['Europe/Dublin', 'America/New_York', 'Australia/Lord_Howe', 'Asia/Kolkata', 'Pacific/Chatham', 'America/St_Johns', 'Europe/Berlin', 'America/Santiago', 'Asia/Beirut', 'UTC']
 const clock = fc.integer({ min: 0, max: 95 }).map((q) => `${String(Math.floor(q / 4)).padStart(2, '0')}:${String((q % 4) * 15).padStart(2, '0')}`)
-const period = fc.tuple(fc.integer({ min: 1, max: 7 }), clock, clock).filter(([, a, b]) => a < b).map(([weekday, opensAt, closesAt]) => ({ weekday, opensAt, closesAt }))
+const period = fc
+  .tuple(fc.integer({ min: 1, max: 7 }), clock, clock)
+  .filter(([, a, b]) => a < b)
+  .map(([weekday, opensAt, closesAt]) => ({ weekday, opensAt, closesAt }))
 
 describe('opening intervals', () => {
   it('match Luxon day by day for any hours, zone and range', () => {
+    const anyStartHour = fc.integer({ min: 0, max: 4 * 365 * 24 })
+    const anyHours = fc.integer({ min: 1, max: 400 * 24 })
     fc.assert(
-      fc.property(fc.array(period, { maxLength: 8 }), fc.constantFrom(...ZONES), fc.integer({ min: 0, max: 4 * 365 * 24 }), fc.integer({ min: 1, max: 400 * 24 }), (periods, zone, startHour, hours) => {
+      fc.property(fc.array(period, { maxLength: 8 }), fc.constantFrom(...ZONES), anyStartHour, anyHours, (periods, zone, startHour, hours) => {
         const from = Date.UTC(2024, 0, 1) + startHour * 3_600_000
         const fromIso = new Date(from).toISOString()
         const toIso = new Date(from + hours * 3_600_000).toISOString()

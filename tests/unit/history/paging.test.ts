@@ -40,7 +40,11 @@ async function addRows(jobId: number) {
   await db('job_events').insert({ job_id: jobId, from_state: 'collected', to_state: 'collected', comment: `note ${added}` })
 }
 
-async function readAll<Item>(readPage: (cursor?: string) => Promise<Page<Item>>, idOf: (item: Item) => number | string, jobId: number): Promise<(number | string)[]> {
+async function readAll<Item>(
+  readPage: (cursor?: string) => Promise<Page<Item>>,
+  idOf: (item: Item) => number | string,
+  jobId: number,
+): Promise<(number | string)[]> {
   const seen: (number | string)[] = []
   let cursor: string | undefined
   for (let pages = 0; pages < 1000; pages++) {

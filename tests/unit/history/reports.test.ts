@@ -21,8 +21,11 @@ async function job(values: Record<string, unknown>): Promise<number> {
   return id!
 }
 
-async function build(name: keyof typeof REPORTS, cutter?: number) {
-  return REPORTS[name].build(db, await resolveRange(db, { ...RANGE, cutter }))
+// Each report's own row type, which a call through the union of all reports would lose.
+type Built<Name extends keyof typeof REPORTS> = Awaited<ReturnType<(typeof REPORTS)[Name]['build']>>
+
+async function build<Name extends keyof typeof REPORTS>(name: Name, cutter?: number): Promise<Built<Name>> {
+  return (await REPORTS[name].build(db, await resolveRange(db, { ...RANGE, cutter }))) as Built<Name>
 }
 
 beforeAll(async () => {
@@ -45,7 +48,15 @@ beforeAll(async () => {
   // J2: Monday 26 Oct 00:10 GMT, week 44; its sheets were not recorded.
   const j2 = await job({ ...laserJob, member_id: ids.juno, actual_minutes: 40, sheets_used: null, cut_finished_at: '2026-10-26T00:10:00.000Z' })
   // J3: finished before the finish time was recorded; its move to "cut" on Wednesday 28 Oct counts, week 44.
-  const j3 = await job({ cutter_id: ids.laser, material_id: ids.board, sheet_id: ids.boardSheet, member_id: ids.juno, actual_minutes: 12, sheets_used: 1, cut_finished_at: null })
+  const j3 = await job({
+    cutter_id: ids.laser,
+    material_id: ids.board,
+    sheet_id: ids.boardSheet,
+    member_id: ids.juno,
+    actual_minutes: 12,
+    sheets_used: 1,
+    cut_finished_at: null,
+  })
   await db('job_events').insert([
     { job_id: j3, from_state: 'cutting', to_state: 'cut', created_at: '2026-10-28T10:00:00.000Z' },
     { job_id: j3, from_state: 'booked', to_state: 'cutting', created_at: '2026-10-28T09:30:00.000Z' },

@@ -33,7 +33,7 @@ describe('releasing a hold and expiring a checkout', () => {
     expect(error.code).toBe('payment_intent_unexpected_state')
   })
 
-  it("will not cancel the PaymentIntent of a still-open Checkout Session (API reference: expire the session instead)", async () => {
+  it('will not cancel the PaymentIntent of a still-open Checkout Session (API reference: expire the session instead)', async () => {
     const { fake, stripe } = await startFakeWithSdk()
     const session = await stripe.checkout.sessions.create(bookingSessionParams())
     await payWithCard(fake, session.id, CARD_DECLINED)

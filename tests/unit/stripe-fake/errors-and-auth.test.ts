@@ -56,7 +56,6 @@ describe('Stripe-shaped errors', () => {
     const unknown = await stripeErrorOf(stripe.checkout.sessions.create({ ...base, locale: 'de' }))
     expect(unknown.param).toBe('locale')
     expect(unknown.code).toBe('parameter_unknown')
-
   })
 
   it('rejects a non-integer amount sent as raw form data, naming the parameter', async () => {

@@ -1,4 +1,4 @@
-import Stripe from 'stripe'
+import type Stripe from 'stripe'
 import { describe, expect, it } from 'vitest'
 import {
   bookingSessionParams,

@@ -19,7 +19,8 @@ export function eventRoutes(state: StripeFakeState): Route[] {
       handler: ({ params }) => {
         const { limit, starting_after: startingAfter, type, types } = parseParams(listEventParams, params)
         const matchers = [type, ...(types ?? [])].filter((pattern) => pattern !== undefined).map(typeMatcher)
-        const newestFirst = [...state.events.values()].reverse().filter((event) => matchers.length === 0 || matchers.some((matcher) => matcher.test(event.type)))
+        const wanted = (type: string) => matchers.length === 0 || matchers.some((matcher) => matcher.test(type))
+        const newestFirst = [...state.events.values()].reverse().filter((event) => wanted(event.type))
         return paginate(newestFirst, '/v1/events', limit, startingAfter)
       },
     },

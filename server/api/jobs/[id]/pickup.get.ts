@@ -7,7 +7,10 @@ import { NotFound } from '../../../utils/errors'
 export default defineApiHandler(async (event) => {
   const user = await requireUser(event)
   const { id } = readParamsAs(event, idParamSchema)
-  const job = (await jobForViewer(useDb(), user, id)) as Awaited<ReturnType<typeof jobForViewer>> & { pickup_code: string | null; pickup_location: string | null }
+  const job = (await jobForViewer(useDb(), user, id)) as Awaited<ReturnType<typeof jobForViewer>> & {
+    pickup_code: string | null
+    pickup_location: string | null
+  }
   if (job.member_id !== user.id || job.state !== 'ready' || !job.pickup_code) throw new NotFound('There is no pickup code for this job.')
   return { code: job.pickup_code, location: job.pickup_location, qrSvg: await pickupQrSvg(job.pickup_code) }
 })
