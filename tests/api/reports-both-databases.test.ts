@@ -3,9 +3,9 @@
 // ahead; for each cutter and for all), its CSV, the admin's payments list with its totals, and the staff's list of every
 // job walked page by page. Both databases are written by the same seeds from one fixed instant and one seed, so their
 // rows, ids included, are identical; any difference in an answer is the database's doing. PostgreSQL is asked twice:
-// in a database as the app gets one (the server's own collation, "C" on the test server) and in one whose text sorts by
-// a language's rules (ICU en-US), as a server set up for people sorts it; SQLite compares text byte by byte. Runs in
-// `npm run test:postgres` only: it needs a PostgreSQL server.
+// in a database with byte-wise text order, as the README has it created (and as SQLite compares text), and in one whose
+// text sorts by a language's rules (ICU en-US), as a database created with a server's usual defaults would: these
+// answers must not depend on that step being followed. Runs in `npm run test:postgres` only: it needs a PostgreSQL server.
 import { randomBytes } from 'node:crypto'
 import { mkdtempSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
