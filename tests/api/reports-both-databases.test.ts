@@ -143,7 +143,11 @@ async function jobAnswers(db: Knex, staff: SessionUser): Promise<Answers> {
   return answers
 }
 
-/** Each answer of every PostgreSQL database against the same answer on SQLite, so a failure names the one that differs. */
+/**
+ * Each answer of every PostgreSQL database against the same answer on SQLite, so a failure names the one that differs.
+ * Compared in the order the services give, not a canonical one: every report and list sorts on keys that end unique
+ * (an id, a week with a cutter and currency, a name), so two databases holding the same rows must agree on the order too.
+ */
 async function expectSameAnswers(answersOf: (db: Knex) => Promise<Answers>, sqlite: Knex, postgres: Map<string, Knex>): Promise<Answers> {
   const onSqlite = await answersOf(sqlite)
   for (const [database, db] of postgres) {
