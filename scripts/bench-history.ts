@@ -1,6 +1,7 @@
-// `npm run bench:history [-- --jobs 10000 --build]`: every list and report on a busy workshop's years of history.
+// `npm run bench:history [-- --jobs 10000 --build --postgres]`: every list and report on a busy workshop's years of history.
 // Starts the built server (.output; `--build` or a missing build runs `nuxt build` first) on loopback with the
-// demo workshop plus `db:seed-history`'s invented history, then reads each list page and each report over 731
+// demo workshop plus `db:seed-history`'s invented history (in a SQLite file, or with `--postgres` in a database on a
+// throwaway PostgreSQL server started for the run and stopped after it), then reads each list page and each report over 731
 // days through the HTTP API as staff, an admin or a member would: one warm-up, then the median and the worst of
 // a few timed reads, the status and the size of the answer. Ends by itself; prints a table.
 import { execSync } from 'node:child_process'
@@ -10,13 +11,15 @@ import { join } from 'node:path'
 import { parseArgs } from 'node:util'
 import { DateTime } from 'luxon'
 import { seedHistory, type HistoryCounts } from '../db/seeds/history'
-import { startBuiltApp } from './lib/built-app'
+import { describeLocation } from '../db/knexfile'
+import { startBuiltApp, type BuiltApp } from './lib/built-app'
+import { startPostgres, type PostgresServer } from './lib/postgres-server'
 
 const PASSWORD = 'kerfbook-demo'
 const TIMED_READS = 3
 const DAYS = 731
 
-const { values } = parseArgs({ options: { jobs: { type: 'string', default: '10000' }, build: { type: 'boolean', default: false }, seed: { type: 'string', default: '20261204' } } })
+const { values } = parseArgs({ options: { jobs: { type: 'string', default: '10000' }, build: { type: 'boolean', default: false }, seed: { type: 'string', default: '20261204' }, postgres: { type: 'boolean', default: false } } })
 
 async function signIn(baseUrl: string, email: string): Promise<string> {
   const response = await fetch(`${baseUrl}/api/auth/sign-in`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email, password: PASSWORD }) })
@@ -61,29 +64,41 @@ async function main(): Promise<void> {
   let counts: HistoryCounts | undefined
   let seedSeconds = 0
   const picks = { member: '', jobId: 0, runSheetDay: '', cutterId: 0 }
-  const app = await startBuiltApp({
-    name: 'kerfbook-bench-history',
-    outputDir: copyDir,
-    env: { SIGN_IN_LIMIT_PER_MINUTE: '1000' },
-    async prepare(db) {
-      const started = performance.now()
-      counts = await seedHistory(db, { jobs, days: DAYS, seed: Number(values.seed) })
-      seedSeconds = (performance.now() - started) / 1000
-      // The busiest member, the job with the longest history, and the busiest day ahead on the first cutter.
-      picks.member = (await db('bookings as b').join('users as u', 'u.id', 'b.member_id').groupBy('u.email').orderByRaw('count(*) desc').first('u.email')).email
-      picks.jobId = (await db('job_events').groupBy('job_id').orderByRaw('count(*) desc').first('job_id')).job_id
-      picks.cutterId = (await db('cutters').orderBy('id').first('id')).id
-      const zone = JSON.parse((await db('settings').where({ key: 'timeZone' }).first('value_json')).value_json)
-      const ahead = await db('bookings').where({ cutter_id: picks.cutterId, status: 'confirmed', kind: 'job' }).where('starts_at', '>', new Date().toISOString()).select('starts_at')
-      const perDay = new Map<string, number>()
-      for (const b of ahead) {
-        const day = DateTime.fromISO(b.starts_at, { zone }).toISODate()!
-        perDay.set(day, (perDay.get(day) ?? 0) + 1)
-      }
-      picks.runSheetDay = [...perDay].sort((a, b) => b[1] - a[1])[0]?.[0] ?? DateTime.now().setZone(zone).toISODate()!
-    },
-  })
+  let postgres: PostgresServer | undefined
+  let app: BuiltApp | undefined
   try {
+    if (values.postgres) {
+      const server = await startPostgres('kerfbook-bench-history-pg')
+      postgres = server
+      // Interrupted, the throwaway server stops too rather than run on in the background.
+      for (const signal of ['SIGINT', 'SIGTERM'] as const) process.once(signal, () => {
+        server.stop()
+        process.exit(130)
+      })
+    }
+    app = await startBuiltApp({
+      name: 'kerfbook-bench-history',
+      outputDir: copyDir,
+      env: { SIGN_IN_LIMIT_PER_MINUTE: '1000' },
+      postgresUrl: postgres?.url,
+      async prepare(db) {
+        const started = performance.now()
+        counts = await seedHistory(db, { jobs, days: DAYS, seed: Number(values.seed) })
+        seedSeconds = (performance.now() - started) / 1000
+        // The busiest member, the job with the longest history, and the busiest day ahead on the first cutter.
+        picks.member = (await db('bookings as b').join('users as u', 'u.id', 'b.member_id').groupBy('u.email').orderByRaw('count(*) desc').first('u.email')).email
+        picks.jobId = (await db('job_events').groupBy('job_id').orderByRaw('count(*) desc').first('job_id')).job_id
+        picks.cutterId = (await db('cutters').orderBy('id').first('id')).id
+        const zone = JSON.parse((await db('settings').where({ key: 'timeZone' }).first('value_json')).value_json)
+        const ahead = await db('bookings').where({ cutter_id: picks.cutterId, status: 'confirmed', kind: 'job' }).where('starts_at', '>', new Date().toISOString()).select('starts_at')
+        const perDay = new Map<string, number>()
+        for (const b of ahead) {
+          const day = DateTime.fromISO(b.starts_at, { zone }).toISODate()!
+          perDay.set(day, (perDay.get(day) ?? 0) + 1)
+        }
+        picks.runSheetDay = [...perDay].sort((a, b) => b[1] - a[1])[0]?.[0] ?? DateTime.now().setZone(zone).toISODate()!
+      },
+    })
     const staff = await signIn(app.baseUrl, 'staff@example.test')
     const admin = await signIn(app.baseUrl, 'admin@example.test')
     const member = await signIn(app.baseUrl, picks.member)
@@ -112,6 +127,7 @@ async function main(): Promise<void> {
       ),
     ]
     console.log(`Kerfbook history benchmark, ${new Date().toISOString()}, ${cpus().length} CPUs, Node ${process.version}`)
+    console.log(`Database: ${postgres ? 'PostgreSQL' : 'SQLite'}, ${describeLocation(app.databaseLocation)}`)
     console.log(`History: ${Object.entries(counts!).map(([k, v]) => `${v} ${k}`).join(', ')} (seeded in ${seedSeconds.toFixed(1)} s)`)
     console.log(`Each row: one warm-up read, then the median and the worst of ${TIMED_READS} timed reads.\n`)
     console.log(`${'what'.padEnd(40)} ${'status'.padStart(6)} ${'median'.padStart(9)} ${'worst'.padStart(9)} ${'size'.padStart(10)}  rows`)
@@ -127,7 +143,8 @@ async function main(): Promise<void> {
     }
     console.log(`\n${over ? `${over} reads over 500 ms or failed with a 5xx` : 'Every read within 500 ms, no 5xx'}.`)
   } finally {
-    await app.stop()
+    await app?.stop()
+    postgres?.stop()
     rmSync(copyDir, { recursive: true, force: true })
   }
 }

@@ -128,14 +128,15 @@ const demoHours: [number, number, string, string][] = [
   [1, 6, '09:00', '13:00'],
 ]
 
-const daysFromNow = (days: number, hourUtc: number) => {
-  const d = new Date()
+const daysFromNow = (now: Date, days: number, hourUtc: number) => {
+  const d = new Date(now)
   d.setUTCDate(d.getUTCDate() + days)
   d.setUTCHours(hourUtc, 0, 0, 0)
   return d.toISOString()
 }
 
-export async function seedDemoCatalog(trx: Knex): Promise<void> {
+/** The catalog of the demo workshop; its closures lie ahead of `now` and its sign-offs date from that day. */
+export async function seedDemoCatalog(trx: Knex, now = new Date()): Promise<void> {
   const cutterIds: number[] = []
   for (const cutter of demoCutters) cutterIds.push(await insertedId(trx('cutters').insert(cutter)))
 
@@ -165,13 +166,13 @@ export async function seedDemoCatalog(trx: Knex): Promise<void> {
   await trx('dxf_layer_operations').insert(demoDxfLayers)
   await trx('opening_hours').insert(demoHours.map(([cutter, weekday, opens, closes]) => ({ cutter_id: cutterIds[cutter], weekday, opens_at: opens, closes_at: closes })))
   await trx('closures').insert([
-    { cutter_id: cutterIds[1], starts_at: daysFromNow(16, 8), ends_at: daysFromNow(16, 17), reason: 'Torch service and new consumables' },
-    { cutter_id: null, starts_at: daysFromNow(30, 0), ends_at: daysFromNow(32, 0), reason: 'Workshop closed for the river festival' },
+    { cutter_id: cutterIds[1], starts_at: daysFromNow(now, 16, 8), ends_at: daysFromNow(now, 16, 17), reason: 'Torch service and new consumables' },
+    { cutter_id: null, starts_at: daysFromNow(now, 30, 0), ends_at: daysFromNow(now, 32, 0), reason: 'Workshop closed for the river festival' },
   ])
 
   const users = new Map((await trx('users').select('id', 'email')).map((u) => [u.email as string, u.id as number]))
   const staffId = users.get('staff@example.test')!
-  const today = new Date().toISOString().slice(0, 10)
+  const today = now.toISOString().slice(0, 10)
   await trx('sign_offs').insert([
     { user_id: users.get('member@example.test'), cutter_id: cutterIds[0], signed_off_on: today, signed_off_by: staffId, note: 'Laser induction, evening group' },
     { user_id: users.get('ines@example.test'), cutter_id: cutterIds[0], signed_off_on: today, signed_off_by: staffId, note: '' },

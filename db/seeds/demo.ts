@@ -28,16 +28,18 @@ export const DEMO_HISTORY = { jobs: 160, days: 182, members: 14, bookings: 260, 
 /**
  * Fills an empty database with the demo workshop. `hash` turns a password into a stored hash. With `history`, the
  * workshop has run for half a year (npm run dev, db:seed); without, it starts empty (the tests and benchmarks).
+ * `now` (the clock by default) is the instant the workshop is seeded at, so two databases seeded with one `now` hold the same rows.
  */
-export async function seedDemo(knex: Knex, hash: (password: string) => Promise<string>, options: { history?: boolean } = {}): Promise<void> {
+export async function seedDemo(knex: Knex, hash: (password: string) => Promise<string>, options: { history?: boolean; now?: Date } = {}): Promise<void> {
   const passwordHash = await hash(DEMO_PASSWORD)
-  const verifiedAt = new Date().toISOString()
+  const now = options.now ?? new Date()
+  const verifiedAt = now.toISOString()
   await knex.transaction(async (trx) => {
     await trx('users').insert(demoUsers.map((u) => ({ ...u, password_hash: passwordHash, email_verified_at: verifiedAt })))
     await trx('settings').insert(
       Object.entries(demoSettings).map(([key, value]) => ({ key, value_json: JSON.stringify(value) })),
     )
-    await seedDemoCatalog(trx)
+    await seedDemoCatalog(trx, now)
   })
-  if (options.history) await seedHistory(knex, DEMO_HISTORY)
+  if (options.history) await seedHistory(knex, { ...DEMO_HISTORY, now: options.now })
 }
