@@ -211,13 +211,13 @@ export async function collectWithCode(
   })
 }
 
-/** Jobs ready for more than `days` whose owner has not been reminded; each claimed before its mail. */
-export async function claimUncollected(db: Knex, days: number, now = new Date()): Promise<number[]> {
+/** Jobs ready for more than `days` whose owner has not been reminded yet. */
+export async function uncollectedDue(db: Knex, days: number, now = new Date()): Promise<number[]> {
   const before = new Date(now.getTime() - days * 86_400_000).toISOString()
-  const due = await db('jobs').where({ state: 'ready' }).whereNull('pickup_reminded_at').where('ready_at', '<', before).select('id')
-  const claimed: number[] = []
-  for (const { id } of due) {
-    if ((await db('jobs').where({ id }).whereNull('pickup_reminded_at').update({ pickup_reminded_at: nowIso() })) === 1) claimed.push(id)
-  }
-  return claimed
+  return (await db('jobs').where({ state: 'ready' }).whereNull('pickup_reminded_at').where('ready_at', '<', before).orderBy('id').select('id')).map((r) => r.id as number)
+}
+
+/** Claims a job's pickup reminder; false when another run claimed it first. */
+export async function claimPickupReminder(db: Knex, jobId: number): Promise<boolean> {
+  return (await db('jobs').where({ id: jobId }).whereNull('pickup_reminded_at').update({ pickup_reminded_at: nowIso() })) === 1
 }

@@ -135,4 +135,27 @@ describe('a cutting day through the API', () => {
     expect((await bench.admin.post('/api/admin/tasks/pickup-reminders')).body.sent).toBe(0)
     await waitForMail('member@example.test', /still waiting: Left on the shelf/)
   })
+
+  it('reminds about the other shelved parts when one job’s reminder can’t be written', async () => {
+    const { jobId } = await paidBooking('Shelved beside a broken row', 24)
+    await bench.staff.post(`/api/jobs/${jobId}/start`)
+    await bench.staff.post(`/api/jobs/${jobId}/finish`, { actualMinutes: 2 })
+    await bench.staff.post(`/api/jobs/${jobId}/ready`, { location: 'Rack 3' })
+    // A shelved job with no pickup code (no route makes one; a damaged row): its mail can't be drawn.
+    const [broken] = await sqlRows<{ id: number }>(
+      `insert into jobs (member_id, title, cutter_id, material_id, sheet_id, state, ready_at)
+       select member_id, 'Broken shelf row', cutter_id, material_id, sheet_id, 'ready', '2025-12-01T00:00:00.000Z' from jobs where id = ? returning id`,
+      [jobId],
+    )
+    try {
+      await sqlRows("update jobs set ready_at = '2026-01-01T00:00:00.000Z' where id = ?", [jobId])
+      expect((await bench.admin.post('/api/admin/tasks/pickup-reminders')).body.sent).toBe(1)
+      await waitForMail('member@example.test', /still waiting: Shelved beside a broken row/)
+      // The broken job stays unclaimed for a later round; the good one is not reminded twice.
+      expect((await sqlRow<{ pickup_reminded_at: string | null }>('select pickup_reminded_at from jobs where id = ?', [broken!.id]))!.pickup_reminded_at).toBeNull()
+      expect((await bench.admin.post('/api/admin/tasks/pickup-reminders')).body.sent).toBe(0)
+    } finally {
+      await sqlRows('delete from jobs where id = ?', [broken!.id])
+    }
+  })
 })
