@@ -21,6 +21,14 @@ export function utcNowSql(db: Knex): string {
   return isPostgres(db) ? `to_char(clock_timestamp() AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"')` : `strftime('%Y-%m-%dT%H:%M:%fZ','now')`
 }
 
+/** SQL for the instant `seconds` before now, in the same text form (both databases' own clock). */
+export function utcSecondsAgoSql(db: Knex, seconds: number): string {
+  if (!Number.isFinite(seconds)) throw new Error('seconds must be a number')
+  return isPostgres(db)
+    ? `to_char((clock_timestamp() - make_interval(secs => ${seconds})) AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"')`
+    : `strftime('%Y-%m-%dT%H:%M:%fZ', 'now', '-${seconds} seconds')`
+}
+
 /** Inserts one row and answers its new id (SQLite and PostgreSQL both support RETURNING). */
 export async function insertedId(query: Knex.QueryBuilder): Promise<number> {
   const [row] = (await query.returning('id')) as { id: number }[]

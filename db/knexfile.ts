@@ -34,8 +34,9 @@ export function knexConfig(location = databaseLocation()): Knex.Config {
     return {
       client: PostgresClient as unknown as typeof Knex.Client,
       connection: { connectionString: location },
-      // Each app server holds a few connections; background duties hold one for their lock (server/utils/duty-lock.ts).
-      pool: { min: 0, max: Number(process.env.DATABASE_POOL_MAX || 10) },
+      // Each app server holds a few connections. A background duty (one at a time) and a migration each hold one for
+      // their lock while they work on another, so the pool never has fewer than two.
+      pool: { min: 0, max: Math.max(2, Number(process.env.DATABASE_POOL_MAX) || 10) },
       migrations,
     }
   }

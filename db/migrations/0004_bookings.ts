@@ -17,7 +17,9 @@ BEGIN SELECT RAISE(ABORT, 'booking_overlap'); END;`
 // PostgreSQL: the same rule as one trigger function. It first takes the lock every booking write takes
 // (server/services/bookings.ts), so two transactions can't both check, find the time free and insert: the
 // second waits, and its check (a fresh snapshot, READ COMMITTED) sees the first's row. SQLite needs no lock:
-// it has one writer at a time. A row whose time, cutter, status and hold are unchanged is not checked again.
+// it has one writer at a time. A row whose time, cutter, status and hold are unchanged is not checked again (SQLite's
+// trigger re-checks every update of a live row, a payment-state change included; skipping those here is intended: a
+// ledger write then never waits for the booking lock while holding the booking's row).
 export const postgresOverlapGuard = (lowerBound: string) => `
 CREATE OR REPLACE FUNCTION bookings_no_overlap() RETURNS trigger LANGUAGE plpgsql AS $$
 BEGIN

@@ -59,7 +59,7 @@ END;`
 
 // PostgreSQL: the same keepers as trigger functions; instants are the same ISO text, turned into timestamps to
 // subtract and back into text to compare.
-// The same whole seconds as SQLite's: the length's whole seconds and one more, so never short of it.
+// The length's whole seconds and one more, as SQLite's: never short of the length (the bound is strict).
 const spanSecondsPg = (row: string) => `(floor(extract(epoch FROM (${row}.ends_at::timestamptz - ${row}.starts_at::timestamptz)))::integer + 1)`
 const postgresKeepers = `
 CREATE FUNCTION bookings_span() RETURNS trigger LANGUAGE plpgsql AS $$

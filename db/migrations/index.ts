@@ -15,7 +15,9 @@ import * as historyIndexes from './0013_history_indexes'
 import * as cutterOutages from './0014_cutter_outages'
 import * as analysisTasks from './0015_analysis_tasks'
 
-// Append-only: a schema change is a new file added at the end of this list, never an edit of a landed one.
+// Append-only: a schema change is a new file added at the end of this list, never an edit of a landed one. The one
+// exception: a PostgreSQL branch may be added to a landed migration (a PostgreSQL database always starts empty, so it
+// runs every migration as it is now), while the SQLite branch stays exactly as it ran.
 // Migrations are imported statically so the bundled server and the CLI run the same list.
 const migrations: Record<string, Knex.Migration> = {
   '0001_accounts': accounts,

@@ -7,10 +7,10 @@ import { mkdtempSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import type { Knex } from 'knex'
-import pg from 'pg'
 import { migrateLatest, openDatabase, seedDemoIfEmpty } from '../../db/index'
 import { isPostgresUrl } from '../../db/knexfile'
 import { freePort } from './free-port'
+import { createPostgresDatabase } from './postgres-server'
 import { startSmtpSink } from './smtp-sink'
 import { startStripeFake } from './stripe-fake/index'
 
@@ -55,21 +55,6 @@ export interface BuiltAppOptions {
   sharedDatabase?: string
   /** The key sealing session cookies; app servers behind one address share it. A new random one by default. */
   sessionPassword?: string
-}
-
-/** Creates an empty database named after the app on the PostgreSQL server; answers its URL. */
-async function createPostgresDatabase(serverUrl: string, name: string): Promise<string> {
-  const database = `${name.replace(/[^a-z0-9]+/gi, '_').toLowerCase()}_${randomBytes(4).toString('hex')}`
-  const client = new pg.Client({ connectionString: serverUrl })
-  await client.connect()
-  try {
-    await client.query(`CREATE DATABASE ${database}`)
-  } finally {
-    await client.end()
-  }
-  const url = new URL(serverUrl)
-  url.pathname = `/${database}`
-  return url.toString()
 }
 
 async function waitForServer(url: string, child: ChildProcess, timeoutMs = 60_000): Promise<void> {

@@ -3,18 +3,36 @@
 // Uses the server programs of Debian's `postgresql` package (POSTGRES_BINDIR overrides where they are). As root it
 // runs them as the `postgres` account, since PostgreSQL refuses to run as root.
 import { execFileSync, spawnSync } from 'node:child_process'
+import { randomBytes } from 'node:crypto'
 import { chmodSync, chownSync, existsSync, mkdtempSync, readdirSync, rmSync } from 'node:fs'
 import { tmpdir, userInfo } from 'node:os'
 import { join } from 'node:path'
+import pg from 'pg'
 import { freePort } from './free-port'
 
 export interface PostgresServer {
-  /** postgres://…/postgres, the maintenance database; createDatabase() makes fresh ones. */
+  /** postgres://…/postgres, the maintenance database; createPostgresDatabase() makes fresh ones. */
   url: string
   port: number
-  /** Creates an empty database and answers its URL. */
-  createDatabase(name: string): string
   stop(): void
+}
+
+/**
+ * Creates an empty database named `prefix` and a random suffix on the server at `serverUrl` (its maintenance
+ * database's URL); `options` are CREATE DATABASE's own (a template, a locale). Answers the new database's URL.
+ */
+export async function createPostgresDatabase(serverUrl: string, prefix: string, options = ''): Promise<string> {
+  const database = `${prefix.replace(/[^a-z0-9]+/gi, '_').toLowerCase()}_${randomBytes(4).toString('hex')}`
+  const client = new pg.Client({ connectionString: serverUrl })
+  await client.connect()
+  try {
+    await client.query(`CREATE DATABASE ${database} ${options}`)
+  } finally {
+    await client.end()
+  }
+  const url = new URL(serverUrl)
+  url.pathname = `/${database}`
+  return url.toString()
 }
 
 /** The folder holding initdb, pg_ctl and postgres, or undefined when PostgreSQL's server is not installed. */
@@ -59,10 +77,5 @@ export async function startPostgres(name = 'kerfbook-pg'): Promise<PostgresServe
     spawnSync(asRoot ? 'runuser' : join(bin, 'pg_ctl'), asRoot ? ['-u', 'postgres', '--', join(bin, 'pg_ctl'), '-D', data, '-m', 'fast', '-w', 'stop'] : ['-D', data, '-m', 'fast', '-w', 'stop'], { cwd: dir })
     rmSync(dir, { recursive: true, force: true })
   }
-  const createDatabase = (database: string) => {
-    if (!/^[a-z][a-z0-9_]*$/.test(database)) throw new Error(`Not a plain database name: ${database}`)
-    run('psql', ['-h', '127.0.0.1', '-p', String(port), '-U', 'kerfbook', '-d', 'postgres', '-v', 'ON_ERROR_STOP=1', '-q', '-c', `CREATE DATABASE ${database}`])
-    return `${base}/${database}`
-  }
-  return { url: `${base}/postgres`, port, createDatabase, stop }
+  return { url: `${base}/postgres`, port, stop }
 }

@@ -12,16 +12,20 @@ const HEARTBEAT_MS = 1000
 export default defineNitroPlugin((nitro) => {
   if (analysisRole() !== 'worker') return
   const capacity = Number(process.env.ANALYSIS_WORKER_TASKS) || Math.max(1, availableParallelism())
-  let running = 0
   let stopped = false
+  // The tasks running here: stopping the server calls them off; their heartbeats end, and once they are 15 s old
+  // another worker takes them.
+  const running = new Set<AbortController>()
   nitro.hooks.hook('close', () => {
     stopped = true
+    for (const controller of running) controller.abort(new Error('The worker server is stopping.'))
   })
 
   async function run(task: ClaimedTask): Promise<void> {
     const db = useDb()
     const ownerKey = `task:${task.id}`
     const controller = new AbortController()
+    running.add(controller)
     const heartbeat = setInterval(() => {
       beat(db, task.id, analysisQueueFor(ownerKey).running[0]?.stage ?? null)
         .then((mine) => mine || controller.abort(new Error('The task was called off.')))
@@ -35,6 +39,7 @@ export default defineNitroPlugin((nitro) => {
       if (!controller.signal.aborted) await finishTask(db, task.id, { error })
     } finally {
       clearInterval(heartbeat)
+      running.delete(controller)
     }
   }
 
@@ -45,15 +50,12 @@ export default defineNitroPlugin((nitro) => {
       return
     }
     while (!stopped) {
-      const task = running < capacity ? await claimTask(useDb()).catch((error) => console.error('[analysis worker] claim failed:', error)) : undefined
+      const task = running.size < capacity ? await claimTask(useDb()).catch((error) => console.error('[analysis worker] claim failed:', error)) : undefined
       if (!task) {
         await sleep(POLL_MS)
         continue
       }
-      running++
-      run(task)
-        .catch((error) => console.error('[analysis worker] task failed:', error))
-        .finally(() => running--)
+      run(task).catch((error) => console.error('[analysis worker] task failed:', error))
     }
   }
   loop().catch((error) => console.error('[analysis worker] stopped:', error))

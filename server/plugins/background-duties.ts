@@ -15,11 +15,22 @@ const REMINDER_MS = Number(process.env.KERFBOOK_DUTY_EVERY_MS) || 10 * 60_000
 
 export default defineNitroPlugin((nitro) => {
   if (process.env.KERFBOOK_REMINDERS === 'off') return
+  // One duty at a time in this process: on PostgreSQL each holds a pooled connection for its lock while it works
+  // on others, so duties side by side could take the whole pool. A duty already waiting its turn is not queued twice.
+  let turn: Promise<unknown> = Promise.resolve()
+  const waiting = new Set<string>()
   const every = (ms: number, name: string, duty: () => Promise<unknown>) => {
     const timer = setInterval(() => {
-      databaseReady()
-        .then(() => runAlone(useDb(), name, duty))
+      if (waiting.has(name)) return
+      waiting.add(name)
+      turn = turn
+        .then(() => databaseReady())
+        .then(() => {
+          waiting.delete(name)
+          return runAlone(useDb(), name, duty)
+        })
         .catch((error) => console.error(`[${name}] failed:`, error))
+        .finally(() => waiting.delete(name))
     }, ms)
     timer.unref()
     nitro.hooks.hook('close', () => clearInterval(timer))

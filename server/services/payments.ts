@@ -5,7 +5,7 @@ import { Conflict, DomainError, InvalidInput, NotFound } from '../utils/errors'
 import { nowIso } from '../utils/rows'
 import { serverConfig } from '../utils/config'
 import { useStripe } from '../utils/stripe'
-import type { BookingRow } from './bookings'
+import { inBookingTransaction, type BookingRow } from './bookings'
 import { getCutter } from './catalog/cutters'
 import { transitionJob } from './job-states'
 import { currentFiles, jobEstimate, type JobRow } from './jobs'
@@ -209,7 +209,9 @@ export async function syncPaymentIntent(
   const heldBefore = await db('payment_ledger').where({ ledger_key: `auth:${intent.id}` }).first('id')
   if (intent.status === 'canceled' && heldBefore) await note('released', intent.amount - intent.amount_received, `release:${intent.id}`)
   if (intent.status === 'requires_capture' && booking.status === 'held') {
-    await db('bookings').where({ id: booking.id, status: 'held' }).update({ status: 'confirmed', hold_expires_at: null, updated_at: nowIso() })
+    // Through the booking transaction, so it takes the booking lock before the row, in the order a move takes them.
+    await inBookingTransaction(db, booking.cutter_id, (trx) =>
+      trx('bookings').where({ id: booking.id, status: 'held' }).update({ status: 'confirmed', hold_expires_at: null, updated_at: nowIso() }))
   }
   return { booking: (await db<PaidBooking>('bookings').where({ id: booking.id }).first())!, newKinds }
 }

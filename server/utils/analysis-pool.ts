@@ -7,7 +7,7 @@ import Piscina from 'piscina'
 import type { AnalysisParams, AnalysisResult, CutFileFormat } from '../analysis/index'
 import type { SheetTask } from '../analysis/sheetSvg'
 import type { AnalysisTask, WorkerMessage } from '../workers/analysis.worker'
-import { runInQueue, sendsToQueue } from './analysis-remote'
+import { analysisRole, runInQueue, sendsToQueue } from './analysis-remote'
 import { useDb } from './db'
 import { DomainError, TooManyRequests } from './errors'
 
@@ -205,7 +205,6 @@ const MAX_WAITING_PER_OWNER = 10
 // (three threads) ended all four 30 % sooner but raised the peak RSS from 0.87 to 1.3 GB and the calendar's
 // p99 from 181 to 257 ms, as the request thread lost its share of a core.
 const THREADS = Math.max(2, availableParallelism())
-const HEAVY_THREADS = THREADS - 1
 
 interface WorkerInput {
   text: string
@@ -265,9 +264,13 @@ function runAnalysis(input: WorkerInput, control: TaskControl): Promise<PackedAn
   return sendsToQueue(useDb()) ? runInQueue(useDb(), input, control) : runInWorker(input, control)
 }
 
+// An app server that hands its analyses to worker servers (ANALYSIS_ROLE=queue) keeps as many in flight as
+// ANALYSIS_QUEUE_TASKS says (the workers' capacity), not as many as its own cores; heavy files on all but one.
+const IN_FLIGHT = analysisRole() === 'queue' ? Math.max(2, Number(process.env.ANALYSIS_QUEUE_TASKS) || THREADS) : THREADS
+
 const analysisQueue = new FairQueue<WorkerInput, PackedAnalysis>(runAnalysis, {
-  threads: THREADS,
-  heavyThreads: HEAVY_THREADS,
+  threads: IN_FLIGHT,
+  heavyThreads: IN_FLIGHT - 1,
   runningLimitMs: RUNNING_LIMIT_MS,
   maxWaitingPerOwner: MAX_WAITING_PER_OWNER,
 })

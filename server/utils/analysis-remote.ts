@@ -8,7 +8,7 @@
 import { hostname } from 'node:os'
 import { setTimeout as sleep } from 'node:timers/promises'
 import type { Knex } from 'knex'
-import { insertedId, isPostgres } from '../../db/dialect'
+import { insertedId, isPostgres, utcNowSql, utcSecondsAgoSql } from '../../db/dialect'
 import type { AnalysisParams, CutFileFormat } from '../analysis/index'
 import type { PackedAnalysis, TaskControl } from './analysis-pool'
 import { DomainError } from './errors'
@@ -25,7 +25,7 @@ export interface RemoteTaskInput {
 
 /** How often the waiting app server looks at its task, and a worker at the queue. */
 export const POLL_MS = 100
-/** A running task whose worker has not beaten its heartbeat for this long is handed out again. */
+/** A running task whose worker has not beaten its heartbeat for this long (by the database's clock) is handed out again. */
 export const SILENT_WORKER_MS = 15_000
 
 export function analysisRole(env = process.env): AnalysisRole {
@@ -63,13 +63,17 @@ export async function runInQueue(db: Knex, input: RemoteTaskInput, control: Task
   try {
     for (;;) {
       control.signal.throwIfAborted()
-      const task = await db('analysis_tasks').where({ id }).first('status', 'stage', 'heartbeat_at', 'claimed_by')
+      const task = await db('analysis_tasks').where({ id }).first('status', 'stage')
       if (!task) throw new DomainError('The analysis was called off. Upload the file again.', 409)
       if (task.stage) control.onStage(task.stage)
       if (task.status === 'done' || task.status === 'failed') return await outcomeOf(db, id)
-      if (task.status === 'running' && Date.parse(task.heartbeat_at) < Date.now() - SILENT_WORKER_MS) {
-        // Its worker went silent (stopped, or cut off): back in the queue for another.
-        await db('analysis_tasks').where({ id, status: 'running', claimed_by: task.claimed_by }).update({ status: 'queued', claimed_by: null, stage: null, updated_at: nowIso() })
+      if (task.status === 'running') {
+        // Its worker went silent (stopped, or cut off): back in the queue for another. Heartbeats and this test
+        // both read the database's clock, so machines whose clocks differ can't call a live worker silent.
+        await db('analysis_tasks')
+          .where({ id, status: 'running' })
+          .where('heartbeat_at', '<', db.raw(utcSecondsAgoSql(db, SILENT_WORKER_MS / 1000)))
+          .update({ status: 'queued', claimed_by: null, stage: null, updated_at: nowIso() })
       }
       await sleep(POLL_MS, undefined, { signal: control.signal }).catch(() => undefined)
     }
@@ -95,12 +99,11 @@ export interface ClaimedTask {
 
 /** Takes the oldest queued task for this worker, or none; two workers never take the same one. */
 export async function claimTask(db: Knex, worker = workerName()): Promise<ClaimedTask | undefined> {
-  const now = nowIso()
   const { rows } = await db.raw<{ rows: { id: number; label: string; input_text: string; params_json: string }[] }>(
-    `UPDATE analysis_tasks SET status = 'running', claimed_by = ?, heartbeat_at = ?, updated_at = ?
+    `UPDATE analysis_tasks SET status = 'running', claimed_by = ?, heartbeat_at = ${utcNowSql(db)}, updated_at = ?
      WHERE id = (SELECT id FROM analysis_tasks WHERE status = 'queued' ORDER BY id LIMIT 1 FOR UPDATE SKIP LOCKED)
      RETURNING id, label, input_text, params_json`,
-    [worker, now, now],
+    [worker, nowIso()],
   )
   const row = rows[0]
   if (!row) return undefined
@@ -110,7 +113,7 @@ export async function claimTask(db: Knex, worker = workerName()): Promise<Claime
 
 /** The worker's heartbeat and current stage; false when the task is gone or no longer this worker's (stop it). */
 export async function beat(db: Knex, id: number, stage: string | null, worker = workerName()): Promise<boolean> {
-  const updated = await db('analysis_tasks').where({ id, status: 'running', claimed_by: worker }).update({ heartbeat_at: nowIso(), stage })
+  const updated = await db('analysis_tasks').where({ id, status: 'running', claimed_by: worker }).update({ heartbeat_at: db.raw(utcNowSql(db)), stage })
   return updated === 1
 }
 

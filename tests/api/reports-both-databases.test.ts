@@ -6,17 +6,16 @@
 // in a database with byte-wise text order, as the README has it created (and as SQLite compares text), and in one whose
 // text sorts by a language's rules (ICU en-US), as a database created with a server's usual defaults would: these
 // answers must not depend on that step being followed. Runs in `npm run test:postgres` only: it needs a PostgreSQL server.
-import { randomBytes } from 'node:crypto'
 import { mkdtempSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import type { Knex } from 'knex'
 import { DateTime } from 'luxon'
-import pg from 'pg'
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import type { SessionUser } from '#shared/roles'
 import type { ReportName } from '#shared/schemas/reports'
 import { migrateLatest, openDatabase } from '../../db/index'
+import { createPostgresDatabase } from '../../scripts/lib/postgres-server'
 import { hashPasswordOffline } from '../../db/password-hash'
 import { demoSettings, seedDemo } from '../../db/seeds/demo'
 import { seedHistory, type HistoryCounts } from '../../db/seeds/history'
@@ -51,21 +50,6 @@ type Answers = Map<string, unknown>
 const POSTGRES_DATABASES: Record<string, string> = {
   PostgreSQL: '',
   'PostgreSQL, ICU en-US collation': `TEMPLATE template0 LOCALE_PROVIDER icu ICU_LOCALE 'en-US' LOCALE 'C.UTF-8'`,
-}
-
-/** A new database on the PostgreSQL server (as scripts/lib/built-app.ts gives each app its own); answers its URL. */
-async function createPostgresDatabase(serverUrl: string, options: string): Promise<string> {
-  const name = `kerfbook_reports_${randomBytes(4).toString('hex')}`
-  const client = new pg.Client({ connectionString: serverUrl })
-  await client.connect()
-  try {
-    await client.query(`CREATE DATABASE ${name} ${options}`)
-  } finally {
-    await client.end()
-  }
-  const url = new URL(serverUrl)
-  url.pathname = `/${name}`
-  return url.toString()
 }
 
 /**
@@ -171,7 +155,7 @@ describe.skipIf(!postgresUrl)('reports and lists on SQLite and PostgreSQL over t
     const onSqlite = await seeded(join(sqliteDir, 'history.sqlite'))
     sqlite = onSqlite.db
     for (const [database, options] of Object.entries(POSTGRES_DATABASES)) {
-      const onPostgres = await seeded(await createPostgresDatabase(postgresUrl!, options))
+      const onPostgres = await seeded(await createPostgresDatabase(postgresUrl!, 'kerfbook_reports', options))
       postgres.set(database, onPostgres.db)
       expect(onPostgres.counts, database).toEqual(onSqlite.counts)
     }
