@@ -61,10 +61,13 @@ export async function startPostgres(name = 'kerfbook-pg'): Promise<PostgresServe
     chownSync(dir, uid, gid)
     chmodSync(dir, 0o700)
   }
+  // A server program, as the `postgres` account when this runs as root.
+  const spawnProgram = (program: string, args: string[]) =>
+    asRoot
+      ? spawnSync('runuser', ['-u', 'postgres', '--', join(bin, program), ...args], { encoding: 'utf8', cwd: dir })
+      : spawnSync(join(bin, program), args, { encoding: 'utf8', cwd: dir })
   const run = (program: string, args: string[]) => {
-    const command = asRoot ? 'runuser' : join(bin, program)
-    const full = asRoot ? ['-u', 'postgres', '--', join(bin, program), ...args] : args
-    const result = spawnSync(command, full, { encoding: 'utf8', cwd: dir })
+    const result = spawnProgram(program, args)
     if (result.status !== 0) throw new Error(`${program} failed (${result.status}): ${result.stderr || result.stdout}`)
   }
   const port = await freePort()
@@ -74,7 +77,7 @@ export async function startPostgres(name = 'kerfbook-pg'): Promise<PostgresServe
   run('pg_ctl', ['-D', data, '-l', join(dir, 'server.log'), '-o', options, '-w', 'start'])
   const base = `postgres://kerfbook@127.0.0.1:${port}`
   const stop = () => {
-    spawnSync(asRoot ? 'runuser' : join(bin, 'pg_ctl'), asRoot ? ['-u', 'postgres', '--', join(bin, 'pg_ctl'), '-D', data, '-m', 'fast', '-w', 'stop'] : ['-D', data, '-m', 'fast', '-w', 'stop'], { cwd: dir })
+    spawnProgram('pg_ctl', ['-D', data, '-m', 'fast', '-w', 'stop'])
     rmSync(dir, { recursive: true, force: true })
   }
   return { url: `${base}/postgres`, port, stop }

@@ -4,21 +4,10 @@
 // Runs in `npm run test:postgres` only.
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import { startBuiltApp, type BuiltApp } from '../../scripts/lib/built-app'
-import { signedIn, sqlRows } from './helpers'
+import { SQUARE_100_MM } from '../fixtures/svg'
+import { signedIn, sqlRows, svgForm } from './helpers'
 
 const postgresUrl = inject('postgresUrl')
-
-// A 100 mm square with a 40 mm hole: cut length 400 + 40π mm, two pierces (plane geometry).
-const SQUARE_WITH_HOLE = `<svg xmlns="http://www.w3.org/2000/svg" width="120mm" height="120mm" viewBox="0 0 120 120">
-  <rect x="10" y="10" width="100" height="100" fill="none" stroke="#ff6a00"/>
-  <circle cx="60" cy="60" r="20" fill="none" stroke="#ff6a00"/>
-</svg>`
-
-function svgForm(svg: string, filename = 'part.svg') {
-  const form = new FormData()
-  form.set('file', new Blob([svg], { type: 'image/svg+xml' }), filename)
-  return form
-}
 
 describe.skipIf(!postgresUrl)('analyses on a worker server through the database', () => {
   let front: BuiltApp
@@ -35,7 +24,7 @@ describe.skipIf(!postgresUrl)('analyses on a worker server through the database'
 
   it('waits in the queue until a worker takes it, then answers as a local analysis does', async () => {
     const member = await signedIn('member@example.test', undefined, front.baseUrl)
-    const pending = member.form('/api/analysis', svgForm(SQUARE_WITH_HOLE))
+    const pending = member.form('/api/analysis', svgForm(SQUARE_100_MM))
     // No worker yet: the task sits in the table and the upload has no answer.
     let queued: { status: string; label: string }[] = []
     for (let i = 0; i < 50 && queued.length === 0; i++) {
@@ -52,7 +41,7 @@ describe.skipIf(!postgresUrl)('analyses on a worker server through the database'
     expect(answer.body.cut.lengthMm).toBeCloseTo(400 + 40 * Math.PI, 3)
     expect(answer.body.cut.pierces).toBe(2)
     // The same file on the tests' own server (a local analysis): the same figures.
-    const local = await (await signedIn('member@example.test')).form('/api/analysis', svgForm(SQUARE_WITH_HOLE))
+    const local = await (await signedIn('member@example.test')).form('/api/analysis', svgForm(SQUARE_100_MM))
     expect(answer.body).toEqual(local.body)
     // The answer taken, the task is gone.
     expect(await sqlRows('select id from analysis_tasks', [], front.databaseLocation)).toEqual([])
@@ -61,8 +50,8 @@ describe.skipIf(!postgresUrl)('analyses on a worker server through the database'
   it('gives the engine’s refusal of a bad file through the queue, as a 4xx with its message', async () => {
     const member = await signedIn('member@example.test', undefined, front.baseUrl)
     const broken = '<svg xmlns="http://www.w3.org/2000/svg" width="10mm" height="10mm"><rect x="1" y="1" width="5" height="5" fill="none" stroke="#ff6a00"/>'
-    const remote = await member.form('/api/analysis', svgForm(broken, 'broken.svg'))
-    const local = await (await signedIn('member@example.test')).form('/api/analysis', svgForm(broken, 'broken.svg'))
+    const remote = await member.form('/api/analysis', svgForm(broken, {}, 'broken.svg'))
+    const local = await (await signedIn('member@example.test')).form('/api/analysis', svgForm(broken, {}, 'broken.svg'))
     expect(local.status).toBeGreaterThanOrEqual(400)
     expect(local.status).toBeLessThan(500)
     expect(remote.status).toBe(local.status)

@@ -1,19 +1,8 @@
 import { gunzipSync } from 'node:zlib'
 import { describe, expect, it } from 'vitest'
 import { decodeGeometry, decodeSites } from '../../shared/packed-analysis'
-import { client, signedIn } from './helpers'
-
-const SQUARE_100_MM = `<svg xmlns="http://www.w3.org/2000/svg" width="120mm" height="120mm" viewBox="0 0 120 120">
-  <rect x="10" y="10" width="100" height="100" fill="none" stroke="#ff6a00"/>
-  <circle cx="60" cy="60" r="20" fill="none" stroke="#ff6a00"/>
-</svg>`
-
-function svgForm(svg: string | Blob, fields: Record<string, string | number> = {}, filename = 'part.svg') {
-  const form = new FormData()
-  form.set('file', typeof svg === 'string' ? new Blob([svg], { type: 'image/svg+xml' }) : svg, filename)
-  for (const [key, value] of Object.entries(fields)) form.set(key, String(value))
-  return form
-}
+import { SQUARE_100_MM } from '../fixtures/svg'
+import { client, signedIn, svgForm } from './helpers'
 
 async function catalogIds(cutterPrefix: string, materialName: string, thicknessMm: number) {
   const member = await signedIn('member@example.test')

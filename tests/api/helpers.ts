@@ -20,6 +20,14 @@ export function appDb(location = inject('databaseLocation')): Knex {
   return db
 }
 
+/** A cut file as a browser upload sends it (multipart, field "file"), with any other fields of the form. */
+export function svgForm(svg: string | Blob, fields: Record<string, string | number> = {}, filename = 'part.svg'): FormData {
+  const form = new FormData()
+  form.set('file', typeof svg === 'string' ? new Blob([svg], { type: 'image/svg+xml' }) : svg, filename)
+  for (const [key, value] of Object.entries(fields)) form.set(key, String(value))
+  return form
+}
+
 /** Rows of one SQL statement (`?` placeholders) on the app's database, whichever it is. */
 export async function sqlRows<T = any>(sql: string, params: readonly unknown[] = [], location = inject('databaseLocation')): Promise<T[]> {
   const db = appDb(location)
